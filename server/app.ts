@@ -1,0 +1,88 @@
+import express, { type Express } from 'express'
+import session from 'express-session'
+import MySQLStoreFactory from 'express-mysql-session'
+import helmet from 'helmet'
+import path from 'node:path'
+import fs from 'node:fs'
+import { fileURLToPath } from 'node:url'
+import type { AppContext } from './context'
+import { configurePassport } from './auth/passport'
+import { requestId } from './middleware/request-id'
+import { originCheck } from './middleware/origin-check'
+import { apiNotFound, errorHandler } from './middleware/error-handler'
+import { authRoutes } from './routes/auth'
+import { userRoutes } from './routes/users'
+import { mailRoutes } from './routes/mail'
+import { searchRoutes } from './routes/search'
+import { healthRoutes } from './routes/health'
+import { channelRoutes } from './routes/channels'
+
+const MySQLStore = MySQLStoreFactory(session as never)
+
+/** Where the built client lives (dist/client at the project root, from server/ or dist/server/). */
+function findClientDir(): string {
+  const here = path.dirname(fileURLToPath(import.meta.url))
+  for (const c of [path.resolve(here, '../dist/client'), path.resolve(here, '../client'), path.resolve(process.cwd(), 'dist/client')]) {
+    if (fs.existsSync(path.join(c, 'index.html'))) return c
+  }
+  return path.resolve(process.cwd(), 'dist/client')
+}
+
+/** Build the Express app without listening (tests drive it with supertest). */
+export function createApp(ctx: AppContext): { app: Express; close: () => Promise<void> } {
+  const app = express()
+  app.disable('x-powered-by')
+  app.set('trust proxy', 'loopback')
+
+  const store = new MySQLStore({ createDatabaseTable: false, clearExpired: true, checkExpirationInterval: 15 * 60 * 1000 }, ctx.pool as never)
+  const pp = configurePassport(ctx.db)
+
+  app.use(helmet({
+    contentSecurityPolicy: {
+      directives: {
+        'default-src': ["'self'"],
+        'img-src': ["'self'", 'data:', 'blob:'],
+        'style-src': ["'self'", "'unsafe-inline'"],
+        'font-src': ["'self'", 'data:'],
+        'connect-src': ["'self'"],
+        'media-src': ["'self'", 'blob:'],
+        'upgrade-insecure-requests': null,
+      },
+    },
+    strictTransportSecurity: false,
+  }))
+  app.use(requestId)
+  app.use('/api', express.json({ limit: '1mb' }))
+  app.use('/api', session({
+    name: 'sid',
+    secret: ctx.env.SESSION_SECRET,
+    store,
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600 * 1000 },
+  }))
+  app.use('/api', pp.initialize(), pp.session())
+  app.use('/api', originCheck)
+
+  app.use('/api/health', healthRoutes(ctx))
+  app.use('/api/auth', authRoutes(ctx, pp))
+  app.use('/api/users', userRoutes(ctx))
+  app.use('/api/mail', mailRoutes(ctx))
+  app.use('/api/search', searchRoutes(ctx))
+  app.use('/api/channels', channelRoutes())
+  app.use('/api', apiNotFound)
+
+  const clientDir = findClientDir()
+  app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: (res, p) => {
+    if (p.endsWith('index.html')) res.setHeader('Cache-Control', 'no-cache')
+  } }))
+  app.get('/{*splat}', (_req, res) => {
+    const index = path.join(clientDir, 'index.html')
+    if (fs.existsSync(index)) res.setHeader('Cache-Control', 'no-cache').sendFile(index)
+    else res.status(503).type('text').send('The client is not built yet: run `npm start` (or `npm run build`).')
+  })
+
+  app.use(errorHandler(ctx.log))
+  return { app, close: async () => { await store.close() } }
+}

@@ -1,0 +1,4 @@
+export * from './users'
+export * from './sessions'
+export * from './mail'
+export * from './audit'

@@ -1,0 +1,77 @@
+import { randomBytes } from 'node:crypto'
+import fs from 'node:fs'
+import path from 'node:path'
+import net from 'node:net'
+import { loadEnv } from './env'
+import { createDb } from './db/client'
+import { createApp } from './app'
+import { startMailSink } from './services/mail-sink'
+import { MailWorker } from './services/mail'
+import type { AppContext } from './context'
+
+/** Keep one session secret per data dir so restarts keep people signed in. */
+function sessionSecret(dataDir: string): string {
+  if (process.env.SESSION_SECRET) return process.env.SESSION_SECRET
+  const file = path.join(dataDir, 'session-secret')
+  if (!fs.existsSync(file)) {
+    fs.mkdirSync(dataDir, { recursive: true })
+    fs.writeFileSync(file, randomBytes(32).toString('hex'), { mode: 0o600 })
+  }
+  return fs.readFileSync(file, 'utf8').trim()
+}
+
+function tcpAnswers(host: string, port: number): Promise<boolean> {
+  return new Promise((resolve) => {
+    const s = net.connect({ host, port, timeout: 1000 }, () => { s.end(); resolve(true) })
+    s.on('error', () => resolve(false)).on('timeout', () => { s.destroy(); resolve(false) })
+  })
+}
+
+async function main() {
+  const dataDir = process.env.DATA_DIR ?? '.data'
+  const env = loadEnv({ ...process.env, SESSION_SECRET: sessionSecret(dataDir) })
+  const log = env.LOG_LEVEL === 'silent' ? () => {} : (m: string) => console.error(`[overtone] ${m}`)
+  const { pool, db } = createDb(env.DATABASE_URL, 20)
+
+  let smtpUrl = env.SMTP_URL
+  let sink: Awaited<ReturnType<typeof startMailSink>> | undefined
+  if (!smtpUrl) {
+    sink = await startMailSink(db, env.SMTP_SINK_PORT, log)
+    smtpUrl = `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`
+    log(`local SMTP sink on 127.0.0.1:${sink.port} (messages appear under Admin → Mail outbox)`)
+  }
+  const smtp = new URL(smtpUrl)
+  const worker = new MailWorker(db, smtpUrl, env.MAIL_FROM, log)
+  worker.start()
+
+  const ctx: AppContext = {
+    db, pool, env, log, startedAt: Date.now(),
+    publicUrl: (env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`).replace(/\/$/, ''),
+    mailUp: () => tcpAnswers(smtp.hostname, Number(smtp.port || 25)),
+  }
+  const { app, close } = createApp(ctx)
+  const server = app.listen(env.PORT, env.HOST, () => {
+    log(`Overtone is running at ${ctx.publicUrl}`)
+  })
+
+  let stopping = false
+  const stop = async (signal: string) => {
+    if (stopping) return
+    stopping = true
+    log(`${signal}: shutting down`)
+    server.close()
+    server.closeAllConnections?.()
+    await worker.stop()
+    await sink?.close()
+    await close()
+    await pool.end()
+    process.exit(0)
+  }
+  process.on('SIGINT', () => void stop('SIGINT'))
+  process.on('SIGTERM', () => void stop('SIGTERM'))
+}
+
+main().catch((err) => {
+  console.error(err instanceof Error ? err.message : err)
+  process.exit(1)
+})

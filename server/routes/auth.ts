@@ -1,0 +1,62 @@
+import { Router } from 'express'
+import type passport from 'passport'
+import { rateLimit } from 'express-rate-limit'
+import { loginSchema, changePasswordSchema, acceptInviteSchema } from '../../shared/schemas/auth'
+import type { AppContext } from '../context'
+import { parse } from '../middleware/validate'
+import { currentUser, requireUser } from '../auth/guards'
+import { acceptInvitation, changePassword, describeInvitation, toPublicUser } from '../services/users'
+import { UnauthorizedError, AppError } from '../errors'
+import type { User } from '../db/schema/index'
+
+export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router {
+  const r = Router()
+
+  // Failed sign-ins per address and e-mail in a 10-minute window; successful ones do not count.
+  const loginLimiter = rateLimit({
+    windowMs: 10 * 60 * 1000,
+    limit: ctx.env.LOGIN_MAX_FAILURES,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => `${req.ip}|${String(req.body?.email ?? '').toLowerCase().slice(0, 190)}`,
+    handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', 'Too many failed sign-ins. Wait ten minutes and try again.')),
+  })
+
+  r.post('/login', loginLimiter, (req, res, next) => {
+    req.body = parse(loginSchema, req.body)
+    pp.authenticate('local', (err: unknown, user: User | false) => {
+      if (err) return next(err)
+      if (!user) return next(new UnauthorizedError('E-mail or password is not right, or the account is not active.'))
+      // passport 0.7 regenerates the session id here (no session fixation).
+      req.login(user, (e) => (e ? next(e) : res.json({ user: toPublicUser(user) })))
+    })(req, res, next)
+  })
+
+  r.post('/logout', (req, res, next) => {
+    req.logout((err) => {
+      if (err) return next(err)
+      req.session.destroy(() => { res.clearCookie('sid'); res.status(204).end() })
+    })
+  })
+
+  r.get('/me', requireUser, (req, res) => { res.json({ user: toPublicUser(currentUser(req)) }) })
+
+  r.post('/password', requireUser, async (req, res) => {
+    const input = parse(changePasswordSchema, req.body)
+    await changePassword(ctx.db, currentUser(req), input.currentPassword, input.newPassword)
+    res.status(204).end()
+  })
+
+  r.get('/invite/:token', async (req, res) => {
+    res.json(await describeInvitation(ctx.db, String(req.params.token).slice(0, 200)))
+  })
+
+  r.post('/accept-invite', async (req, res, next) => {
+    const input = parse(acceptInviteSchema, req.body)
+    const user = await acceptInvitation(ctx.db, input.token, input.password)
+    req.login(user, (e) => (e ? next(e) : res.json({ user: toPublicUser(user) })))
+  })
+
+  return r
+}

@@ -1,0 +1,90 @@
+import nodemailer, { type Transporter } from 'nodemailer'
+import { and, asc, eq, lte, desc } from 'drizzle-orm'
+import { mailQueue, mailReceived } from '../db/schema/index'
+import type { Db } from '../db/client'
+import type { DbOrTx } from './audit'
+import type { MailMessage, MailSummary } from '../../shared/types'
+
+export interface OutgoingMail { to: string; subject: string; text: string; html?: string }
+
+/** Queue a message. Call inside the user's transaction: the mail goes out only if the action commits. */
+export async function queueMail(tx: DbOrTx, mail: OutgoingMail): Promise<void> {
+  await tx.insert(mailQueue).values({ toAddress: mail.to, subject: mail.subject, textBody: mail.text, htmlBody: mail.html ?? null })
+}
+
+/** Retry delays after a failed attempt (seconds); after the last one the message is marked failed. */
+const BACKOFF_S = [5, 30, 120, 600, 1800, 3600]
+
+/**
+ * Sends queued mail in the background with retry. A mail server that is down never fails a user
+ * action; messages stay queued and go out when it is back. The outbox shows every state.
+ */
+export class MailWorker {
+  private timer: NodeJS.Timeout | undefined
+  private running = false
+  private transport: Transporter
+
+  constructor(private db: Db, smtpUrl: string, private from: string, private log: (m: string) => void, private intervalMs = 1000) {
+    this.transport = nodemailer.createTransport(smtpUrl)
+  }
+
+  start(): void {
+    this.timer = setInterval(() => void this.tick(), this.intervalMs)
+    this.timer.unref()
+  }
+
+  async stop(): Promise<void> {
+    clearInterval(this.timer)
+    while (this.running) await new Promise((r) => setTimeout(r, 20))
+    this.transport.close()
+  }
+
+  /** Try every due message once. Returns the number sent. */
+  async tick(): Promise<number> {
+    if (this.running) return 0
+    this.running = true
+    let sent = 0
+    try {
+      const due = await this.db.select().from(mailQueue)
+        .where(and(eq(mailQueue.status, 'queued'), lte(mailQueue.nextAttemptAt, new Date())))
+        .orderBy(asc(mailQueue.id)).limit(20)
+      for (const m of due) {
+        try {
+          await this.transport.sendMail({ from: this.from, to: m.toAddress, subject: m.subject, text: m.textBody, html: m.htmlBody ?? undefined })
+          await this.db.update(mailQueue).set({ status: 'sent', sentAt: new Date(), attempts: m.attempts + 1, lastError: null }).where(eq(mailQueue.id, m.id))
+          sent++
+        } catch (err) {
+          const attempts = m.attempts + 1
+          const delay = BACKOFF_S[attempts - 1]
+          await this.db.update(mailQueue).set({
+            attempts, lastError: String((err as Error).message ?? err).slice(0, 500),
+            status: delay === undefined ? 'failed' : 'queued',
+            nextAttemptAt: new Date(Date.now() + (delay ?? 0) * 1000),
+          }).where(eq(mailQueue.id, m.id))
+        }
+      }
+    } catch (err) {
+      this.log(`mail worker: ${(err as Error).message}`)
+    } finally {
+      this.running = false
+    }
+    return sent
+  }
+}
+
+export async function listReceived(db: Db, limit = 200): Promise<MailSummary[]> {
+  const rows = await db.select({ id: mailReceived.id, from: mailReceived.fromAddress, to: mailReceived.toAddress, subject: mailReceived.subject, receivedAt: mailReceived.receivedAt })
+    .from(mailReceived).orderBy(desc(mailReceived.id)).limit(limit)
+  return rows.map((r) => ({ ...r, receivedAt: r.receivedAt.toISOString() }))
+}
+
+export async function getReceived(db: Db, id: number): Promise<MailMessage | null> {
+  const [r] = await db.select().from(mailReceived).where(eq(mailReceived.id, id))
+  if (!r) return null
+  return { id: r.id, from: r.fromAddress, to: r.toAddress, subject: r.subject, receivedAt: r.receivedAt.toISOString(), text: r.textBody, html: r.htmlBody }
+}
+
+export async function listQueue(db: Db, limit = 200) {
+  return db.select({ id: mailQueue.id, to: mailQueue.toAddress, subject: mailQueue.subject, status: mailQueue.status, attempts: mailQueue.attempts, lastError: mailQueue.lastError, createdAt: mailQueue.createdAt, sentAt: mailQueue.sentAt })
+    .from(mailQueue).orderBy(desc(mailQueue.id)).limit(limit)
+}

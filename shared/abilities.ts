@@ -1,0 +1,47 @@
+import { AbilityBuilder, createMongoAbility, type MongoAbility } from '@casl/ability'
+import type { Role } from './roles'
+
+/**
+ * Permissions, defined once and used by the server (403 on forbidden routes) and the client
+ * (hide or disable what a person may not do). Subjects are record kinds; `all` matches any.
+ */
+export type Action = 'read' | 'create' | 'update' | 'retire' | 'manage' | 'invite' | 'signoff' | 'export' | 'import'
+export type Subject =
+  | 'User' | 'Mail' | 'Audit' | 'Inventory' | 'Channels'
+  | 'Material' | 'Wafer' | 'Chip' | 'Array' | 'FabStep' | 'Location' | 'Label'
+  | 'Session' | 'File' | 'LaserSetup' | 'all'
+export type AppAbility = MongoAbility<[Action, Subject]>
+
+/** Lab records every signed-in person may read. */
+const LAB_RECORDS: Subject[] = ['Material', 'Wafer', 'Chip', 'Array', 'FabStep', 'Location', 'Label', 'Session', 'File', 'LaserSetup']
+
+/** Build the ability of a person from their roles (no roles, or no person: nothing at all). */
+export function defineAbilityFor(user: { roles: readonly Role[]; active?: boolean } | null | undefined): AppAbility {
+  const { can, build } = new AbilityBuilder<AppAbility>(createMongoAbility)
+  if (!user || user.active === false) return build()
+  const roles = new Set(user.roles)
+
+  can('read', LAB_RECORDS)
+  can('read', 'Channels')
+
+  if (roles.has('admin')) {
+    can('manage', 'all')
+  }
+  if (roles.has('group_lead')) {
+    can(['read', 'invite', 'update'], 'User')
+    can(['read'], 'Audit')
+    can(['export', 'import', 'read'], 'Inventory')
+  }
+  if (roles.has('fab_technician')) {
+    can(['create', 'update', 'retire'], ['Material', 'Wafer', 'Chip', 'Array', 'FabStep', 'Location', 'Label'])
+    can('create', 'File')
+  }
+  if (roles.has('optics_staff')) {
+    can(['create', 'update'], 'Session')
+    can('create', 'File')
+  }
+  if (roles.has('safety_officer')) {
+    can(['create', 'update', 'retire', 'signoff'], 'LaserSetup')
+  }
+  return build()
+}

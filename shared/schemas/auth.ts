@@ -1,0 +1,45 @@
+import { z } from 'zod'
+import { ROLES } from '../roles'
+
+/** Password policy: long enough to resist guessing; no composition rules (common practice, NIST SP 800-63B). */
+export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200, 'Use at most 200 characters')
+
+export const loginSchema = z.object({
+  email: z.email('Enter a valid e-mail address').max(190),
+  password: z.string().min(1, 'Enter your password').max(200),
+})
+export type LoginInput = z.infer<typeof loginSchema>
+
+export const changePasswordSchema = z.object({
+  currentPassword: z.string().min(1, 'Enter your current password').max(200),
+  newPassword: passwordSchema,
+})
+export type ChangePasswordInput = z.infer<typeof changePasswordSchema>
+
+export const acceptInviteSchema = z.object({
+  token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, 'This invitation link is not valid'),
+  password: passwordSchema,
+})
+export type AcceptInviteInput = z.infer<typeof acceptInviteSchema>
+
+export const roleSchema = z.enum(ROLES)
+
+export const inviteSchema = z.object({
+  email: z.email('Enter a valid e-mail address').max(190),
+  name: z.string().trim().min(2, 'Enter the full name').max(120),
+  roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length),
+})
+export type InviteInput = z.infer<typeof inviteSchema>
+
+export const updateUserSchema = z.object({
+  name: z.string().trim().min(2, 'Enter the full name').max(120).optional(),
+  roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length).optional(),
+  active: z.boolean().optional(),
+}).refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change' })
+export type UpdateUserInput = z.infer<typeof updateUserSchema>
+
+export const idParamSchema = z.object({ id: z.coerce.number().int().positive('Must be a positive id') })
+
+export const searchQuerySchema = z.object({
+  q: z.string().trim().min(1, 'Type something to search for').max(100),
+})

@@ -1,0 +1,40 @@
+import request from 'supertest'
+import type { Express } from 'express'
+import { createDb } from '../../server/db/client'
+import { createApp } from '../../server/app'
+import { loadEnv } from '../../server/env'
+import { startMailSink } from '../../server/services/mail-sink'
+import { MailWorker } from '../../server/services/mail'
+import type { AppContext } from '../../server/context'
+import { DEMO_PASSWORD, DEMO_PEOPLE } from '../../server/db/seed/people'
+import type { Role } from '../../shared/roles'
+
+/**
+ * A test instance of the app on the real MariaDB that scripts/test.sh started (DATABASE_URL),
+ * with its own loopback SMTP sink and a mail worker the test can tick by hand.
+ */
+export async function startTestApp() {
+  const env = loadEnv({ ...process.env, SESSION_SECRET: 'test-secret-test-secret', LOG_LEVEL: 'silent', LOGIN_MAX_FAILURES: '5' })
+  const { pool, db } = createDb(env.DATABASE_URL, 5)
+  const sink = await startMailSink(db, 0, () => {})
+  const worker = new MailWorker(db, `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`, env.MAIL_FROM, () => {})
+  const ctx: AppContext = { db, pool, env, log: () => {}, publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
+  const { app, close } = createApp(ctx)
+  return {
+    app, db, pool, worker, ctx,
+    async stop() { await worker.stop(); await sink.close(); await close(); await pool.end() },
+  }
+}
+
+export const demoEmail = (role: Role) => DEMO_PEOPLE.find((p) => p.roles.includes(role))!.email
+
+/** A supertest agent (keeps cookies) signed in as the demo person holding `role`. */
+export async function signedInAs(app: Express, role: Role | string, password = DEMO_PASSWORD) {
+  const agent = request.agent(app)
+  const email = role.includes('@') ? role : demoEmail(role as Role)
+  const res = await agent.post('/api/auth/login').send({ email, password })
+  if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`)
+  return agent
+}
+
+export const uniqueEmail = (tag: string) => `${tag}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@kestrel-lab.example`
