@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import type passport from 'passport'
-import { rateLimit } from 'express-rate-limit'
+import { rateLimit, ipKeyGenerator } from 'express-rate-limit'
 import { loginSchema, changePasswordSchema, acceptInviteSchema } from '../../shared/schemas/auth'
 import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
@@ -19,7 +19,7 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
     skipSuccessfulRequests: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => `${req.ip}|${String(req.body?.email ?? '').toLowerCase().slice(0, 190)}`,
+    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase().slice(0, 190)}`,
     handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', 'Too many failed sign-ins. Wait ten minutes and try again.')),
   })
 

@@ -79,20 +79,28 @@ describe('people', () => {
     expect(res.body.fields.roles[0]).toMatch(/administrator/)
   })
 
-  it('assigns roles and deactivates, with audit rows, and a deactivated person cannot sign in', async () => {
+  it('assigns roles and deactivates, with audit rows; a deactivated person is signed out and cannot sign in', async () => {
     const email = uniqueEmail('leaver')
     const admin = await signedInAs(t.app, 'admin')
     const { body } = await admin.post('/api/users/invite').send({ email, name: 'Rafe Montgomery-Ito', roles: ['fab_technician'] })
     const id = body.user.id
+    const token = /\/invite\/([A-Za-z0-9_-]+)/.exec((await deliveredTo(email)).text)![1]
+    const leaver = request.agent(t.app)
+    expect((await leaver.post('/api/auth/accept-invite').send({ token, password: 'leaver-password-1' })).status).toBe(200)
+
     const lead = await signedInAs(t.app, 'group_lead')
     const upd = await lead.patch(`/api/users/${id}`).send({ roles: ['fab_technician', 'optics_staff'] })
     expect(upd.status).toBe(200)
     expect(upd.body.user.roles).toEqual(['fab_technician', 'optics_staff'])
     const off = await lead.patch(`/api/users/${id}`).send({ active: false })
     expect(off.body.user.active).toBe(false)
-    const audits = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'user'), eq(auditLog.entityId, id)))
-    expect(audits.find((a) => a.changes.roles?.to)?.changes.roles).toEqual({ from: ['fab_technician'], to: ['fab_technician', 'optics_staff'] })
-    expect(audits.some((a) => a.changes.active?.to === false)).toBe(true)
+
+    const audits = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'user'), eq(auditLog.entityId, id), eq(auditLog.action, 'update')))
+    expect(audits.find((a) => a.changes.roles)?.changes.roles).toEqual({ from: ['fab_technician'], to: ['fab_technician', 'optics_staff'] })
+    expect(audits.find((a) => a.changes.active)?.changes.active).toEqual({ from: true, to: false })
+
+    expect((await leaver.get('/api/auth/me')).status).toBe(401)
+    expect((await request(t.app).post('/api/auth/login').send({ email, password: 'leaver-password-1' })).status).toBe(401)
   })
 
   it('keeps at least one active administrator and refuses self-deactivation', async () => {
