@@ -16,6 +16,8 @@ import { mailRoutes } from './routes/mail'
 import { searchRoutes } from './routes/search'
 import { healthRoutes } from './routes/health'
 import { channelRoutes } from './routes/channels'
+import { recordRoutes } from './routes/records/index'
+import { labelRoutes } from './routes/labels'
 
 const MySQLStore = MySQLStoreFactory(session as never)
 
@@ -71,6 +73,8 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api/mail', mailRoutes(ctx))
   app.use('/api/search', searchRoutes(ctx))
   app.use('/api/channels', channelRoutes())
+  app.use('/api/labels', labelRoutes(ctx))
+  app.use('/api', recordRoutes(ctx))
   app.use('/api', apiNotFound)
 
   const clientDir = findClientDir()

@@ -1,0 +1,198 @@
+import {
+  mysqlTable, int, varchar, json, datetime, date, mysqlEnum, index, uniqueIndex, double, text, bigint, primaryKey,
+} from 'drizzle-orm/mysql-core'
+import { sql } from 'drizzle-orm'
+import { users } from './users'
+import type { Coefficient, StoredChannel } from '../../../shared/records'
+import type { PumpSpec } from '../../../shared/engine'
+
+/**
+ * Sample records. Lab records are never deleted: `retired_at` (with a reason in the audit log)
+ * retires them. Every record kind with a label has a unique short `code`.
+ */
+
+const created = () => datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`)
+const updated = () => datetime('updated_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`)
+const retired = () => datetime('retired_at', { mode: 'date', fsp: 3 })
+
+export const materials = mysqlTable('materials', {
+  id: int('id').autoincrement().primaryKey(),
+  name: varchar('name', { length: 80 }).notNull().unique(),
+  formula: varchar('formula', { length: 40 }).notNull(),
+  pointGroup: varchar('point_group', { length: 8 }).notNull(),
+  bandGapEv: double('band_gap_ev'),
+  transparencyNote: varchar('transparency_note', { length: 300 }),
+  notes: text('notes'),
+  coefficients: json('coefficients').$type<Coefficient[]>().notNull(),
+  retiredAt: retired(),
+  createdAt: created(),
+  updatedAt: updated(),
+})
+
+export const locations = mysqlTable('locations', {
+  id: int('id').autoincrement().primaryKey(),
+  code: varchar('code', { length: 20 }).notNull().unique(),
+  kind: mysqlEnum('kind', ['room', 'cabinet', 'box', 'slot']).notNull(),
+  name: varchar('name', { length: 80 }).notNull(),
+  parentId: int('parent_id'),
+  notes: varchar('notes', { length: 500 }),
+  retiredAt: retired(),
+  createdAt: created(),
+}, (t) => [index('locations_parent_idx').on(t.parentId)])
+
+export const wafers = mysqlTable('wafers', {
+  id: int('id').autoincrement().primaryKey(),
+  code: varchar('code', { length: 20 }).notNull().unique(),
+  materialId: int('material_id').notNull().references(() => materials.id, { onDelete: 'restrict' }),
+  cutNormal: json('cut_normal').$type<[number, number, number]>().notNull(),
+  flatDirection: json('flat_direction').$type<[number, number, number]>().notNull(),
+  diameterMm: double('diameter_mm').notNull(),
+  thicknessUm: double('thickness_um').notNull(),
+  lot: varchar('lot', { length: 60 }).notNull(),
+  supplier: varchar('supplier', { length: 120 }),
+  receivedOn: date('received_on', { mode: 'string' }),
+  locationId: int('location_id').references(() => locations.id, { onDelete: 'restrict' }),
+  status: mysqlEnum('status', ['in_stock', 'in_process', 'used_up', 'retired']).notNull().default('in_stock'),
+  notes: text('notes'),
+  createdBy: int('created_by').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  createdAt: created(),
+  updatedAt: updated(),
+}, (t) => [index('wafers_material_idx').on(t.materialId), index('wafers_status_idx').on(t.status), index('wafers_lot_idx').on(t.lot)])
+
+export const chips = mysqlTable('chips', {
+  id: int('id').autoincrement().primaryKey(),
+  code: varchar('code', { length: 24 }).notNull().unique(),
+  waferId: int('wafer_id').notNull().references(() => wafers.id, { onDelete: 'restrict' }),
+  /** 1-based number within the wafer (the last part of the code). */
+  index: int('chip_index').notNull(),
+  rotationDeg: double('rotation_deg').notNull().default(0),
+  widthMm: double('width_mm').notNull(),
+  heightMm: double('height_mm').notNull(),
+  locationId: int('location_id').references(() => locations.id, { onDelete: 'restrict' }),
+  holderId: int('holder_id').references(() => users.id, { onDelete: 'restrict' }),
+  status: mysqlEnum('status', ['in_stock', 'in_process', 'measured', 'used_up', 'retired']).notNull().default('in_stock'),
+  notes: text('notes'),
+  createdAt: created(),
+  updatedAt: updated(),
+}, (t) => [uniqueIndex('chips_wafer_index_uq').on(t.waferId, t.index), index('chips_status_idx').on(t.status), index('chips_location_idx').on(t.locationId)])
+
+export const moves = mysqlTable('moves', {
+  id: int('id').autoincrement().primaryKey(),
+  itemKind: mysqlEnum('item_kind', ['wafer', 'chip', 'location']).notNull(),
+  itemId: int('item_id').notNull(),
+  itemCode: varchar('item_code', { length: 24 }).notNull(),
+  fromLocationId: int('from_location_id').references(() => locations.id, { onDelete: 'restrict' }),
+  toLocationId: int('to_location_id').references(() => locations.id, { onDelete: 'restrict' }),
+  handedToId: int('handed_to_id').references(() => users.id, { onDelete: 'restrict' }),
+  movedBy: int('moved_by').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  movedAt: datetime('moved_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  note: varchar('note', { length: 500 }),
+}, (t) => [index('moves_item_idx').on(t.itemKind, t.itemId), index('moves_to_idx').on(t.toLocationId)])
+
+export const fabSteps = mysqlTable('fab_steps', {
+  id: int('id').autoincrement().primaryKey(),
+  chipId: int('chip_id').notNull().references(() => chips.id, { onDelete: 'restrict' }),
+  kind: mysqlEnum('kind', ['resist', 'exposure', 'etch', 'deposition', 'lift_off', 'inspection', 'other']).notNull(),
+  params: json('params').$type<Record<string, string | number>>().notNull(),
+  operatorId: int('operator_id').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  performedAt: datetime('performed_at', { mode: 'date', fsp: 3 }).notNull(),
+  notes: text('notes'),
+  createdAt: created(),
+}, (t) => [index('fab_steps_chip_idx').on(t.chipId, t.performedAt)])
+
+export const arrays = mysqlTable('arrays', {
+  id: int('id').autoincrement().primaryKey(),
+  code: varchar('code', { length: 32 }).notNull().unique(),
+  chipId: int('chip_id').notNull().references(() => chips.id, { onDelete: 'restrict' }),
+  position: varchar('position', { length: 6 }).notNull(),
+  shape: varchar('shape', { length: 20 }).notNull(),
+  dimensionsNm: json('dimensions_nm').$type<Record<string, number>>().notNull(),
+  shapeAzimuthDeg: double('shape_azimuth_deg').notNull().default(0),
+  lattice: varchar('lattice', { length: 20 }).notNull(),
+  periodXNm: double('period_x_nm'),
+  periodYNm: double('period_y_nm'),
+  azimuthDeg: double('azimuth_deg').notNull().default(0),
+  count: int('count').notNull().default(1),
+  customRotationOrder: int('custom_rotation_order'),
+  customMirrors: json('custom_mirrors').$type<number[] | null>(),
+  /** Derived on every save: structure group name (e.g. C4v) and the stored channels. */
+  symmetryName: varchar('symmetry_name', { length: 12 }),
+  channels: json('channels').$type<StoredChannel[]>(),
+  engineVersion: varchar('engine_version', { length: 20 }),
+  /** Hash of every input the channels depend on (material group, cut, flat, chip rotation, array geometry). */
+  channelsInputHash: varchar('channels_input_hash', { length: 64 }),
+  channelsComputedAt: datetime('channels_computed_at', { mode: 'date', fsp: 3 }),
+  notes: text('notes'),
+  retiredAt: retired(),
+  createdAt: created(),
+  updatedAt: updated(),
+}, (t) => [uniqueIndex('arrays_chip_position_uq').on(t.chipId, t.position), index('arrays_shape_idx').on(t.shape), index('arrays_engine_idx').on(t.engineVersion)])
+
+export const laserSetups = mysqlTable('laser_setups', {
+  id: int('id').autoincrement().primaryKey(),
+  code: varchar('code', { length: 20 }).notNull().unique(),
+  name: varchar('name', { length: 80 }).notNull(),
+  room: varchar('room', { length: 40 }).notNull(),
+  sourceType: mysqlEnum('source_type', ['cw', 'pulsed', 'mode_locked']).notNull(),
+  wavelengthsNm: json('wavelengths_nm').$type<number[]>().notNull(),
+  notes: text('notes'),
+  retiredAt: retired(),
+  createdAt: created(),
+  updatedAt: updated(),
+})
+
+export const measurementSessions = mysqlTable('measurement_sessions', {
+  id: int('id').autoincrement().primaryKey(),
+  code: varchar('code', { length: 20 }).notNull().unique(),
+  laserSetupId: int('laser_setup_id').notNull().references(() => laserSetups.id, { onDelete: 'restrict' }),
+  operatorId: int('operator_id').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  performedAt: datetime('performed_at', { mode: 'date', fsp: 3 }).notNull(),
+  wavelengthNm: double('wavelength_nm').notNull(),
+  pulseDurationFs: double('pulse_duration_fs'),
+  repRateHz: double('rep_rate_hz'),
+  avgPowerMw: double('avg_power_mw').notNull(),
+  spotDiameterUm: double('spot_diameter_um'),
+  objectiveNa: double('objective_na'),
+  pump: json('pump').$type<PumpSpec>().notNull(),
+  harmonicOrder: int('harmonic_order').notNull(),
+  geometry: mysqlEnum('geometry', ['transmission', 'reflection']).notNull(),
+  collection: mysqlEnum('collection', ['normal', 'angle_resolved']).notNull(),
+  analyser: varchar('analyser', { length: 60 }),
+  detector: varchar('detector', { length: 120 }),
+  integrationS: double('integration_s'),
+  filters: varchar('filters', { length: 300 }),
+  notes: text('notes'),
+  createdAt: created(),
+  updatedAt: updated(),
+}, (t) => [index('sessions_performed_idx').on(t.performedAt), index('sessions_setup_idx').on(t.laserSetupId)])
+
+export const sessionResults = mysqlTable('session_results', {
+  sessionId: int('session_id').notNull().references(() => measurementSessions.id, { onDelete: 'restrict' }),
+  arrayId: int('array_id').notNull().references(() => arrays.id, { onDelete: 'restrict' }),
+  harmonicPowerW: double('harmonic_power_w'),
+  observedNormal: mysqlEnum('observed_normal', ['not_checked', 'none', 'present', 'co', 'counter', 'linear']).notNull().default('not_checked'),
+  observedM: json('observed_m').$type<number[]>().notNull(),
+  notes: varchar('notes', { length: 1000 }),
+}, (t) => [primaryKey({ columns: [t.sessionId, t.arrayId] }), index('session_results_array_idx').on(t.arrayId)])
+
+export const files = mysqlTable('files', {
+  id: int('id').autoincrement().primaryKey(),
+  sha256: varchar('sha256', { length: 64 }).notNull(),
+  originalName: varchar('original_name', { length: 255 }).notNull(),
+  mime: varchar('mime', { length: 100 }).notNull(),
+  sizeBytes: bigint('size_bytes', { mode: 'number' }).notNull(),
+  kind: mysqlEnum('kind', ['sem', 'spectrum', 'sweep', 'camera', 'other']).notNull(),
+  entity: varchar('entity', { length: 20 }).notNull(),
+  entityId: int('entity_id').notNull(),
+  uploadedBy: int('uploaded_by').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  uploadedAt: datetime('uploaded_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  retiredAt: retired(),
+}, (t) => [index('files_entity_idx').on(t.entity, t.entityId), index('files_sha_idx').on(t.sha256)])
+
+export const labelJobs = mysqlTable('label_jobs', {
+  id: int('id').autoincrement().primaryKey(),
+  template: varchar('template', { length: 40 }).notNull(),
+  codes: json('codes').$type<string[]>().notNull(),
+  createdBy: int('created_by').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  createdAt: created(),
+})

@@ -1,0 +1,208 @@
+import { z } from 'zod'
+import { POINT_GROUP_SYMBOLS } from '../engine'
+
+/**
+ * Request schemas of the sample records (materials → wafers → chips → arrays → sessions, plus
+ * locations, moves, fabrication steps and laser setups). Used by the server routes and the forms.
+ * Units are in the field names (nm, µm as Um, mm, deg, Hz, mW, fs, s).
+ */
+
+const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters`)
+const optText = (max: number) => text(max).optional().nullable().transform((v) => (v ? v : null))
+const id = z.coerce.number().int().positive('Pick one')
+const optId = z.union([id, z.null()]).optional().transform((v) => v ?? null)
+const num = (min: number, max: number, unit: string) =>
+  z.coerce.number({ error: `Enter a number in ${unit}` }).min(min, `At least ${min} ${unit}`).max(max, `At most ${max} ${unit}`)
+const dateString = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use the form YYYY-MM-DD')
+const dateTimeString = z.string().refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date and time')
+
+/** A crystal direction in the crystal's Cartesian frame (Miller indices for cubic crystals). */
+export const directionSchema = z.tuple([z.number(), z.number(), z.number()], { error: 'Give three numbers, e.g. [0, 0, 1]' })
+  .refine((v) => v.some((x) => x !== 0), 'The direction cannot be [0, 0, 0]')
+  .refine((v) => v.every((x) => Math.abs(x) <= 20), 'Use indices between −20 and 20')
+
+// ---------- materials ----------
+export const coefficientSchema = z.object({
+  /** Contracted (Voigt) d-matrix component for χ(2), e.g. d14; or a χ(3) component such as xxxx. */
+  component: z.string().regex(/^(d[1-3][1-6]|[xyz]{4})$/, 'Use d11…d36 for χ(2) or e.g. xxxx for χ(3)'),
+  order: z.union([z.literal(2), z.literal(3)]),
+  valuePmV: z.number({ error: 'Enter the value in pm/V (χ(3): in m²/V² × 10⁻²⁰… state the unit in the source)' }).min(-1e6).max(1e6),
+  wavelengthNm: num(100, 20000, 'nm'),
+  source: text(300).min(1, 'Say where the value comes from'),
+  isTypical: z.boolean().default(true),
+})
+export const materialSchema = z.object({
+  name: text(80).min(1, 'Enter a name'),
+  formula: text(40).min(1, 'Enter the formula'),
+  pointGroup: z.enum(POINT_GROUP_SYMBOLS as unknown as [string, ...string[]], { error: 'Pick one of the 32 point groups' }),
+  bandGapEv: num(0, 20, 'eV').nullable().optional().transform((v) => v ?? null),
+  transparencyNote: optText(300),
+  notes: optText(2000),
+  coefficients: z.array(coefficientSchema).max(40).default([]),
+})
+export type MaterialInput = z.infer<typeof materialSchema>
+
+// ---------- locations and moves ----------
+export const LOCATION_KINDS = ['room', 'cabinet', 'box', 'slot'] as const
+export const locationSchema = z.object({
+  kind: z.enum(LOCATION_KINDS),
+  name: text(80).min(1, 'Enter a name'),
+  parentId: optId,
+  notes: optText(500),
+})
+export type LocationInput = z.infer<typeof locationSchema>
+
+export const moveSchema = z.object({
+  /** Code of the thing to move (wafer W-…, chip C-…, or a box L-…). */
+  itemCode: z.string().trim().toUpperCase().regex(/^(W|C|L)-[0-9A-Z-]+$/, 'Scan or type a wafer, chip or box code'),
+  toLocationId: id,
+  /** Hand the item to a person as well (they get a notice). */
+  handToUserId: optId,
+  note: optText(500),
+})
+export type MoveInput = z.infer<typeof moveSchema>
+
+// ---------- wafers ----------
+export const WAFER_STATUSES = ['in_stock', 'in_process', 'used_up', 'retired'] as const
+export const waferSchema = z.object({
+  materialId: id,
+  cutNormal: directionSchema,
+  flatDirection: directionSchema,
+  diameterMm: num(2, 450, 'mm'),
+  thicknessUm: num(1, 5000, 'µm'),
+  lot: text(60).min(1, 'Enter the lot'),
+  supplier: optText(120),
+  receivedOn: dateString.nullable().optional().transform((v) => v ?? null),
+  locationId: optId,
+  status: z.enum(WAFER_STATUSES).default('in_stock'),
+  notes: optText(2000),
+}).refine((w) => Math.abs(w.cutNormal[0] * w.flatDirection[0] + w.cutNormal[1] * w.flatDirection[1] + w.cutNormal[2] * w.flatDirection[2]) < 1e-9,
+  { path: ['flatDirection'], message: 'The primary flat direction must lie in the wafer surface (perpendicular to the cut normal)' })
+export type WaferInput = z.infer<typeof waferSchema>
+
+/** Edits always carry a reason when the record is retired or otherwise locked (audit trail). */
+export const reasonSchema = z.object({ reason: optText(500) })
+
+// ---------- chips ----------
+export const CHIP_STATUSES = ['in_stock', 'in_process', 'measured', 'used_up', 'retired'] as const
+export const diceSchema = z.object({
+  waferId: id,
+  count: z.coerce.number().int().min(1, 'At least one chip').max(200, 'At most 200 chips at once'),
+  /** In-plane rotation of the chip's reference edge relative to the wafer's primary flat (deg, counter-clockwise seen from the front). */
+  rotationDeg: num(-360, 360, '°').default(0),
+  widthMm: num(0.1, 300, 'mm'),
+  heightMm: num(0.1, 300, 'mm'),
+  locationId: optId,
+  notes: optText(2000),
+})
+export type DiceInput = z.infer<typeof diceSchema>
+export const chipUpdateSchema = z.object({
+  rotationDeg: num(-360, 360, '°').optional(),
+  widthMm: num(0.1, 300, 'mm').optional(),
+  heightMm: num(0.1, 300, 'mm').optional(),
+  status: z.enum(CHIP_STATUSES).optional(),
+  notes: optText(2000),
+  reason: optText(500),
+})
+
+// ---------- fabrication steps ----------
+export const FAB_STEP_KINDS = ['resist', 'exposure', 'etch', 'deposition', 'lift_off', 'inspection', 'other'] as const
+export const fabStepSchema = z.object({
+  chipId: id,
+  kind: z.enum(FAB_STEP_KINDS),
+  /** Free parameters, e.g. { resist: 'ZEP-like', spinRpm: 4000, doseUcPerCm2: 220 }. */
+  params: z.record(z.string().regex(/^[A-Za-z][\w ]{0,39}$/, 'Parameter names: letters, digits, spaces'), z.union([z.string().max(200), z.number()])).default({}),
+  performedAt: dateTimeString,
+  notes: optText(2000),
+})
+export type FabStepInput = z.infer<typeof fabStepSchema>
+
+// ---------- arrays ----------
+export const SHAPES = ['disk', 'ring', 'ellipse', 'rectangle', 'square', 'triangle', 'hexagon', 'cross', 'l-shape', 'split-ring', 'gammadion', 'dimer', 'custom'] as const
+export const LATTICES = ['single', 'square', 'hexagonal', 'rectangular', 'custom'] as const
+export const arraySchema = z.object({
+  chipId: id,
+  /** Position name on the chip, e.g. B2; part of the array code A-0001-01-B2. */
+  position: z.string().trim().toUpperCase().regex(/^[A-Z0-9]{1,6}$/, 'Use 1–6 letters or digits, e.g. B2'),
+  shape: z.enum(SHAPES),
+  /** Meta-atom dimensions in nm, by name (diameterNm, innerDiameterNm, widthNm, lengthNm, sideNm, gapNm, heightNm …). */
+  dimensionsNm: z.record(z.string().regex(/^[a-z][A-Za-z]{0,30}Nm$/, 'Dimension names end in Nm'), z.number().positive('Dimensions are positive').max(1e6)).default({}),
+  /** Meta-atom azimuth relative to the lattice (deg). */
+  shapeAzimuthDeg: num(-360, 360, '°').default(0),
+  lattice: z.enum(LATTICES),
+  periodXNm: num(1, 1e6, 'nm').nullable().optional().transform((v) => v ?? null),
+  periodYNm: num(1, 1e6, 'nm').nullable().optional().transform((v) => v ?? null),
+  /** Array azimuth relative to the chip's reference edge (deg). */
+  azimuthDeg: num(-360, 360, '°').default(0),
+  count: z.coerce.number().int().min(1).max(1e9).default(1),
+  /** For custom shapes/lattices: the structure symmetry itself. */
+  customRotationOrder: z.coerce.number().int().min(0).max(360).nullable().optional().transform((v) => v ?? null),
+  customMirrors: z.array(z.number().min(0).max(360)).max(24).nullable().optional().transform((v) => v ?? null),
+  notes: optText(2000),
+})
+export type ArrayInput = z.infer<typeof arraySchema>
+
+// ---------- laser setups (plain list; the safety register extends it) ----------
+export const laserSetupSchema = z.object({
+  name: text(80).min(1, 'Enter a name'),
+  room: text(40).min(1, 'Enter the room'),
+  sourceType: z.enum(['cw', 'pulsed', 'mode_locked']),
+  wavelengthsNm: z.array(num(100, 20000, 'nm')).min(1, 'At least one wavelength').max(10),
+  notes: optText(2000),
+})
+export type LaserSetupInput = z.infer<typeof laserSetupSchema>
+
+// ---------- measurement sessions ----------
+export const pumpSchema = z.discriminatedUnion('type', [
+  z.object({ type: z.literal('circular'), m: z.union([z.literal(1), z.literal(-1)]) }),
+  z.object({ type: z.literal('linear'), angle: num(-360, 360, '°') }),
+  z.object({ type: z.literal('elliptical') }),
+  z.object({ type: z.literal('vortex'), spin: z.union([z.literal(1), z.literal(-1)]), charge: z.number().int().min(-20).max(20) }),
+  z.object({ type: z.literal('radial') }),
+  z.object({ type: z.literal('azimuthal') }),
+], { error: 'Pick a pump polarisation' })
+export const OBSERVED_NORMAL = ['not_checked', 'none', 'present', 'co', 'counter', 'linear'] as const
+export const sessionResultSchema = z.object({
+  arrayId: id,
+  /** Harmonic power at the detector after calibration (W). */
+  harmonicPowerW: z.number().min(0).max(1e3).nullable().optional().transform((v) => v ?? null),
+  /** What was seen along the normal: nothing, something (handedness not analysed), co-/counter-rotating circular, linear. */
+  observedNormal: z.enum(OBSERVED_NORMAL).default('not_checked'),
+  /** Observed m values where an analysis resolved them. */
+  observedM: z.array(z.number().int().min(-20).max(20)).max(20).default([]),
+  notes: optText(1000),
+})
+export const sessionSchema = z.object({
+  laserSetupId: id,
+  performedAt: dateTimeString,
+  wavelengthNm: num(100, 20000, 'nm'),
+  pulseDurationFs: num(1, 1e15, 'fs').nullable().optional().transform((v) => v ?? null),
+  repRateHz: num(0, 1e11, 'Hz').nullable().optional().transform((v) => v ?? null),
+  avgPowerMw: num(0, 1e6, 'mW'),
+  spotDiameterUm: num(0.1, 1e5, 'µm').nullable().optional().transform((v) => v ?? null),
+  objectiveNa: num(0.01, 1.7, '').nullable().optional().transform((v) => v ?? null),
+  pump: pumpSchema,
+  harmonicOrder: z.coerce.number().int().min(2, 'Order 2 to 5').max(5, 'Order 2 to 5'),
+  geometry: z.enum(['transmission', 'reflection']),
+  collection: z.enum(['normal', 'angle_resolved']),
+  analyser: optText(60),
+  detector: optText(120),
+  integrationS: num(0, 1e5, 's').nullable().optional().transform((v) => v ?? null),
+  filters: optText(300),
+  notes: optText(4000),
+  results: z.array(sessionResultSchema).min(1, 'Pick at least one array').max(200),
+})
+export type SessionInput = z.infer<typeof sessionSchema>
+
+// ---------- lists: server-side sort, filter, paging ----------
+export const listQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(200).default(25),
+  sort: z.string().regex(/^[a-zA-Z]{1,40}$/).optional(),
+  dir: z.enum(['asc', 'desc']).default('asc'),
+  q: z.string().trim().max(100).optional(),
+  status: z.string().max(40).optional(),
+  parentId: z.coerce.number().int().positive().optional(),
+  includeRetired: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
+})
+export type ListQuery = z.infer<typeof listQuerySchema>
