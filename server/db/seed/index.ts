@@ -3,6 +3,8 @@ import type { Db } from '../client'
 import { users } from '../schema/index'
 import { hashPassword } from '../../auth/passwords'
 import { DEMO_PASSWORD, DEMO_PEOPLE } from './people'
+import { seedLab } from './lab'
+import { seedSessions } from './sessions'
 
 /** Seed the invented demo lab, only into an empty database. Returns false when data was already there. */
 export async function seedDemo(db: Db): Promise<boolean> {
@@ -12,5 +14,7 @@ export async function seedDemo(db: Db): Promise<boolean> {
   await db.transaction(async (tx) => {
     await tx.insert(users).values(DEMO_PEOPLE.map((p) => ({ ...p, passwordHash: hash })))
   })
+  await seedLab(db)
+  await seedSessions(db)
   return true
 }
