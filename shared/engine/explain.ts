@@ -1,0 +1,101 @@
+/**
+ * Plain-language derivation steps for a channel evaluation, e.g. "the (001) cut of a -43m crystal
+ * carries Δm = ±2 only". Angles in degrees, lab frame; vectors in the crystal Cartesian frame.
+ */
+import type { SampleTensor } from './sample-tensor'
+import type { Parity } from './mirror-parity'
+import type { PumpSpec } from './pump'
+import type { NormalEmission, Multipole } from './selection-rules'
+import type { Vec3 } from './linalg'
+import { describeDMatrixEqualities } from './voigt'
+import { formatDirection } from './directions'
+import { describePump, signed } from './pump'
+import { structureGroupName } from './structure'
+
+/** Name of a cut: Miller plane for cubic crystals, X/Y/Z-cut or the Cartesian normal otherwise. */
+export function describeCut(normal: Vec3, isCubic: boolean): string {
+  if (isCubic) return `${formatDirection(normal, true)} cut`
+  const axes = ['X', 'Y', 'Z']
+  const i = normal.findIndex((v, k) => Math.abs(v) > 0 && normal.every((w, j) => j === k || w === 0))
+  return i >= 0 ? `${axes[i]}-cut` : `cut with normal ${formatDirection(normal)}`
+}
+
+/** Format a symmetric set: {0, ±2, ±3}. */
+export function formatSymmetricSet(values: readonly number[]): string {
+  const abs = [...new Set(values.map(Math.abs))].sort((a, b) => a - b)
+  return abs
+    .flatMap((a) => (a === 0 ? ['0'] : values.includes(a) && values.includes(-a) ? [`±${a}`] : values.filter((v) => Math.abs(v) === a).map(signed)))
+    .join(', ')
+}
+
+const pct = (w: number) => `${(100 * w).toFixed(w < 0.1 ? 1 : 0)}%`
+
+/** Derivation steps that depend only on the sample tensor (memoised on the sample). */
+export function explainSample(sample: SampleTensor, cut: { normal: Vec3; reference: Vec3; azimuthDeg: number }): string[] {
+  if (sample.notes.length > 0) return sample.notes
+  const { group, form, content } = sample
+  const N = form.order
+  const notes: string[] = []
+  const perm = form.symmetry === 'kleinman' ? 'Kleinman' : 'intrinsic permutation'
+  const forms = N === 2 && form.independentCount > 0 ? `: ${describeDMatrixEqualities(form).join('; ')} (d = χ(2)/2, SHG convention, no factors of 2)` : ''
+  if (sample.isSurface) notes.push(`surface: the bulk tensor of ${group.symbol} is replaced by the isotropic-interface χ(${N}) (class ∞m, z = normal) with ${form.independentCount} independent component${form.independentCount === 1 ? '' : 's'}${forms}`)
+  else if (form.independentCount === 0) notes.push(`χ(${N}) vanishes in the bulk of class ${group.symbol} (${group.schoenflies})${group.isCentrosymmetric && N % 2 === 0 ? ': the class contains inversion, so every even-order bulk susceptibility is zero' : ''}`)
+  else notes.push(`χ(${N}) of class ${group.symbol} (${group.schoenflies}, standard setting) has ${form.independentCount} independent component${form.independentCount === 1 ? '' : 's'} (${perm} symmetry)${forms}`)
+  const f = sample.frame
+  notes.push(`lab frame: z ∥ ${formatDirection(cut.normal)}, x ∥ ${formatDirection([f[0], f[1], f[2]])} (reference ${formatDirection(cut.reference)} projected into the cut plane${cut.azimuthDeg ? `, rotated by ${cut.azimuthDeg}°` : ''}), y = z × x ∥ ${formatDirection([f[3], f[4], f[5]])}`)
+  const who = sample.isSurface ? `the isotropic interface` : `the ${describeCut(cut.normal, group.isCubic)} of a ${group.symbol} crystal`
+  if (content.q.length === 0) notes.push(`${who} has no χ(${N}) at all: Q is empty and no harmonic of order ${N} is generated`)
+  else {
+    const weights = content.weights.filter((w) => w.q >= 0).map((w) => `${w.q === 0 ? '0' : `±${w.q}`}: ${pct(w.q === 0 ? w.weight : 2 * w.weight)}`)
+    notes.push(`${who} carries Δm = ${formatSymmetricSet(content.q)} only (weights ${weights.join(', ')}); Q does not depend on the in-plane azimuth`)
+  }
+  sample.notes = notes
+  return notes
+}
+
+/** Everything the per-evaluation steps need. */
+export interface ChannelExplainInput {
+  pump: PumpSpec
+  order: number
+  pumpSums: readonly number[]
+  q: readonly number[]
+  rotationOrder: number
+  mirrorCount: number
+  window: number
+  allowedM: readonly number[]
+  mirrors: readonly { mirror: number; tensor: Parity; pump: Parity; result: Parity }[]
+  normalEmission: NormalEmission & { polarizationDeg?: number; suppressedByParity?: boolean }
+  multipoles: readonly Multipole[]
+  lmax: number
+}
+
+function parityWord(p: Parity): string {
+  return p === 1 ? 'even' : p === -1 ? 'odd' : 'without parity'
+}
+
+/** Steps of rules 4–7 for one evaluation. */
+export function explainRules(x: ChannelExplainInput): string[] {
+  const n = x.rotationOrder
+  const steps = [describePump(x.pump)]
+  steps.push(`structure: ${structureGroupName({ rotationOrder: n, mirrors: x.mirrorCount > 0 ? [0] : [] })}, rotation order ${n === 0 ? '∞ (body of revolution)' : n}${x.mirrors.length ? `, mirrors at ${x.mirrors.map((m) => `${m.mirror}°`).join(', ')}` : ', no mirrors given'}`)
+  const sums = x.pumpSums.map(signed).join(', ')
+  const m = x.allowedM.length ? x.allowedM.map(signed).join(', ') : 'none'
+  steps.push(`rule 4: m = (sum of ${x.order} pump projections ∈ {${sums}}) + (q ∈ {${x.q.length ? formatSymmetricSet(x.q) : ''}})${n === 0 ? '' : ` + k·${n}`} → m ∈ {${m}} for |m| ≤ ${x.window}`)
+  for (const r of x.mirrors) {
+    if (r.result !== 0) steps.push(`rule 5 at the mirror ${r.mirror}°: tensor ${parityWord(r.tensor)} × (pump ${parityWord(r.pump)})^${x.order} → the harmonic is ${parityWord(r.result)}`)
+    else if (r.tensor === 0) steps.push(`no parity rule at the mirror ${r.mirror}°: the rotated tensor is neither even nor odd under it (it is not a mirror of the cut crystal), so nothing is assumed`)
+    else steps.push(`no parity rule at the mirror ${r.mirror}°: the pump has no definite parity under it`)
+  }
+  const ne = x.normalEmission
+  if (!ne.allowed) steps.push(`rule 6: neither m = +1 nor m = −1 is allowed, so no harmonic is emitted along the normal (zeroth order)`)
+  else {
+    const hand = ne.handedness ? ne.m.map((v, i) => `m = ${signed(v)} ${ne.handedness![i]}`).join(', ') : `m = ${ne.m.map(signed).join(', ')}`
+    const pol = ne.polarizationDeg !== undefined ? `; the parity rule fixes its polarisation at ${ne.polarizationDeg}°` : ''
+    const sup = ne.suppressedByParity ? '; however the parity rules demand different polarisations, so this emission cancels by symmetry' : ''
+    steps.push(`rule 6: emission along the normal is allowed (${hand}${pol}${sup})`)
+  }
+  const signs = x.mirrors.filter((r) => r.result !== 0).map((r) => r.result)
+  const zero = !x.allowedM.includes(0) ? '' : signs.includes(1) && signs.includes(-1) ? '; m = 0 is excluded by conflicting parity rules' : signs.includes(-1) ? '; at m = 0 only magnetic multipoles (odd)' : signs.includes(1) ? '; at m = 0 only electric multipoles (even)' : ''
+  steps.push(`rule 7: ${x.multipoles.length} multipoles (E/M, 1 ≤ l ≤ ${x.lmax}, |m| ≤ l) are allowed${zero}`)
+  return steps
+}

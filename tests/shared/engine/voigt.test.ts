@@ -1,0 +1,52 @@
+import { describe, it, expect } from 'vitest'
+import { solveTensorForm, describeDMatrixEqualities, formDMatrix, toVoigt, rotateToSample, countNonZeroVoigt } from '../../../shared/engine'
+import { rotationAboutAxis } from '../../../shared/engine/linalg'
+
+// d-matrix forms as printed in handbooks (Boyd, Nonlinear Optics, §1.5 table of d-matrix forms;
+// Nye for the piezoelectric analogues), standard IEEE Std 176 settings.
+describe('d-matrix equalities (handbook forms)', () => {
+  it('-43m: d14 = d25 = d36 (Boyd §1.5)', () => {
+    expect(describeDMatrixEqualities(solveTensorForm('-43m', 2))).toEqual(['d14 = d25 = d36'])
+  })
+
+  it('3m: d15 = d24, d16 = d21 = −d22, d31 = d32, d33 (Boyd §1.5; LiNbO3 has d22, not d11)', () => {
+    expect(describeDMatrixEqualities(solveTensorForm('3m', 2))).toEqual(['d15 = d24', 'd16 = d21 = −d22', 'd31 = d32', 'd33'])
+    const d = formDMatrix(solveTensorForm('3m', 2))
+    expect(d[0][0]).toHaveLength(0) // d11 = 0 in the standard setting
+  })
+
+  it('-6m2: the d22 family only, d22 = −d21 = −d16 (Boyd §1.5, mirror ⟂ x)', () => {
+    expect(describeDMatrixEqualities(solveTensorForm('-6m2', 2))).toEqual(['d16 = d21 = −d22'])
+  })
+
+  it('6mm and 4mm: d15 = d24, d31 = d32, d33 (Boyd §1.5)', () => {
+    expect(describeDMatrixEqualities(solveTensorForm('6mm', 2))).toEqual(['d15 = d24', 'd31 = d32', 'd33'])
+    expect(describeDMatrixEqualities(solveTensorForm('4mm', 2))).toEqual(['d15 = d24', 'd31 = d32', 'd33'])
+  })
+
+  it('-42m (diad ∥ x): d14 = d25, d36 (Boyd §1.5)', () => {
+    expect(describeDMatrixEqualities(solveTensorForm('-42m', 2))).toEqual(['d14 = d25', 'd36'])
+  })
+
+  it('trap: SHG d-matrix has no factor 2 where piezoelectric tables have d16 = −2 d22 (ENGINE.md traps)', () => {
+    const t = solveTensorForm('3m', 2).tensors
+    const withD22 = t.find((x) => toVoigt(x)[1][1] !== 0)!
+    const d = toVoigt(withD22)
+    expect(d[0][5] / d[1][1]).toBe(-1)
+    expect(d[1][0] / d[1][1]).toBe(-1)
+  })
+
+  it('trap: x along the armchair direction relabels the -6m2 family as d11 = −d12 = −d26 (ENGINE.md traps)', () => {
+    const [t] = solveTensorForm('-6m2', 2).tensors
+    const d = toVoigt(rotateToSample(t, 3, rotationAboutAxis([0, 0, 1], -Math.PI / 2)))
+    expect(d[1][1]).toBeCloseTo(0, 12)
+    expect(d[0][1]).toBeCloseTo(-d[0][0], 12)
+    expect(d[1][5]).toBeCloseTo(-d[0][0], 12)
+    expect(Math.abs(d[0][0])).toBeCloseTo(1, 12)
+  })
+
+  it('counts non-zero d-matrix entries: -43m 3, 3m 8', () => {
+    expect(countNonZeroVoigt(solveTensorForm('-43m', 2))).toBe(3)
+    expect(countNonZeroVoigt(solveTensorForm('3m', 2))).toBe(8)
+  })
+})
