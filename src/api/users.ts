@@ -1,0 +1,7 @@
+import type { InviteInput, UpdateUserInput } from '../../shared/schemas/auth'
+import type { PublicUser } from '../../shared/types'
+import { http } from './http'
+
+export const listUsers = () => http.get<{ users: PublicUser[] }>('/users')
+export const inviteUser = (input: InviteInput) => http.post<{ user: PublicUser }>('/users/invite', input)
+export const updateUser = (id: number, input: UpdateUserInput) => http.patch<{ user: PublicUser }>(`/users/${id}`, input)

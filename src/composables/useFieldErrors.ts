@@ -1,0 +1,43 @@
+import { reactive } from 'vue'
+import type { ZodType } from 'zod'
+import { isApiError } from '../api/http'
+
+/**
+ * Server-side field errors for a form. `bind('email')` gives the `error` and `error-message`
+ * props of a Quasar input, so a 400 answer shows as red hints under the right fields.
+ * `take` returns the message that no field shows (or null when the hints say it all).
+ */
+export function useFieldErrors() {
+  const errors = reactive<Record<string, string>>({})
+
+  function clear(field?: string): void {
+    for (const key of Object.keys(errors)) if (!field || key === field) delete errors[key]
+  }
+
+  /** `shownFields`: the fields this form has; messages for any other field are returned. */
+  function take(err: unknown, shownFields: readonly string[]): string | null {
+    clear()
+    if (!isApiError(err)) return err instanceof Error ? err.message : String(err)
+    const unshown: string[] = []
+    for (const [path, messages] of Object.entries(err.fieldErrors)) {
+      if (shownFields.includes(path)) errors[path] = messages.join(' ')
+      else unshown.push(...messages)
+    }
+    if (Object.keys(errors).length === 0) return unshown.length ? unshown.join(' ') : err.message
+    return unshown.length ? unshown.join(' ') : null
+  }
+
+  function bind(field: string) {
+    return { error: Boolean(errors[field]), errorMessage: errors[field] ?? '' }
+  }
+
+  return { errors, clear, take, bind }
+}
+
+/** A Quasar input rule from a zod schema (the same schema the server parses with). */
+export function zodRule(schema: ZodType) {
+  return (value: unknown): true | string => {
+    const result = schema.safeParse(value)
+    return result.success || (result.error.issues[0]?.message ?? 'Not valid')
+  }
+}
