@@ -1,8 +1,14 @@
 import type { RouteRecordRaw } from 'vue-router'
+import { route } from './route'
 import type { Action, Subject } from '../../shared/abilities'
+import { inventoryRoutes, type InventoryRouteName } from './routes-inventory'
+import { measurementRoutes, type MeasurementRouteName } from './routes-measurements'
+import { labelRoutes, type LabelRouteName } from './routes-labels'
 
 /** Every route's name. Links (`AppLink`) and pushes (`pushTo`) accept only these. */
-export type RouteName =
+export type RouteName = CoreRouteName | InventoryRouteName | MeasurementRouteName | LabelRouteName
+
+type CoreRouteName =
   | 'sign-in' | 'sign-out' | 'accept-invite'
   | 'home' | 'account'
   | 'inventory' | 'fabrication' | 'measurements' | 'laser-safety' | 'labels' | 'channels'
@@ -20,12 +26,6 @@ declare module 'vue-router' {
   }
 }
 
-type Page = () => Promise<unknown>
-
-/** One named page. `hasProps`: pass the path params to the page as props. */
-function route(name: RouteName, path: string, component: Page, meta: RouteRecordRaw['meta'] = {}, hasProps = false): RouteRecordRaw {
-  return { name, path, component, meta, props: hasProps } as RouteRecordRaw
-}
 
 // Route pages are lazy so the first page stays small; each area becomes its own chunk.
 // Both layouts hang off '/'. MainLayout must come first: on equal rank vue-router keeps insertion
@@ -46,6 +46,9 @@ export const routes: RouteRecordRaw[] = [
       route('people', 'people', () => import('../pages/PeoplePage.vue'), { title: 'People', requires: ['read', 'User'] }),
       route('mail-outbox', 'mail', () => import('../pages/MailOutboxPage.vue'), { title: 'Mail outbox', requires: ['read', 'Mail'] }),
       route('mail-message', 'mail/:id(\\d+)', () => import('../pages/MailMessagePage.vue'), { title: 'Mail message', requires: ['read', 'Mail'] }, true),
+      ...inventoryRoutes,
+      ...measurementRoutes,
+      ...labelRoutes,
       route('not-allowed', 'not-allowed', () => import('../pages/NotAllowedPage.vue'), { title: 'Not allowed' }),
       route('not-found', ':pathMatch(.*)*', () => import('../pages/NotFoundPage.vue'), { title: 'Not found' }),
     ],
