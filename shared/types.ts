@@ -32,7 +32,7 @@ export interface MailMessage extends MailSummary {
 }
 
 export interface SearchHit {
-  kind: 'person' | 'wafer' | 'chip' | 'array' | 'session' | 'material' | 'location'
+  kind: 'person' | 'wafer' | 'chip' | 'array' | 'session' | 'material' | 'location' | 'laser_setup'
   id: number
   label: string
   detail: string
