@@ -7,8 +7,9 @@ export default defineConfig({
   workers: 1,
   fullyParallel: false,
   retries: 0,
-  timeout: 30_000,
-  expect: { timeout: 7_000 },
+  // Generous: CI machines are small (2 cores) and a journey signs in several times.
+  timeout: 90_000,
+  expect: { timeout: 10_000 },
   reporter: 'list',
   use: {
     baseURL: process.env.E2E_BASE_URL ?? 'http://127.0.0.1:3000',
