@@ -104,6 +104,18 @@ export interface MeasurementSession {
   /** Derived per result: η = P_N / P_pump (average powers) and P_2 / P_pump² (W⁻¹, order 2 only). */
   derived: { arrayId: number; efficiency: number | null; normalisedW: number | null }[]
   fileCount: number; createdAt: string
+  /** Contemporaneous-record check: entry time (createdAt) vs activity time (performedAt). */
+  updatedAt: string
+  /** performedAt is more than 24 h before the entry was made. */
+  isBackdated: boolean
+  /** Session-level notes in plain language (e.g. the back-dated entry). */
+  flags: string[]
+}
+/** One row of the session list (no predictions; open the detail for predicted vs observed). */
+export interface MeasurementSessionRow {
+  id: number; code: string; laserSetup: { id: number; code: string; name: string }
+  operator: PersonRef; performedAt: string; wavelengthNm: number; harmonicOrder: number; pump: PumpSpec
+  avgPowerMw: number; arrayCodes: string[]; isBackdated: boolean; createdAt: string
 }
 
 export interface StoredFile {

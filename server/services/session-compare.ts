@@ -1,0 +1,124 @@
+import {
+  ENGINE_VERSION, deriveArraySymmetry, evaluateChannels, parseChannelRequest, rotateStructure,
+  type ChannelResponse, type PumpSpec, type ShapeKind, type LatticeKind, type StructureSymmetry,
+} from '../../shared/engine'
+import { eq, inArray } from 'drizzle-orm'
+import { arrays, chips, materials, wafers } from '../db/schema/index'
+import type { Db } from '../db/client'
+import type { SessionResult } from '../../shared/records'
+
+/**
+ * Predicted vs observed for measurement sessions. Frames: the engine's lab frame has x along the
+ * wafer's primary flat (crystal.reference = wafer.flatDirection) and z along the cut normal, so the
+ * structure and linear pump angles are given relative to the wafer flat.
+ */
+
+/** The array fields the structure symmetry depends on. */
+export interface ArrayGeometry {
+  shape: string; shapeAzimuthDeg: number; lattice: string; azimuthDeg: number
+  customRotationOrder: number | null; customMirrors: number[] | null
+}
+
+/**
+ * Structure symmetry of an array in the wafer-flat frame: meta-atom (rotated by its azimuth on the
+ * lattice) ∩ lattice, then rotated by the chip's rotation on the wafer plus the array's azimuth on
+ * the chip. Custom shapes/lattices take `customRotationOrder` / `customMirrors`.
+ * NOTE for the lead: the arrays service derives the same thing when it stores `symmetryName`;
+ * this is the single place on the measurement side, so the two can be merged later.
+ */
+export function arrayStructureInFlatFrame(array: ArrayGeometry, chip: { rotationDeg: number }): StructureSymmetry {
+  const custom = { rotationOrder: array.customRotationOrder ?? 1, mirrors: array.customMirrors ?? [] }
+  const shape = { kind: array.shape as ShapeKind, azimuthDeg: array.shapeAzimuthDeg, ...(array.shape === 'custom' ? custom : {}) }
+  const lattice = { kind: array.lattice as LatticeKind, ...(array.lattice === 'custom' ? custom : {}) }
+  return rotateStructure(deriveArraySymmetry(shape, lattice), chip.rotationDeg + array.azimuthDeg)
+}
+
+/** Mirror list for a channel request ('all' = a body of revolution: sampled every 15°). */
+function mirrorList(s: StructureSymmetry): number[] {
+  return s.mirrors === 'all' ? Array.from({ length: 12 }, (_, k) => k * 15) : s.mirrors
+}
+
+/** Everything the prediction for one array needs (joined from arrays → chips → wafers → materials). */
+export interface ArrayContext {
+  id: number; code: string; geometry: ArrayGeometry; chipRotationDeg: number
+  pointGroup: string; cutNormal: [number, number, number]; flatDirection: [number, number, number]
+}
+
+/** Engine channels for this session's pump and harmonic order on one array. */
+export function predictForArray(a: ArrayContext, pump: PumpSpec, order: number): ChannelResponse {
+  const structure = arrayStructureInFlatFrame(a.geometry, { rotationDeg: a.chipRotationDeg })
+  return evaluateChannels(parseChannelRequest({
+    crystal: { pointGroup: a.pointGroup, normal: a.cutNormal, reference: a.flatDirection },
+    structure: { rotationOrder: structure.rotationOrder, mirrors: mirrorList(structure) },
+    pump, order,
+  }))
+}
+
+type Observed = Pick<SessionResult, 'observedNormal' | 'observedM'>
+
+/** Is emission along the normal allowed (rule 6, and not cancelled by conflicting mirror parities)? */
+const normalAllowed = (p: ChannelResponse) => p.normalEmission.allowed && !p.normalEmission.suppressedByParity
+
+/** Plain-language differences between what was observed and what the engine predicts (empty: consistent). */
+export function compareObserved(predicted: ChannelResponse, observed: Observed, pump: PumpSpec): string[] {
+  const flags: string[] = []
+  const seen = observed.observedNormal
+  const emitted = seen === 'present' || seen === 'co' || seen === 'counter' || seen === 'linear'
+  if (emitted && !normalAllowed(predicted)) {
+    flags.push('Emission along the normal observed where the engine forbids it for this pump and order: check tilt, substrate or surface contributions, or the pump polarisation.')
+  } else if (emitted && (seen === 'co' || seen === 'counter')) {
+    const hand = predicted.normalEmission.handedness
+    if (pump.type !== 'circular' || !hand) {
+      flags.push(`Co-/counter-rotating emission was recorded, but the pump is ${pump.type}: handedness relative to the pump is defined only for a circular pump.`)
+    } else if (!hand.includes(seen === 'co' ? 'co-rotating' : 'counter-rotating')) {
+      const allowed = hand.join(' and ')
+      flags.push(`Handedness mismatch: ${seen === 'co' ? 'co' : 'counter'}-rotating emission observed along the normal, but only ${allowed} emission is allowed for this pump and order: check the analyser/quarter-wave plate orientation and the handedness convention.`)
+    }
+  } else if (seen === 'none' && normalAllowed(predicted)) {
+    flags.push('Emission along the normal is allowed but was not seen: it may be weak; check alignment and the collection NA.')
+  }
+  const unexpected = observed.observedM.filter((m) => !predicted.m.includes(m))
+  if (unexpected.length) {
+    flags.push(`Observed m = ${unexpected.join(', ')} ${unexpected.length > 1 ? 'are' : 'is'} not among the allowed m {${predicted.m.join(', ')}} for this pump and order: check the analysis, the pump polarisation or the array's symmetry.`)
+  }
+  return flags
+}
+
+/**
+ * Derived quantities (FACTS.md §4.2): η = P_N / P_pump with average powers, and for SHG the
+ * normalised P_2 / P_pump² in W⁻¹. Pump power is stored in mW; null when a power is missing or zero.
+ */
+export function deriveEfficiency(avgPowerMw: number | null | undefined, harmonicPowerW: number | null, order: number) {
+  if (harmonicPowerW === null || avgPowerMw === null || avgPowerMw === undefined || avgPowerMw <= 0) return { efficiency: null, normalisedW: null }
+  const pumpW = avgPowerMw / 1000
+  return { efficiency: harmonicPowerW / pumpW, normalisedW: order === 2 ? harmonicPowerW / (pumpW * pumpW) : null }
+}
+
+/** Load the prediction inputs of several arrays in one query (arrays → chips → wafers → materials). */
+/** Db or an open transaction (only `select` is used). */
+export type Reader = Pick<Db, 'select'>
+
+export async function loadArrayContexts(db: Reader, ids: number[]): Promise<Map<number, ArrayContext & { retiredAt: Date | null }>> {
+  if (!ids.length) return new Map()
+  const rows = await db.select({ a: arrays, rotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup })
+    .from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).innerJoin(wafers, eq(wafers.id, chips.waferId))
+    .innerJoin(materials, eq(materials.id, wafers.materialId)).where(inArray(arrays.id, ids))
+  return new Map(rows.map((r) => [r.a.id, {
+    id: r.a.id, code: r.a.code, retiredAt: r.a.retiredAt, chipRotationDeg: r.rotationDeg, pointGroup: r.pointGroup,
+    cutNormal: r.cutNormal, flatDirection: r.flatDirection, geometry: r.a,
+  }]))
+}
+
+/** Prediction and flags for one observed result; an engine failure becomes a flag, never a 500 on a saved record. */
+export function compareResult(ctx: ArrayContext, observed: Observed, pump: PumpSpec, order: number): { predicted: ChannelResponse; flags: string[] } {
+  try {
+    const predicted = predictForArray(ctx, pump, order)
+    return { predicted, flags: compareObserved(predicted, observed, pump) }
+  } catch (err) {
+    const message = (err as Error).message
+    const predicted: ChannelResponse = {
+      q: [], m: [], parity: [], normalEmission: { allowed: false, m: [] }, multipoles: [], explain: [message], engineVersion: ENGINE_VERSION, qWeights: [],
+    }
+    return { predicted, flags: [`No prediction for ${ctx.code}: ${message}`] }
+  }
+}
