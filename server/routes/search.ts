@@ -4,20 +4,21 @@ import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { requireUser } from '../auth/guards'
 import { searchUsers } from '../services/users'
+import { searchRecords } from '../services/resolve'
 import type { SearchHit } from '../../shared/types'
 import { ROLE_LABELS } from '../../shared/roles'
 
-/** Global search. People for now; each record kind adds its hits here. */
+/** Global search: records (exact code first, then code prefixes, lots, suppliers, notes, materials), then people. */
 export function searchRoutes(ctx: AppContext): Router {
   const r = Router()
   r.get('/', requireUser, async (req, res) => {
     const { q } = parse(searchQuerySchema, req.query)
-    const people = await searchUsers(ctx.db, q)
-    const hits: SearchHit[] = people.map((p) => ({
+    const [records, people] = await Promise.all([searchRecords(ctx.db, q), searchUsers(ctx.db, q)])
+    const hits: SearchHit[] = [...records, ...people.map((p) => ({
       kind: 'person', id: p.id, label: p.name,
       detail: `${p.email} · ${p.roles.map((x) => ROLE_LABELS[x]).join(', ')}${p.active ? '' : ' · deactivated'}`,
       to: `/people?focus=${p.id}`,
-    }))
+    }) as SearchHit)]
     res.json({ hits })
   })
   return r

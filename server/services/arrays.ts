@@ -1,0 +1,168 @@
+import { and, asc, eq, gt, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm'
+import { arrays, chips, wafers, materials, auditLog, type User } from '../db/schema/index'
+import type { Db } from '../db/client'
+import type { ArrayRecord, Page } from '../../shared/records'
+import type { ArrayInput, ListQuery } from '../../shared/schemas/records'
+import { ENGINE_VERSION } from '../../shared/engine'
+import { diffFields, writeAudit, type DbOrTx } from './audit'
+import { ConflictError, fieldError } from '../errors'
+import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './codes'
+import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
+
+/** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
+type Row = typeof arrays.$inferSelect
+const base = () => ({ a: arrays, chipCode: chips.code, chipRotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup })
+type Joined = { a: Row; chipCode: string; chipRotationDeg: number; cutNormal: [number, number, number]; flatDirection: [number, number, number]; pointGroup: string }
+
+function selectArrays(db: Db) {
+  return db.select(base()).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).innerJoin(wafers, eq(wafers.id, chips.waferId)).innerJoin(materials, eq(materials.id, wafers.materialId))
+}
+
+function inputsOf(r: Joined, a: Pick<Row, keyof Omit<ChannelInputs, 'pointGroup' | 'cutNormal' | 'flatDirection' | 'chipRotationDeg'>> = r.a): ChannelInputs {
+  return {
+    pointGroup: r.pointGroup, cutNormal: r.cutNormal, flatDirection: r.flatDirection, chipRotationDeg: r.chipRotationDeg,
+    shape: a.shape, dimensionsNm: a.dimensionsNm, shapeAzimuthDeg: a.shapeAzimuthDeg, lattice: a.lattice, periodXNm: a.periodXNm,
+    periodYNm: a.periodYNm, azimuthDeg: a.azimuthDeg, customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors,
+  }
+}
+
+function toArrayRecord(r: Joined): ArrayRecord {
+  const a = r.a
+  const inputs = inputsOf(r)
+  let symmetry: ArrayRecord['symmetry'] = { name: a.symmetryName ?? '?', rotationOrder: 1, mirrors: [] }
+  try { const s = arraySymmetry(inputs); symmetry = { name: a.symmetryName ?? '?', rotationOrder: s.rotationOrder, mirrors: s.mirrors } } catch { /* shown as stored */ }
+  const isStale = a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash || a.channelsInputHash !== channelsInputHash(inputs)
+  return {
+    id: a.id, code: a.code, chip: { id: a.chipId, code: r.chipCode }, position: a.position, shape: a.shape, dimensionsNm: a.dimensionsNm,
+    shapeAzimuthDeg: a.shapeAzimuthDeg, lattice: a.lattice, periodXNm: a.periodXNm, periodYNm: a.periodYNm, azimuthDeg: a.azimuthDeg,
+    count: a.count, customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors, symmetry, channels: a.channels ?? [],
+    engineVersion: a.engineVersion, channelsComputedAt: iso(a.channelsComputedAt), isStale, notes: a.notes,
+    retiredAt: iso(a.retiredAt), createdAt: a.createdAt.toISOString(), updatedAt: a.updatedAt.toISOString(),
+  }
+}
+
+/** Stale in SQL: another engine version, or an input hash cleared when the wafer/chip/material changed. */
+const staleSql = sql`(${arrays.engineVersion} IS NULL OR ${arrays.engineVersion} <> ${ENGINE_VERSION} OR ${arrays.channelsInputHash} IS NULL)`
+const SORTS = { code: arrays.code, position: arrays.position, shape: arrays.shape, lattice: arrays.lattice, createdAt: arrays.createdAt, periodXNm: arrays.periodXNm }
+
+export type ArrayListQuery = ListQuery & { chipId?: number; shape?: string; lattice?: string; stale?: boolean }
+
+/** Arrays filtered by chip, shape, lattice, staleness and text (code, notes), sorted and paged in SQL. */
+export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayRecord>> {
+  const chipId = q.chipId ?? q.parentId
+  const where = and(
+    q.includeRetired ? undefined : isNull(arrays.retiredAt),
+    chipId ? eq(arrays.chipId, chipId) : undefined,
+    q.shape ? eq(arrays.shape, q.shape) : undefined,
+    q.lattice ? eq(arrays.lattice, q.lattice) : undefined,
+    q.stale === true ? staleSql : q.stale === false ? sql`NOT ${staleSql}` : undefined,
+    q.q ? or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q))) : undefined,
+  )
+  const [rows, [{ n }]] = await Promise.all([
+    selectArrays(db).where(where).orderBy(orderBy(SORTS, q.sort, q.dir, 'code')).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+    db.select({ n: sql<number>`count(*)` }).from(arrays).where(where),
+  ])
+  return { rows: rows.map(toArrayRecord), total: Number(n), page: q.page, pageSize: q.pageSize }
+}
+
+export async function listArraysOfChip(db: Db, chipId: number): Promise<ArrayRecord[]> {
+  return (await selectArrays(db).where(and(eq(arrays.chipId, chipId), isNull(arrays.retiredAt))).orderBy(asc(arrays.position))).map(toArrayRecord)
+}
+
+export async function getArray(db: Db, id: number): Promise<ArrayRecord> {
+  const [row] = await selectArrays(db).where(eq(arrays.id, id))
+  return toArrayRecord(found(row, 'array'))
+}
+
+async function chipContext(db: Db, chipId: number) {
+  const [c] = await db.select({ chip: chips, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup })
+    .from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)).innerJoin(materials, eq(materials.id, wafers.materialId)).where(eq(chips.id, chipId))
+  if (!c) throw fieldError('chipId', 'No such chip')
+  return c
+}
+
+function geometry(i: ArrayInput) {
+  return {
+    shape: i.shape, dimensionsNm: i.dimensionsNm, shapeAzimuthDeg: i.shapeAzimuthDeg, lattice: i.lattice, periodXNm: i.periodXNm, periodYNm: i.periodYNm,
+    azimuthDeg: i.azimuthDeg, count: i.count, customRotationOrder: i.customRotationOrder, customMirrors: i.customMirrors, notes: i.notes,
+  }
+}
+
+function derived(ctx: Awaited<ReturnType<typeof chipContext>>, g: ReturnType<typeof geometry>) {
+  const d = deriveChannels({ pointGroup: ctx.pointGroup, cutNormal: ctx.cutNormal, flatDirection: ctx.flatDirection, chipRotationDeg: ctx.chip.rotationDeg, ...g })
+  return { symmetryName: d.symmetryName, channels: d.channels, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() }
+}
+
+/** Create an array (code A-<chip>-<position>) with its symmetry and channels derived. */
+export async function createArray(db: Db, actor: User, input: ArrayInput): Promise<number> {
+  const ctx = await chipContext(db, input.chipId)
+  if (ctx.chip.status === 'retired') throw fieldError('chipId', `${ctx.chip.code} is retired`)
+  const [dup] = await db.select({ id: arrays.id }).from(arrays).where(and(eq(arrays.chipId, input.chipId), eq(arrays.position, input.position)))
+  if (dup) throw new ConflictError(`${ctx.chip.code} already has an array at ${input.position}`, { position: ['This position is taken on the chip'] })
+  const g = geometry(input)
+  const v = { code: arrayCode(ctx.chip.code, input.position), chipId: input.chipId, position: input.position, ...g, ...derived(ctx, g) }
+  return db.transaction(async (tx) => {
+    const [{ id }] = await tx.insert(arrays).values(v).$returningId()
+    await writeAudit(tx, { userId: actor.id, entity: 'array', entityId: id, action: 'create', changes: diffFields({}, { code: v.code, position: v.position, ...g, symmetryName: v.symmetryName }) })
+    return id
+  })
+}
+
+/** Update an array's geometry (chip and position are part of the code and stay); channels are derived again. */
+export async function updateArray(db: Db, actor: User, id: number, input: ArrayInput): Promise<ArrayRecord> {
+  const [prev] = await db.select().from(arrays).where(eq(arrays.id, id))
+  if (found(prev, 'array').retiredAt) throw fieldError('_', 'This array is retired')
+  if (input.chipId !== prev.chipId) throw fieldError('chipId', 'An array stays on its chip')
+  if (input.position !== prev.position) throw fieldError('position', 'The position is part of the code; it cannot change')
+  const g = geometry(input)
+  const d = derived(await chipContext(db, prev.chipId), g)
+  const changes = diffFields(prev as unknown as Record<string, unknown>, { ...g, symmetryName: d.symmetryName })
+  await db.transaction(async (tx) => {
+    await tx.update(arrays).set({ ...g, ...d, updatedAt: new Date() }).where(eq(arrays.id, id))
+    if (Object.keys(changes).length) await writeAudit(tx, { userId: actor.id, entity: 'array', entityId: id, action: 'update', changes })
+  })
+  return getArray(db, id)
+}
+
+export async function retireArray(db: Db, actor: User, id: number, reason: string | null | undefined): Promise<ArrayRecord> {
+  const why = requireReason(reason, 'array')
+  const [prev] = await db.select().from(arrays).where(eq(arrays.id, id))
+  if (found(prev, 'array').retiredAt) throw fieldError('reason', 'This array is already retired')
+  await db.transaction(async (tx) => {
+    const at = new Date()
+    await tx.update(arrays).set({ retiredAt: at, updatedAt: at }).where(eq(arrays.id, id))
+    await writeAudit(tx, { userId: actor.id, entity: 'array', entityId: id, action: 'retire', changes: { retiredAt: { from: null, to: at.toISOString() } }, reason: why })
+  })
+  return getArray(db, id)
+}
+
+const CHUNK = 200
+
+/**
+ * Recompute stored channels: one array, or many (`ids`, or all; `staleOnly` keeps the stale ones)
+ * in chunks of 200, one transaction per chunk with one audit row per recomputed array. Staleness is
+ * decided in SQL (engine version, cleared input hash), so 100 000 rows never go through JS at once.
+ */
+export async function recomputeArrays(db: Db, actor: User, opts: { ids?: number[]; staleOnly?: boolean }): Promise<{ checked: number; recomputed: number }> {
+  let lastId = 0, checked = 0, recomputed = 0
+  for (;;) {
+    const filter: (SQL | undefined)[] = [gt(arrays.id, lastId), isNull(arrays.retiredAt), opts.ids ? inArray(arrays.id, opts.ids.length ? opts.ids : [0]) : undefined, opts.staleOnly ? staleSql : undefined]
+    const rows = await selectArrays(db).where(and(...filter)).orderBy(asc(arrays.id)).limit(CHUNK)
+    if (!rows.length) break
+    lastId = rows[rows.length - 1].a.id
+    checked += rows.length
+    const todo = rows
+    await db.transaction(async (tx) => {
+      for (const r of todo) {
+        const d = deriveChannels(inputsOf(r))
+        await tx.update(arrays).set({ symmetryName: d.symmetryName, channels: d.channels, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() }).where(eq(arrays.id, r.a.id))
+      }
+      await tx.insert(auditLog).values(todo.map((r) => ({
+        userId: actor.id, entity: 'array', entityId: r.a.id, action: 'update' as const, reason: 'channels recomputed',
+        changes: { engineVersion: { from: r.a.engineVersion, to: ENGINE_VERSION } },
+      })))
+    })
+    recomputed += todo.length
+  }
+  return { checked, recomputed }
+}

@@ -1,0 +1,142 @@
+import { and, asc, eq, like, or, sql } from 'drizzle-orm'
+import { chips, wafers, materials, users, locations, arrays, type User } from '../db/schema/index'
+import type { Db } from '../db/client'
+import type { ArrayRecord, Chip, FabStep, Page } from '../../shared/records'
+import type { DiceInput, ListQuery } from '../../shared/schemas/records'
+import type { chipUpdateSchema } from '../../shared/schemas/records'
+import type { z } from 'zod'
+import { diffFields, writeAudit, type DbOrTx } from './audit'
+import { fieldError } from '../errors'
+import { MAX_CHIP_INDEX, chipCode, codeNumber, found, likePattern, orderBy, requireReason } from './codes'
+import { locationRefs } from './locations'
+import { markArraysStale } from './materials'
+import { cutLabel } from './wafers'
+import { listArraysOfChip } from './arrays'
+import { listFabSteps } from './fab-steps'
+
+/** Parsed update; `notes` undefined = leave as is (the route drops it when the body omits it). */
+type ChipUpdate = Omit<z.infer<typeof chipUpdateSchema>, 'notes'> & { notes?: string | null }
+
+const base = () => ({
+  c: chips, waferCode: wafers.code, cutNormal: wafers.cutNormal, materialName: materials.name, pointGroup: materials.pointGroup, holderName: users.name,
+  arrayCount: sql<number>`(SELECT count(*) FROM arrays a WHERE a.chip_id = chips.id AND a.retired_at IS NULL)`,
+})
+type Joined = { c: typeof chips.$inferSelect; waferCode: string; cutNormal: [number, number, number]; materialName: string; pointGroup: string; holderName: string | null; arrayCount: number }
+
+function selectChips(db: Db) {
+  return db.select(base()).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId))
+    .innerJoin(materials, eq(materials.id, wafers.materialId)).leftJoin(users, eq(users.id, chips.holderId))
+}
+
+function toChip(r: Joined, refs: Awaited<ReturnType<typeof locationRefs>>): Chip {
+  const c = r.c
+  const loc = c.locationId ? refs.get(c.locationId) : undefined
+  return {
+    id: c.id, code: c.code, wafer: { id: c.waferId, code: r.waferCode, cutLabel: cutLabel(r.pointGroup, r.cutNormal), materialName: r.materialName },
+    index: c.index, rotationDeg: c.rotationDeg, widthMm: c.widthMm, heightMm: c.heightMm,
+    location: loc ? { id: loc.id, code: loc.code, path: loc.path } : null, holder: c.holderId ? { id: c.holderId, name: r.holderName ?? '?' } : null,
+    status: c.status, notes: c.notes, arrayCount: Number(r.arrayCount), createdAt: c.createdAt.toISOString(), updatedAt: c.updatedAt.toISOString(),
+  }
+}
+
+const SORTS = { code: chips.code, status: chips.status, rotationDeg: chips.rotationDeg, createdAt: chips.createdAt, wafer: wafers.code }
+
+/** Chips filtered by wafer (`parentId`), status and text (code, notes, wafer lot), paged in SQL. */
+export async function listChips(db: Db, q: ListQuery): Promise<Page<Chip>> {
+  const where = and(
+    q.parentId ? eq(chips.waferId, q.parentId) : undefined,
+    q.status ? sql`${chips.status} = ${q.status}` : q.includeRetired ? undefined : sql`${chips.status} <> 'retired'`,
+    q.q ? or(like(chips.code, likePattern(q.q)), like(chips.notes, likePattern(q.q)), like(wafers.lot, likePattern(q.q))) : undefined,
+  )
+  const [rows, [{ n }], refs] = await Promise.all([
+    selectChips(db).where(where).orderBy(orderBy(SORTS, q.sort, q.dir, 'code')).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+    db.select({ n: sql<number>`count(*)` }).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)).where(where),
+    locationRefs(db),
+  ])
+  return { rows: rows.map((r) => toChip(r, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }
+}
+
+export async function listChipsOfWafer(db: Db, waferId: number): Promise<Chip[]> {
+  const [rows, refs] = await Promise.all([selectChips(db).where(eq(chips.waferId, waferId)).orderBy(asc(chips.index)), locationRefs(db)])
+  return rows.map((r) => toChip(r, refs))
+}
+
+export async function getChip(db: Db, id: number): Promise<Chip> {
+  const [row] = await selectChips(db).where(eq(chips.id, id))
+  return toChip(found(row, 'chip'), await locationRefs(db))
+}
+
+export async function getChipDetail(db: Db, id: number): Promise<Chip & { arrays: ArrayRecord[]; fabSteps: FabStep[] }> {
+  const chip = await getChip(db, id)
+  const [arrs, steps] = await Promise.all([listArraysOfChip(db, id), listFabSteps(db, id)])
+  return { ...chip, arrays: arrs, fabSteps: steps }
+}
+
+/**
+ * Dice `count` chips from a wafer in ONE transaction: the wafer row is locked, numbering continues
+ * after its existing chips (C-0001-01…); a count past index 99 or a bad location writes nothing.
+ */
+export async function diceChips(db: Db, actor: User, input: DiceInput): Promise<number[]> {
+  const run = async (tx: Db) => {
+    const [w] = (await tx.execute(sql`SELECT id, code, status FROM wafers WHERE id = ${input.waferId} FOR UPDATE`)) as unknown as [{ id: number; code: string; status: string }[]]
+    const wafer = w[0]
+    if (!wafer) throw fieldError('waferId', 'No such wafer')
+    if (wafer.status === 'retired') throw fieldError('waferId', `${wafer.code} is retired; it cannot be diced`)
+    if (input.locationId) {
+      const [l] = await tx.select().from(locations).where(eq(locations.id, input.locationId))
+      if (!l || l.retiredAt) throw fieldError('locationId', 'No such location (or it is retired)')
+    }
+    const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${chips.index}), 0)` }).from(chips).where(eq(chips.waferId, wafer.id))
+    const first = Number(last) + 1
+    if (first + input.count - 1 > MAX_CHIP_INDEX)
+      throw fieldError('count', `${wafer.code} already has ${first - 1} chip(s); chip numbers stop at ${MAX_CHIP_INDEX}, so at most ${Math.max(0, MAX_CHIP_INDEX - first + 1)} more can be diced`)
+    const rows = Array.from({ length: input.count }, (_, k) => ({
+      code: chipCode(codeNumber(wafer.code), first + k), waferId: wafer.id, index: first + k, rotationDeg: input.rotationDeg,
+      widthMm: input.widthMm, heightMm: input.heightMm, locationId: input.locationId, notes: input.notes,
+    }))
+    await tx.insert(chips).values(rows)
+    const created = await tx.select({ id: chips.id, code: chips.code }).from(chips).where(and(eq(chips.waferId, wafer.id), sql`${chips.index} >= ${first}`)).orderBy(asc(chips.index))
+    for (const c of created) {
+      const r = rows.find((x) => x.code === c.code)!
+      await writeAudit(tx, { userId: actor.id, entity: 'chip', entityId: c.id, action: 'create', changes: diffFields({}, r) })
+    }
+    return created.map((c) => c.id)
+  }
+  return db.transaction((tx) => run(tx as unknown as Db))
+}
+
+/**
+ * Update a chip with an audit row. Changing rotationDeg of a chip that carries arrays needs a
+ * reason (their stored channels become stale: the input hash is cleared in the same transaction).
+ */
+export async function updateChip(db: Db, actor: User, id: number, input: ChipUpdate): Promise<Chip> {
+  const [prev] = await db.select().from(chips).where(eq(chips.id, id))
+  if (found(prev, 'chip').status === 'retired') throw fieldError('status', 'This chip is retired')
+  if (input.status === 'retired') throw fieldError('status', 'Use Retire (with a reason) to retire a chip')
+  const v = { rotationDeg: input.rotationDeg, widthMm: input.widthMm, heightMm: input.heightMm, status: input.status, notes: input.notes }
+  const changes = diffFields(prev as unknown as Record<string, unknown>, v)
+  const rotated = 'rotationDeg' in changes
+  if (rotated) {
+    const [{ n }] = await db.select({ n: sql<number>`count(*)` }).from(arrays).where(eq(arrays.chipId, id))
+    if (Number(n) > 0 && !input.reason) throw fieldError('reason', `This chip carries ${n} array(s) whose stored channels depend on its rotation: say why it changes`)
+  }
+  if (Object.keys(changes).length) {
+    await db.transaction(async (tx) => {
+      await tx.update(chips).set({ ...v, updatedAt: new Date() }).where(eq(chips.id, id))
+      if (rotated) await markArraysStale(tx as unknown as Db, eq(chips.id, id))
+      await writeAudit(tx, { userId: actor.id, entity: 'chip', entityId: id, action: 'update', changes, reason: input.reason })
+    })
+  }
+  return getChip(db, id)
+}
+
+export async function retireChip(db: Db, actor: User, id: number, reason: string | null | undefined): Promise<Chip> {
+  const why = requireReason(reason, 'chip')
+  const [prev] = await db.select().from(chips).where(eq(chips.id, id))
+  if (found(prev, 'chip').status === 'retired') throw fieldError('reason', 'This chip is already retired')
+  await db.transaction(async (tx) => {
+    await tx.update(chips).set({ status: 'retired', updatedAt: new Date() }).where(eq(chips.id, id))
+    await writeAudit(tx, { userId: actor.id, entity: 'chip', entityId: id, action: 'retire', changes: { status: { from: prev.status, to: 'retired' } }, reason: why })
+  })
+  return getChip(db, id)
+}

@@ -1,0 +1,59 @@
+import { sql, type SQL } from 'drizzle-orm'
+import type { DbOrTx } from './audit'
+import { NotFoundError, fieldError } from '../errors'
+
+/**
+ * Short human codes of the sample records: wafers W-0001, chips C-0001-01 (wafer number + chip
+ * index), arrays A-0001-01-B2 (chip numbers + position), locations L-0001. Codes are uppercase,
+ * immutable, and never reused (retired rows keep theirs, and the next number is max + 1).
+ */
+export const pad = (n: number, width: number) => String(n).padStart(width, '0')
+
+export const waferCode = (n: number) => `W-${pad(n, 4)}`
+export const chipCode = (waferNumber: number, index: number) => `C-${pad(waferNumber, 4)}-${pad(index, 2)}`
+export const arrayCode = (chipCodeValue: string, position: string) => `A-${chipCodeValue.slice(2)}-${position.toUpperCase()}`
+export const locationCode = (n: number) => `L-${pad(n, 4)}`
+
+/** The highest chip index a code can carry (two digits). */
+export const MAX_CHIP_INDEX = 99
+
+/** Number part of a `X-0042…` code. */
+export function codeNumber(code: string): number {
+  return Number(code.split('-')[1])
+}
+
+/**
+ * Next number for `prefix` codes in `table`: max + 1, computed inside the caller's transaction with
+ * the matching rows locked (SELECT … FOR UPDATE), so two concurrent creations cannot pick the same
+ * number; the unique index on `code` is the last line of defence.
+ */
+export async function nextCodeNumber(tx: DbOrTx, table: 'wafers' | 'locations', prefix: string): Promise<number> {
+  const [rows] = (await tx.execute(sql`SELECT MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)) AS n FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'} FOR UPDATE`)) as unknown as [{ n: number | string | null }[]]
+  return Number(rows[0]?.n ?? 0) + 1
+}
+
+/** Escape a user's text for LIKE. */
+export function likePattern(q: string, prefixOnly = false): string {
+  const esc = q.replace(/[\\%_]/g, (c) => '\\' + c)
+  return prefixOnly ? `${esc}%` : `%${esc}%`
+}
+
+/** Throw 404 unless the row exists. */
+export function found<T>(row: T | undefined, what: string): T {
+  if (!row) throw new NotFoundError(`No such ${what}.`)
+  return row
+}
+
+/** A retire reason is mandatory (400 on `reason`). */
+export function requireReason(reason: string | null | undefined, what: string): string {
+  if (!reason || !reason.trim()) throw fieldError('reason', `Say why the ${what} is retired (kept in the audit trail)`)
+  return reason.trim()
+}
+
+/** ORDER BY for a whitelisted sort column. */
+export function orderBy(columns: Record<string, SQL | unknown>, sort: string | undefined, dir: 'asc' | 'desc', fallback: string): SQL {
+  const col = (sort && sort in columns ? columns[sort] : columns[fallback]) as SQL
+  return dir === 'desc' ? sql`${col} desc` : sql`${col} asc`
+}
+
+export const iso = (d: Date | null | undefined) => (d ? d.toISOString() : null)
