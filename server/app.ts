@@ -18,6 +18,8 @@ import { healthRoutes } from './routes/health'
 import { channelRoutes } from './routes/channels'
 import { recordRoutes } from './routes/records/index'
 import { labelRoutes } from './routes/labels'
+import { excelRoutes } from './routes/excel'
+import { auditRoutes } from './routes/audit'
 
 const MySQLStore = MySQLStoreFactory(session as never)
 
@@ -74,6 +76,8 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api/search', searchRoutes(ctx))
   app.use('/api/channels', channelRoutes())
   app.use('/api/labels', labelRoutes(ctx))
+  app.use('/api/excel', excelRoutes(ctx))
+  app.use('/api/audit', auditRoutes(ctx))
   app.use('/api', recordRoutes(ctx))
   app.use('/api', apiNotFound)
 

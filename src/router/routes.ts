@@ -4,9 +4,10 @@ import type { Action, Subject } from '../../shared/abilities'
 import { inventoryRoutes, type InventoryRouteName } from './routes-inventory'
 import { measurementRoutes, type MeasurementRouteName } from './routes-measurements'
 import { labelRoutes, type LabelRouteName } from './routes-labels'
+import { adminRoutes, type AdminRouteName } from './routes-admin'
 
 /** Every route's name. Links (`AppLink`) and pushes (`pushTo`) accept only these. */
-export type RouteName = CoreRouteName | InventoryRouteName | MeasurementRouteName | LabelRouteName
+export type RouteName = CoreRouteName | InventoryRouteName | MeasurementRouteName | LabelRouteName | AdminRouteName
 
 type CoreRouteName =
   | 'sign-in' | 'sign-out' | 'accept-invite'
@@ -49,6 +50,7 @@ export const routes: RouteRecordRaw[] = [
       ...inventoryRoutes,
       ...measurementRoutes,
       ...labelRoutes,
+      ...adminRoutes,
       route('not-allowed', 'not-allowed', () => import('../pages/NotAllowedPage.vue'), { title: 'Not allowed' }),
       route('not-found', ':pathMatch(.*)*', () => import('../pages/NotFoundPage.vue'), { title: 'Not found' }),
     ],
