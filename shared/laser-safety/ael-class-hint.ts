@@ -1,0 +1,107 @@
+/**
+ * Indicative laser class hint (1, 1M?, 2, 2M?, 3R, 3B, 4) for the common cases: CW and
+ * repetitively pulsed beams at 400–1400 nm and 1500–1800 nm, point source, IEC 60825-1:2014.
+ * Anything else yields `outside-table` ("outside the table, ask the LSO"). A hint is not a
+ * classification: the manufacturer's label and the LSO govern.
+ *
+ * A class is met when every applicable requirement of IEC 60825-1 4.3 f (FACTS.md §1.1) holds:
+ * the average power against the CW AEL, each pulse against the single-pulse AEL, and each
+ * effective (grouped) pulse against the pulse AEL × C5. Class 3B uses the first two only.
+ */
+import { computed, fmt, type Computed } from './computed'
+import { ASK_THE_LSO, requirePositive } from './errors'
+import { aelCw, aelPulse, isClassHintWavelength, type Ael, type AelClass } from './ael-table'
+import { apertureFraction } from './exposure'
+import { correctionC5, groupPulses } from './repetitive-pulses'
+
+/** Possible hints; `?` marks a magnifier-dependent class that needs the LSO to confirm. */
+export type ClassHint = '1' | '1M?' | '2' | '2M?' | '3R' | '3B' | '4' | 'outside-table'
+
+/** Input of {@link classHint}. Omit `pulse` for a CW beam. */
+export interface ClassHintInput {
+  wavelengthNm: number
+  averagePowerW: number
+  /** 1/e² beam diameter at 100 mm from the exit (mm); a beam over 7 mm may be 1M/2M. Default 1 mm. */
+  beamDiameterMm?: number
+  pulse?: { durationS: number, repetitionRateHz: number }
+}
+
+/** One requirement checked for one class. */
+export interface ClassCheck {
+  cls: AelClass
+  rule: 'average' | 'single pulse' | 'pulse train'
+  emission: number
+  unit: 'W' | 'J'
+  ael: Ael
+  passes: boolean
+}
+
+/** The hint with the requirement checks behind it (for showing the working). */
+export interface ClassHintResult {
+  hint: Computed<ClassHint>
+  checks: ClassCheck[]
+}
+
+const SOURCE = 'FACTS.md §1.1 (IEC 60825-1:2014 AEL [V] H visible, [S] M IR)'
+const ORDER: readonly AelClass[] = ['1', '2', '3R', '3B']
+
+function timeBaseS(cls: AelClass, nm: number): number {
+  return (cls === '2' || cls === '3R') && nm < 700 ? 0.25 : 100
+}
+
+function checksFor(cls: AelClass, input: ClassHintInput, share: number): ClassCheck[] {
+  const nm = input.wavelengthNm
+  const power = input.averagePowerW * share
+  const out: ClassCheck[] = []
+  const add = (rule: ClassCheck['rule'], emission: number, unit: 'W' | 'J', ael: Ael, factor = 1) =>
+    out.push({ cls, rule, emission, unit, ael, passes: ael.value !== null && emission <= ael.value * factor })
+  add('average', power, 'W', aelCw(cls, nm))
+  const p = input.pulse
+  if (!p || p.durationS >= 0.25) return out
+  const energy = (input.averagePowerW / p.repetitionRateHz) * share
+  add('single pulse', energy, 'J', aelPulse(cls, nm, p.durationS))
+  if (cls === '3B') return out
+  const T = timeBaseS(cls, nm)
+  const g = groupPulses({ edition: 'IEC-60825-1:2014', wavelengthNm: nm, pulseDurationS: p.durationS, repetitionRateHz: p.repetitionRateHz, exposureDurationS: T })
+  const c5 = correctionC5(g, T).value
+  const groupAel = aelPulse(cls, nm, g.effectiveDurationS)
+  add('pulse train', energy * g.pulsesPerGroup, 'J',
+    { value: groupAel.value === null ? null : groupAel.value * c5, formula: `C5 × ${groupAel.formula}, C5 = ${fmt(c5)}, ${fmt(g.pulsesPerGroup)} pulses per group` })
+  return out
+}
+
+function lowestClass(input: ClassHintInput, share: number, checks: ClassCheck[]): ClassHint {
+  for (const cls of ORDER) {
+    const c = checksFor(cls, input, share)
+    checks.push(...c)
+    if (c.every(x => x.passes)) return cls
+  }
+  return '4'
+}
+
+/** Indicative class hint; see the module comment for the rules and limits. */
+export function classHint(input: ClassHintInput): ClassHintResult {
+  const nm = requirePositive('wavelengthNm', input.wavelengthNm)
+  requirePositive('averagePowerW', input.averagePowerW)
+  const diameter = requirePositive('beamDiameterMm', input.beamDiameterMm ?? 1)
+  if (input.pulse) {
+    requirePositive('pulse.durationS', input.pulse.durationS)
+    requirePositive('pulse.repetitionRateHz', input.pulse.repetitionRateHz)
+  }
+  const edition = 'IEC-60825-1:2014' as const
+  if (!isClassHintWavelength(nm))
+    return { hint: computed<ClassHint>('outside-table', 'class', `no table entry for ${fmt(nm)} nm: ${ASK_THE_LSO}`, SOURCE, { edition }), checks: [] }
+  const checks: ClassCheck[] = []
+  const full = lowestClass(input, 1, checks)
+  let hint: ClassHint = full
+  if (full !== '1' && full !== '2' && diameter > 7) {
+    const share = apertureFraction(diameter, 7)
+    const throughAperture = lowestClass(input, share, [])
+    if (throughAperture === '1') hint = '1M?'
+    else if (throughAperture === '2') hint = '2M?'
+  }
+  const failed = checks.filter(c => !c.passes).map(c => `Class ${c.cls} ${c.rule}: ${fmt(c.emission)} ${c.unit} > ${c.ael.value === null ? 'n/a' : fmt(c.ael.value)} ${c.unit} (${c.ael.formula})`)
+  const notes = ['indicative only; the manufacturer’s classification and the LSO govern', ...failed]
+  if (hint.endsWith('?')) notes.push('within the lower class through a 7 mm aperture only: magnifying optics may make it hazardous; ask the LSO')
+  return { hint: computed(hint, 'class', `lowest class whose AELs all hold (average, single pulse, pulse train × C5)`, SOURCE, { edition, notes }), checks }
+}
