@@ -1,8 +1,58 @@
-import { Router } from 'express'
+import { Router, type Request, type Response } from 'express'
+import multer from 'multer'
+import { z } from 'zod'
 import type { AppContext } from '../context'
+import { parse } from '../middleware/validate'
+import { currentUser, requireAbility } from '../auth/guards'
+import { BadRequestError, fieldError } from '../errors'
+import { XLSX_MIME } from '../services/excel-style'
+import { getExport, openExport, startExport } from '../services/excel-export'
+import { buildTemplate } from '../services/excel-template'
+import { importWorkbook } from '../services/excel-import'
 
-/** Mounted under /api/excel: inventory export and legacy import. */
-export function excelRoutes(_ctx: AppContext): Router {
+const MAX_IMPORT_BYTES = 20 * 1024 * 1024
+const receive = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_IMPORT_BYTES, files: 1, fields: 5 } }).single('file')
+
+/** Run multer; its limit errors become field-level 400s on `file`. */
+function receiveUpload(req: Request, res: Response): Promise<void> {
+  return new Promise((resolve, reject) => receive(req, res, (err: unknown) => {
+    if (!err) return resolve()
+    const code = (err as { code?: string }).code
+    if (code === 'LIMIT_FILE_SIZE') return reject(fieldError('file', 'The file is larger than 20 MB: split it'))
+    if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT') return reject(fieldError('file', 'Send one file, in the form field "file"'))
+    reject(new BadRequestError(`The upload could not be read: ${(err as Error).message}`))
+  }))
+}
+
+const jobParams = z.object({ id: z.string().uuid('No such export') })
+const importQuery = z.object({ dryRun: z.enum(['true', 'false']).default('true').transform((v) => v === 'true') })
+
+/** Mounted under /api/excel: inventory export (jobs with progress), import template, legacy import. */
+export function excelRoutes(ctx: AppContext): Router {
   const r = Router()
+  r.post('/exports', requireAbility('export', 'Inventory'), async (req, res) => {
+    res.status(202).json(await startExport(ctx.db, ctx.env.DATA_DIR, currentUser(req)))
+  })
+  r.get('/exports/:id', requireAbility('export', 'Inventory'), (req, res) => {
+    res.json(getExport(parse(jobParams, req.params).id, currentUser(req)))
+  })
+  r.get('/exports/:id/download', requireAbility('export', 'Inventory'), async (req, res) => {
+    const { job, stream } = await openExport(parse(jobParams, req.params).id, currentUser(req))
+    res.attachment(job.fileName)
+    res.set({ 'Content-Type': XLSX_MIME, 'Cache-Control': 'private, no-store', ...(job.sizeBytes ? { 'Content-Length': String(job.sizeBytes) } : {}) })
+    stream.pipe(res)
+  })
+  r.get('/template', requireAbility('import', 'Inventory'), async (_req, res) => {
+    res.attachment('overtone-import-template.xlsx')
+    res.set({ 'Content-Type': XLSX_MIME, 'Cache-Control': 'no-store' }).send(await buildTemplate(ctx.db))
+  })
+  r.post('/import', requireAbility('import', 'Inventory'), async (req, res) => {
+    const { dryRun } = parse(importQuery, req.query)
+    await receiveUpload(req, res)
+    const file = req.file ? { buffer: req.file.buffer, originalName: req.file.originalname } : undefined
+    const report = await importWorkbook(ctx.db, currentUser(req), file, dryRun)
+    // A real import that was refused (errors in the file) answers 422 with the same report.
+    res.status(!dryRun && !report.imported ? 422 : dryRun ? 200 : 201).json(report)
+  })
   return r
 }

@@ -1,0 +1,201 @@
+import { asc, eq, gt, inArray } from 'drizzle-orm'
+import { alias } from 'drizzle-orm/mysql-core'
+import type ExcelJS from 'exceljs'
+import { arrays, chips, laserSetups, locations, materials, measurementSessions as ms, sessionResults, users, wafers } from '../db/schema/index'
+import type { Db } from '../db/client'
+import type { StoredChannel } from '../../shared/records'
+import { ENGINE_VERSION, type PumpSpec } from '../../shared/engine'
+import { ARRAY_COLUMNS, CHIP_COLUMNS, WAFER_COLUMNS } from './excel-columns'
+import { DATE_FMT, DATE_TIME_FMT, addStyledSheet, dateOnly, vectorText, type SheetColumn } from './excel-style'
+import { STANDARD_PUMPS, STORED_ORDERS } from './array-channels'
+import { cutLabel } from './wafers'
+import { locationRefs } from './locations'
+import { compareResult, loadArrayContexts } from './session-compare'
+
+/**
+ * The sheets of the inventory export. Each reads its table in keyset-paged batches (BATCH rows by
+ * id) and commits every row as it goes, so 100 000 arrays never sit in memory at once.
+ */
+export const BATCH = 2000
+type Book = Pick<ExcelJS.Workbook, 'addWorksheet'>
+export interface SheetContext { db: Db; book: Book; tick: (rows: number) => void }
+
+/** Copy the importable columns' headers (so an export can be imported again), then the export-only ones. */
+const importable = (cols: typeof WAFER_COLUMNS, rename: Record<string, string> = {}): SheetColumn[] =>
+  cols.map((c) => ({ header: rename[c.key] ?? c.header, key: c.key, width: c.width, numFmt: c.kind === 'date' ? DATE_FMT : undefined }))
+const utc = (header: string, key: string): SheetColumn => ({ header: `${header} (UTC)`, key, width: 17, numFmt: DATE_TIME_FMT })
+
+/** Keyset paging: call `page(afterId)` until it answers no rows; each batch goes to `write`. */
+async function eachBatch<T>(page: (afterId: number) => Promise<T[]>, idOf: (row: T) => number, write: (rows: T[]) => Promise<void> | void) {
+  for (let last = 0; ;) {
+    const rows = await page(last)
+    if (!rows.length) return
+    await write(rows)
+    last = idOf(rows[rows.length - 1])
+  }
+}
+
+function finish(ws: ExcelJS.Worksheet) {
+  const w = ws as ExcelJS.Worksheet & { commit?: () => void }
+  if (typeof w.commit === 'function') w.commit()
+}
+const commitRow = (row: ExcelJS.Row) => (row as ExcelJS.Row & { commit?: () => void }).commit?.()
+
+export async function writeMaterials({ db, book, tick }: SheetContext) {
+  const ws = addStyledSheet(book, 'Materials', [
+    { header: 'Name', key: 'name', width: 22 }, { header: 'Formula', key: 'formula', width: 12 }, { header: 'Point group', key: 'pointGroup', width: 11 },
+    { header: 'Band gap (eV)', key: 'bandGapEv', width: 12 }, { header: 'Transparency', key: 'transparencyNote', width: 24 },
+    { header: 'Coefficients (pm/V @ nm)', key: 'coefficients', width: 40 }, { header: 'Notes', key: 'notes', width: 30 },
+    utc('Retired', 'retiredAt'), utc('Created', 'createdAt'),
+  ])
+  await eachBatch((after) => db.select().from(materials).where(gt(materials.id, after)).orderBy(asc(materials.id)).limit(BATCH), (r) => r.id, (rows) => {
+    for (const m of rows) {
+      const coefficients = m.coefficients.map((c) => `${c.component}=${c.valuePmV} @ ${c.wavelengthNm} nm${c.isTypical ? ' (typical)' : ''}`).join('; ')
+      commitRow(ws.addRow({ ...m, coefficients }))
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+export async function writeWafers({ db, book, tick }: SheetContext) {
+  const refs = await locationRefs(db)
+  const ws = addStyledSheet(book, 'Wafers', [
+    ...importable(WAFER_COLUMNS, { ref: 'Code' }),
+    { header: 'Point group', key: 'pointGroup', width: 11 }, { header: 'Cut', key: 'cut', width: 10 }, { header: 'Chips', key: 'chips', width: 8 },
+    { header: 'Created by', key: 'createdBy', width: 20 }, utc('Created', 'createdAt'),
+  ])
+  await eachBatch((after) => db.select({ w: wafers, material: materials.name, pointGroup: materials.pointGroup, by: users.name }).from(wafers)
+    .innerJoin(materials, eq(materials.id, wafers.materialId)).innerJoin(users, eq(users.id, wafers.createdBy))
+    .where(gt(wafers.id, after)).orderBy(asc(wafers.id)).limit(BATCH), (r) => r.w.id, async (rows) => {
+    const counts = await db.select({ waferId: chips.waferId, id: chips.id }).from(chips).where(inArray(chips.waferId, rows.map((r) => r.w.id)))
+    for (const { w, material, pointGroup, by } of rows) {
+      commitRow(ws.addRow({
+        ref: w.code, material, cutNormal: vectorText(w.cutNormal), flatDirection: vectorText(w.flatDirection), diameterMm: w.diameterMm, thicknessUm: w.thicknessUm,
+        lot: w.lot, supplier: w.supplier, receivedOn: dateOnly(w.receivedOn), location: w.locationId ? refs.get(w.locationId)?.code : null, status: w.status,
+        notes: w.notes, pointGroup, cut: cutLabel(pointGroup, w.cutNormal), chips: counts.filter((c) => c.waferId === w.id).length, createdBy: by, createdAt: w.createdAt,
+      }))
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+export async function writeChips({ db, book, tick }: SheetContext) {
+  const refs = await locationRefs(db)
+  const ws = addStyledSheet(book, 'Chips', [
+    ...importable(CHIP_COLUMNS, { ref: 'Code' }),
+    { header: 'Material', key: 'material', width: 18 }, { header: 'Holder', key: 'holder', width: 18 }, utc('Created', 'createdAt'),
+  ])
+  await eachBatch((after) => db.select({ c: chips, wafer: wafers.code, material: materials.name, holder: users.name }).from(chips)
+    .innerJoin(wafers, eq(wafers.id, chips.waferId)).innerJoin(materials, eq(materials.id, wafers.materialId)).leftJoin(users, eq(users.id, chips.holderId))
+    .where(gt(chips.id, after)).orderBy(asc(chips.id)).limit(BATCH), (r) => r.c.id, (rows) => {
+    for (const { c, wafer, material, holder } of rows) {
+      commitRow(ws.addRow({
+        ref: c.code, wafer, index: c.index, rotationDeg: c.rotationDeg, widthMm: c.widthMm, heightMm: c.heightMm,
+        location: c.locationId ? refs.get(c.locationId)?.code : null, status: c.status, notes: c.notes, material, holder, createdAt: c.createdAt,
+      }))
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+const HARMONIC = (order: number) => (order === 2 ? 'SHG' : order === 3 ? 'THG' : `H${order}`)
+const PUMP_LABEL: Record<string, string> = { 'circular+1': 'circular +1', 'circular-1': 'circular −1', 'linear-along-flat': 'linear along flat', 'linear-across-flat': 'linear across flat' }
+
+/** Plain text of normal emission: "no", "yes", "yes co", "yes counter", "yes co + counter". */
+export function normalEmissionText(ch: StoredChannel | undefined): string {
+  if (!ch) return ''
+  const n = ch.result.normalEmission
+  if (!n.allowed || n.suppressedByParity) return 'no'
+  if (!n.handedness?.length) return 'yes'
+  return `yes ${[...new Set(n.handedness.map((h) => (h === 'co-rotating' ? 'co' : 'counter')))].join(' + ')}`
+}
+
+export async function writeArrays({ db, book, tick }: SheetContext) {
+  const channelCols: SheetColumn[] = STORED_ORDERS.flatMap((order) => STANDARD_PUMPS.flatMap(({ key }) => [
+    { header: `${HARMONIC(order)} ${PUMP_LABEL[key]}: allowed m`, key: `${order}|${key}|m`, width: 16 },
+    { header: `${HARMONIC(order)} ${PUMP_LABEL[key]}: normal emission`, key: `${order}|${key}|n`, width: 16 },
+  ]))
+  const ws = addStyledSheet(book, 'Arrays', [
+    ...importable(ARRAY_COLUMNS, { ref: 'Code' }),
+    { header: 'Symmetry', key: 'symmetry', width: 10 }, { header: 'Engine version', key: 'engineVersion', width: 10 }, { header: 'Stale', key: 'stale', width: 7 },
+    utc('Channels computed', 'channelsComputedAt'), utc('Retired', 'retiredAt'), utc('Created', 'createdAt'), ...channelCols,
+  ])
+  await eachBatch((after) => db.select({ a: arrays, chip: chips.code }).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId))
+    .where(gt(arrays.id, after)).orderBy(asc(arrays.id)).limit(BATCH), (r) => r.a.id, (rows) => {
+    for (const { a, chip } of rows) {
+      const row: Record<string, unknown> = {
+        ref: a.code, chip, position: a.position, shape: a.shape, dimensionsNm: Object.entries(a.dimensionsNm).map(([k, v]) => `${k}=${v}`).join('; '),
+        shapeAzimuthDeg: a.shapeAzimuthDeg, lattice: a.lattice, periodXNm: a.periodXNm, periodYNm: a.periodYNm, azimuthDeg: a.azimuthDeg, count: a.count,
+        customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors?.join(', ') ?? null, notes: a.notes,
+        symmetry: a.symmetryName, engineVersion: a.engineVersion, stale: a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash ? 'yes' : 'no',
+        channelsComputedAt: a.channelsComputedAt, retiredAt: a.retiredAt, createdAt: a.createdAt,
+      }
+      for (const ch of a.channels ?? []) {
+        row[`${ch.order}|${ch.pumpKey}|m`] = ch.result.m.join(', ')
+        row[`${ch.order}|${ch.pumpKey}|n`] = normalEmissionText(ch)
+      }
+      commitRow(ws.addRow(row))
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+const pumpText = (p: PumpSpec) => (p.type === 'circular' ? `circular ${p.m > 0 ? '+1' : '−1'}` : p.type === 'linear' ? `linear ${p.angle}°` : p.type)
+
+export async function writeSessions({ db, book, tick }: SheetContext) {
+  const operators = alias(users, 'operators')
+  const ws = addStyledSheet(book, 'Sessions', [
+    { header: 'Session', key: 'code', width: 10 }, utc('Performed', 'performedAt'), { header: 'Laser setup', key: 'setup', width: 12 },
+    { header: 'Operator', key: 'operator', width: 18 }, { header: 'Wavelength (nm)', key: 'wavelengthNm', width: 14 }, { header: 'Order', key: 'order', width: 7 },
+    { header: 'Pump', key: 'pump', width: 14 }, { header: 'Average power (mW)', key: 'avgPowerMw', width: 14 }, { header: 'Array', key: 'array', width: 16 },
+    { header: 'Harmonic power (W)', key: 'harmonicPowerW', width: 14 }, { header: 'Observed normal', key: 'observedNormal', width: 14 },
+    { header: 'Observed m', key: 'observedM', width: 12 }, { header: 'Predicted m', key: 'predictedM', width: 14 },
+    { header: 'Predicted normal emission', key: 'predictedNormal', width: 16 }, { header: 'Predicted vs observed', key: 'flags', width: 60 }, { header: 'Notes', key: 'notes', width: 30 },
+  ])
+  await eachBatch((after) => db.select({ s: ms, setup: laserSetups.code, operator: operators.name }).from(ms).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId))
+    .innerJoin(operators, eq(operators.id, ms.operatorId)).where(gt(ms.id, after)).orderBy(asc(ms.id)).limit(200), (r) => r.s.id, async (rows) => {
+    const results = await db.select().from(sessionResults).where(inArray(sessionResults.sessionId, rows.map((r) => r.s.id)))
+    const ctx = await loadArrayContexts(db, [...new Set(results.map((r) => r.arrayId))])
+    for (const { s, setup, operator } of rows) {
+      for (const r of results.filter((x) => x.sessionId === s.id)) {
+        const a = ctx.get(r.arrayId)
+        let predicted = '', predictedNormal = '', flags = ''
+        try {
+          const cmp = a ? compareResult(a, r, s.pump, s.harmonicOrder) : null
+          if (cmp) {
+            predicted = cmp.predicted.m.join(', ')
+            predictedNormal = normalEmissionText({ order: s.harmonicOrder, pumpKey: '', pump: s.pump, result: cmp.predicted })
+            flags = cmp.flags.length ? cmp.flags.join(' ') : 'consistent'
+          }
+        } catch (err) { flags = `no prediction: ${(err as Error).message}` }
+        commitRow(ws.addRow({
+          code: s.code, performedAt: s.performedAt, setup, operator, wavelengthNm: s.wavelengthNm, order: s.harmonicOrder, pump: pumpText(s.pump),
+          avgPowerMw: s.avgPowerMw, array: a?.code ?? r.arrayId, harmonicPowerW: r.harmonicPowerW, observedNormal: r.observedNormal,
+          observedM: r.observedM.join(', '), predictedM: predicted, predictedNormal, flags, notes: r.notes,
+        }))
+      }
+    }
+    tick(results.length)
+  })
+  finish(ws)
+}
+
+export async function writeLocations({ db, book, tick }: SheetContext) {
+  const refs = await locationRefs(db)
+  const ws = addStyledSheet(book, 'Locations', [
+    { header: 'Code', key: 'code', width: 10 }, { header: 'Kind', key: 'kind', width: 9 }, { header: 'Name', key: 'name', width: 20 },
+    { header: 'Parent', key: 'parent', width: 10 }, { header: 'Path', key: 'path', width: 40 }, { header: 'Notes', key: 'notes', width: 30 },
+    utc('Retired', 'retiredAt'), utc('Created', 'createdAt'),
+  ])
+  await eachBatch((after) => db.select().from(locations).where(gt(locations.id, after)).orderBy(asc(locations.id)).limit(BATCH), (r) => r.id, (rows) => {
+    for (const l of rows) {
+      commitRow(ws.addRow({ ...l, parent: l.parentId ? refs.get(l.parentId)?.code : null, path: refs.get(l.id)?.path }))
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
