@@ -13,6 +13,8 @@ const envSchema = z.object({
   SMTP_URL: z.string().optional(),
   SMTP_SINK_PORT: z.coerce.number().int().min(0).max(65535).default(2525),
   MAIL_FROM: z.string().default('Overtone <overtone@kestrel-lab.example>'),
+  /** Seconds between runs of the scheduled notices (expiring sign-offs, weekly digest). */
+  NOTICE_INTERVAL_S: z.coerce.number().int().min(10).default(300),
   DATA_DIR: z.string().default('.data'),
   /** Failed sign-ins allowed per e-mail and address in a 10-minute window. */
   LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(8),

@@ -7,6 +7,8 @@ import { createDb } from './db/client'
 import { createApp } from './app'
 import { startMailSink } from './services/mail-sink'
 import { MailWorker } from './services/mail'
+import { NoticeScheduler } from './services/notice-scheduler'
+import { setNoticeBaseUrl } from './services/notices'
 import type { AppContext } from './context'
 
 /** Keep one session secret per data dir so restarts keep people signed in. */
@@ -49,6 +51,9 @@ async function main() {
     publicUrl: (env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`).replace(/\/$/, ''),
     mailUp: () => tcpAnswers(smtp.hostname, Number(smtp.port || 25)),
   }
+  setNoticeBaseUrl(ctx.publicUrl)
+  const notices = new NoticeScheduler(db, log, env.NOTICE_INTERVAL_S * 1000)
+  notices.start()
   const { app, close } = createApp(ctx)
   const server = app.listen(env.PORT, env.HOST, () => {
     log(`Overtone is running at ${ctx.publicUrl}`)
@@ -61,6 +66,7 @@ async function main() {
     log(`${signal}: shutting down`)
     server.close()
     server.closeAllConnections?.()
+    await notices.stop()
     await worker.stop()
     await sink?.close()
     await close()

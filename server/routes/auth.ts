@@ -8,6 +8,8 @@ import { currentUser, requireUser } from '../auth/guards'
 import { acceptInvitation, changePassword, describeInvitation, toPublicUser } from '../services/users'
 import { UnauthorizedError, AppError } from '../errors'
 import type { User } from '../db/schema/index'
+import { preferencesSchema } from '../../shared/schemas/notices'
+import { getPreferences, setPreferences } from '../services/notices'
 
 export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router {
   const r = Router()
@@ -46,6 +48,12 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
     const input = parse(changePasswordSchema, req.body)
     await changePassword(ctx.db, currentUser(req), input.currentPassword, input.newPassword)
     res.status(204).end()
+  })
+
+  r.get('/preferences', requireUser, async (req, res) => { res.json(await getPreferences(ctx.db, currentUser(req).id)) })
+
+  r.patch('/preferences', requireUser, async (req, res) => {
+    res.json(await setPreferences(ctx.db, currentUser(req).id, parse(preferencesSchema, req.body)))
   })
 
   r.get('/invite/:token', async (req, res) => {

@@ -2,13 +2,20 @@ import { Router } from 'express'
 import { idParamSchema } from '../../shared/schemas/auth'
 import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
-import { requireAbility } from '../auth/guards'
+import { currentUser, requireAbility, requireUser } from '../auth/guards'
 import { getReceived, listQueue, listReceived } from '../services/mail'
-import { NotFoundError } from '../errors'
+import { ForbiddenError, NotFoundError } from '../errors'
+import { queueDigest } from '../services/notice-scheduler'
 
 /** The local sink's received mail and the outgoing queue (admins). */
 export function mailRoutes(ctx: AppContext): Router {
   const r = Router()
+  // "Send the digest now": admins and group leads (before the admin-only guard below).
+  r.post('/digest', requireUser, async (req, res) => {
+    if (!currentUser(req).roles.some((role) => role === 'admin' || role === 'group_lead')) throw new ForbiddenError()
+    const { isSent, recipients, since, until } = await queueDigest(ctx.db, new Date(), true)
+    res.status(201).json({ isSent, recipients, since, until })
+  })
   r.use(requireAbility('read', 'Mail'))
   r.get('/', async (_req, res) => { res.json({ messages: await listReceived(ctx.db) }) })
   r.get('/queue', async (_req, res) => { res.json({ queue: await listQueue(ctx.db) }) })

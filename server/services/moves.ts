@@ -4,7 +4,7 @@ import type { Db } from '../db/client'
 import type { Move } from '../../shared/records'
 import type { MoveInput } from '../../shared/schemas/records'
 import { writeAudit, type DbOrTx } from './audit'
-import { queueMail } from './mail'
+import { noticeHandOff } from './notices'
 import { fieldError } from '../errors'
 import { iso } from './codes'
 import { descendantIds, locationRefs } from './locations'
@@ -60,11 +60,7 @@ export async function moveItem(db: Db, actor: User, input: MoveInput, publicUrl:
     await writeAudit(tx, { userId: actor.id, entity: item.kind, entityId: item.id, action: 'update', changes, reason: input.note ?? `moved to ${to.code}` })
     if (person && person.notifyByMail) {
       const path = (await locationRefs(tx as unknown as Db)).get(to.id)?.path ?? to.name
-      await queueMail(tx, {
-        to: person.email,
-        subject: `Overtone: ${item.code} was handed to you`,
-        text: `Hello ${person.name},\n\n${actor.name} handed ${item.code} to you; it is now stored at ${path} (${to.code}).${input.note ? `\nNote: ${input.note}` : ''}\n\nOpen it: ${publicUrl}/s/${item.code}\n`,
-      })
+      await noticeHandOff(tx, { toUserId: person.id, itemCode: item.code, actorName: actor.name, path, locationCode: to.code, note: input.note }, publicUrl)
     }
     return id
   })
