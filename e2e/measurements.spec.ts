@@ -28,11 +28,17 @@ async function makeSample(stamp: string) {
   const array = await post<{ id: number; code: string }>(fab, `/api/chips/${chips[0].id}/arrays`, {
     position: 'B1', shape: 'disk', dimensionsNm: { diameterNm: 450 }, lattice: 'single', count: 400,
   })
-  const safety = await apiAs('safety')
-  const setup = await post<{ id: number; code: string; name: string }>(safety, '/api/laser-setups', {
+  // Registered by the admin, signed off by the safety officer (sessions need a signed-off setup; performer ≠ checker).
+  const admin = await apiAs('admin')
+  const setup = await post<{ id: number; code: string; name: string }>(admin, '/api/laser-setups', {
     name: `E2E OPO ${stamp}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 800],
   })
+  const safety = await apiAs('safety')
+  const expiresOn = new Date(Date.now() + 90 * 86400_000).toISOString().slice(0, 10)
+  const approved = await safety.post(`/api/laser-setups/${setup.id}/approve`, { data: { expiresOn, note: 'E2E sign-off' } })
+  expect(approved.status(), await approved.text()).toBe(200)
   await fab.dispose()
+  await admin.dispose()
   await safety.dispose()
   return { array, setup, chipCode: chips[0].code }
 }
@@ -66,8 +72,10 @@ test('optics staff log a session, see the contradiction flag, and attach a spect
 
   // Laser setup, with the caution under the picker.
   await page.getByLabel('Laser setup').click()
+  await page.getByLabel('Laser setup').pressSequentially(setup.name.slice(-8))
   await page.getByRole('option', { name: new RegExp(setup.name) }).click()
   await expect(page.getByTestId('laser-caution')).toContainText('laser safety officer')
+  await page.getByRole('checkbox', { name: /I have read this setup's safety notes/ }).click()
   await page.getByLabel('Pulse duration').fill('150')
   await page.getByLabel('Repetition rate').fill('80')
   await page.getByLabel('Average power').fill('10')

@@ -20,6 +20,7 @@ import { recordRoutes } from './routes/records/index'
 import { labelRoutes } from './routes/labels'
 import { excelRoutes } from './routes/excel'
 import { auditRoutes } from './routes/audit'
+import { analysisRoutes } from './routes/analysis'
 
 const MySQLStore = MySQLStoreFactory(session as never)
 
@@ -56,6 +57,8 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
     strictTransportSecurity: false,
   }))
   app.use(requestId)
+  // Health first: a load balancer's probe must get 503 (not a session-store error) when the DB is down.
+  app.use('/api/health', healthRoutes(ctx))
   app.use('/api', express.json({ limit: '1mb' }))
   app.use('/api', session({
     name: 'sid',
@@ -69,7 +72,6 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api', pp.initialize(), pp.session())
   app.use('/api', originCheck)
 
-  app.use('/api/health', healthRoutes(ctx))
   app.use('/api/auth', authRoutes(ctx, pp))
   app.use('/api/users', userRoutes(ctx))
   app.use('/api/mail', mailRoutes(ctx))
@@ -78,6 +80,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api/labels', labelRoutes(ctx))
   app.use('/api/excel', excelRoutes(ctx))
   app.use('/api/audit', auditRoutes(ctx))
+  app.use('/api/analysis', analysisRoutes(ctx))
   app.use('/api', recordRoutes(ctx))
   app.use('/api', apiNotFound)
 

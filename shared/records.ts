@@ -80,9 +80,25 @@ export interface ArrayRecord {
   notes: string | null; retiredAt: string | null; createdAt: string; updatedAt: string
 }
 
+/** One eyewear entry of a laser setup: bands in nm as text (`720–850, 1064`), OD and/or an EN 207 marking. */
+export interface EyewearEntry { description: string; bandsNm: string; od: number | null; en207: string | null }
+export type LaserClass = '1' | '1M' | '2' | '2M' | '3R' | '3B' | '4'
+export type SignoffState = 'waiting' | 'approved' | 'expired' | 'rejected' | 'revoked' | 'voided'
+/** Sign-off summary of a setup (the latest decision; `history` only on the detail). */
+export interface SignoffSummary {
+  state: SignoffState; expiresOn: string | null; by: PersonRef | null; at: string | null; note: string | null
+  /** True when sessions may be logged on the setup today. */
+  isValid: boolean
+}
+
 export interface LaserSetup {
   id: number; code: string; name: string; room: string; sourceType: 'cw' | 'pulsed' | 'mode_locked'
   wavelengthsNm: number[]; notes: string | null; retiredAt: string | null
+  pulseDurationFs: number | null; repRateHz: number | null; maxAvgPowerMw: number | null; pulseEnergyUj: number | null
+  beamDiameterMm: number | null; divergenceMrad: number | null; harmonicOrders: number[]; laserClass: LaserClass | null
+  eyewear: EyewearEntry[]; interlocks: string | null; controlledAreaNotes: string | null
+  submitter: PersonRef | null
+  signoff: SignoffSummary
 }
 
 export interface SessionResult {

@@ -58,11 +58,17 @@ export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayR
     q.stale === true ? staleSql : q.stale === false ? sql`NOT ${staleSql}` : undefined,
     q.q ? or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q))) : undefined,
   )
-  const [rows, [{ n }]] = await Promise.all([
-    selectArrays(db).where(where).orderBy(orderBy(SORTS, q.sort, q.dir, 'code')).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+  // Two steps so the page is cut from `arrays` alone (its indexes), not from a join over every row:
+  // first the ids of the page, then the joined rows of just those ids, kept in page order.
+  const [pageIds, [{ n }]] = await Promise.all([
+    db.select({ id: arrays.id }).from(arrays).where(where)
+      .orderBy(orderBy(SORTS, q.sort, q.dir, 'code'), asc(arrays.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
     db.select({ n: sql<number>`count(*)` }).from(arrays).where(where),
   ])
-  return { rows: rows.map(toArrayRecord), total: Number(n), page: q.page, pageSize: q.pageSize }
+  const ids = pageIds.map((r) => r.id)
+  const rows = ids.length ? await selectArrays(db).where(inArray(arrays.id, ids)) : []
+  const byId = new Map(rows.map((r) => [r.a.id, r]))
+  return { rows: ids.map((id) => toArrayRecord(byId.get(id)!)), total: Number(n), page: q.page, pageSize: q.pageSize }
 }
 
 export async function listArraysOfChip(db: Db, chipId: number): Promise<ArrayRecord[]> {

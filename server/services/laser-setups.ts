@@ -1,24 +1,40 @@
-import { and, asc, desc, eq, isNull, like, or, sql, type SQL } from 'drizzle-orm'
-import { laserSetups } from '../db/schema/index'
+import { and, asc, desc, eq, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm'
+import { laserSetups, users } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { User } from '../db/schema/index'
 import type { LaserSetup, Page } from '../../shared/records'
 import type { LaserSetupInput, ListQuery } from '../../shared/schemas/records'
 import { diffFields, writeAudit, type DbOrTx } from './audit'
+import { changedHazardFields, hazardHash } from './setup-hazards'
+import { addDays, loadDecisions, signoffSummary, todayUtc, voidSignoff, type DecisionRow } from './signoffs'
+import { noticeSetupChanged, noticeSetupSubmitted } from './notices'
 import { BadRequestError, NotFoundError, fieldError } from '../errors'
 
 /**
- * The laser-setup list (a plain register for now; a later issue adds sign-offs and hazard figures).
- * Codes LS-001 are assigned inside the creating transaction and never reused.
+ * The laser-safety register (issue 5): setups with their hazard fields and sign-off state. Codes
+ * LS-001 are assigned inside the creating transaction and never reused. A change to the hazard
+ * fields of a signed-off setup needs a reason and voids the sign-off (signoffs.ts).
  */
 
 type Row = typeof laserSetups.$inferSelect
 
-export function toLaserSetup(r: Row): LaserSetup {
+export function toLaserSetup(r: Row, decisions: DecisionRow[] = [], submitter: { id: number; name: string } | null = null): LaserSetup {
   return {
     id: r.id, code: r.code, name: r.name, room: r.room, sourceType: r.sourceType,
     wavelengthsNm: [...r.wavelengthsNm], notes: r.notes, retiredAt: r.retiredAt?.toISOString() ?? null,
+    pulseDurationFs: r.pulseDurationFs, repRateHz: r.repRateHz, maxAvgPowerMw: r.maxAvgPowerMw, pulseEnergyUj: r.pulseEnergyUj,
+    beamDiameterMm: r.beamDiameterMm, divergenceMrad: r.divergenceMrad, harmonicOrders: r.harmonicOrders ?? [], laserClass: r.laserClass ?? null,
+    eyewear: r.eyewear ?? [], interlocks: r.interlocks, controlledAreaNotes: r.controlledAreaNotes, submitter,
+    signoff: signoffSummary(decisions, hazardHash(r)),
   }
+}
+
+/** Rows → API objects with their submitter and sign-off state (two queries for the whole page). */
+export async function withSignoffs(db: Pick<Db, 'select'>, rows: Row[]): Promise<LaserSetup[]> {
+  const decisions = await loadDecisions(db, rows.map((r) => r.id))
+  const ids = [...new Set(rows.map((r) => r.submittedById).filter((x): x is number => !!x))]
+  const people = ids.length ? await db.select({ id: users.id, name: users.name }).from(users).where(inArray(users.id, ids)) : []
+  return rows.map((r) => toLaserSetup(r, decisions.get(r.id), people.find((p) => p.id === r.submittedById) ?? null))
 }
 
 /**
@@ -57,7 +73,7 @@ export async function listLaserSetups(db: Db, q: ListQuery): Promise<Page<LaserS
   const rows = await db.select().from(laserSetups).where(cond)
     .orderBy(q.dir === 'desc' ? desc(col) : asc(col), asc(laserSetups.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize)
   const [{ n }] = await db.select({ n: sql<number>`count(*)` }).from(laserSetups).where(cond)
-  return { rows: rows.map(toLaserSetup), total: Number(n), page: q.page, pageSize: q.pageSize }
+  return { rows: await withSignoffs(db, rows), total: Number(n), page: q.page, pageSize: q.pageSize }
 }
 
 async function findRow(db: Pick<Db, 'select'>, id: number): Promise<Row> {
@@ -67,31 +83,71 @@ async function findRow(db: Pick<Db, 'select'>, id: number): Promise<Row> {
 }
 
 export async function getLaserSetup(db: Db, id: number): Promise<LaserSetup> {
-  return toLaserSetup(await findRow(db, id))
+  return (await withSignoffs(db, [await findRow(db, id)]))[0]
 }
 
 export async function createLaserSetup(db: Db, actor: User, input: LaserSetupInput): Promise<LaserSetup> {
+  const { submitterId, ...fields } = input
   const id = await withCodeRetry(() => db.transaction(async (tx) => {
+    const submittedById = submitterId ?? actor.id
+    if (submitterId) {
+      const [p] = await tx.select({ id: users.id }).from(users).where(eq(users.id, submitterId))
+      if (!p) throw fieldError('submitterId', 'No such person')
+    }
     const code = await nextCode(tx, 'laser_setups', 'LS', 3)
-    const values = { code, ...input }
+    const values = { code, ...fields, submittedById }
     const [{ id }] = await tx.insert(laserSetups).values(values).$returningId()
     await writeAudit(tx, { userId: actor.id, entity: 'laser_setup', entityId: id, action: 'create', changes: diffFields({}, values) })
+    await noticeSetupSubmitted(tx, { setupId: id, code, name: fields.name, actorName: actor.name })
     return id
   }))
   return getLaserSetup(db, id)
 }
 
+/**
+ * Edit a setup. Changing a hazard field of a signed-off setup (approved, even if expired) needs a
+ * reason (400 fields.reason) and voids the sign-off: a 'voided' decision, the audit row and the notice
+ * are written in the same transaction.
+ */
 export async function updateLaserSetup(db: Db, actor: User, id: number, input: Partial<LaserSetupInput> & { reason?: string | null }): Promise<LaserSetup> {
-  const { reason, ...fields } = input
+  const { reason, submitterId, ...fields } = input
   await db.transaction(async (tx) => {
-    const before = await findRow(tx, id)
+    const [before] = await tx.select().from(laserSetups).where(eq(laserSetups.id, id)).for('update')
+    if (!before) throw new NotFoundError('No such laser setup')
     if (before.retiredAt) throw new BadRequestError('This laser setup is retired; it cannot be edited.')
-    const changes = diffFields(before as unknown as Record<string, unknown>, fields)
+    const next: Record<string, unknown> = { ...fields }
+    if (submitterId !== undefined && submitterId !== null) next.submittedById = submitterId
+    const normal = { ...before, harmonicOrders: before.harmonicOrders ?? [], eyewear: before.eyewear ?? [] }
+    const changes = diffFields(normal as unknown as Record<string, unknown>, next)
     if (!Object.keys(changes).length) return
-    await tx.update(laserSetups).set({ ...fields, updatedAt: new Date() }).where(eq(laserSetups.id, id))
+    const hazard = changedHazardFields(before, next)
+    const signoff = signoffSummary((await loadDecisions(tx, [id])).get(id)!, hazardHash(before))
+    const voids = hazard.length > 0 && (signoff.state === 'approved' || signoff.state === 'expired')
+    if (voids && !reason?.trim())
+      throw fieldError('reason', `This setup is signed off: say why its hazard fields (${hazard.join(', ')}) change; the change voids the sign-off`)
+    await tx.update(laserSetups).set({ ...next, updatedAt: new Date() }).where(eq(laserSetups.id, id))
+    if (voids) {
+      const [after] = await tx.select().from(laserSetups).where(eq(laserSetups.id, id))
+      await voidSignoff(tx, actor, before, hazardHash(after), reason!)
+      changes.signoff = { from: signoff.state, to: 'voided' }
+    }
     await writeAudit(tx, { userId: actor.id, entity: 'laser_setup', entityId: id, action: 'update', changes, reason })
+    await noticeSetupChanged(tx, { setupId: id, code: before.code, name: before.name, actorName: actor.name, voided: voids, fields: Object.keys(changes) })
   })
   return getLaserSetup(db, id)
+}
+
+/** The safety officers' queue: waiting (never or no longer approved), expiring within 30 days, expired. */
+export async function signoffQueue(db: Db) {
+  const rows = await db.select().from(laserSetups).where(isNull(laserSetups.retiredAt)).orderBy(asc(laserSetups.code))
+  const setups = await withSignoffs(db, rows)
+  const soon = addDays(todayUtc(), 30)
+  const by = (st: string[]) => setups.filter((s) => st.includes(s.signoff.state))
+  return {
+    waiting: by(['waiting', 'voided']),
+    expiring: by(['approved']).filter((s) => s.signoff.expiresOn! <= soon).sort((a, b) => a.signoff.expiresOn!.localeCompare(b.signoff.expiresOn!)),
+    expired: by(['expired']),
+  }
 }
 
 /** Retire a setup (never deleted): the reason is mandatory and kept in the audit row. */

@@ -5,7 +5,8 @@ import type { Db } from '../db/client'
 import type { MeasurementSession, MeasurementSessionRow, Page } from '../../shared/records'
 import type { SessionInput } from '../../shared/schemas/records'
 import type { SessionListQuery, SessionPreviewInput, SessionUpdateInput } from '../../shared/schemas/measurements'
-import { diffFields, writeAudit } from './audit'
+import { diffFields, writeAudit, type DbOrTx } from './audit'
+import { requireValidSignoff } from './signoffs'
 import { nextCode, withCodeRetry } from './laser-setups'
 import { compareResult, deriveEfficiency, loadArrayContexts, type Reader } from './session-compare'
 import { NotFoundError, fieldError } from '../errors'
@@ -28,10 +29,12 @@ function checkPerformedAt(s: string): Date {
   return d
 }
 
-async function checkSetup(tx: Reader, id: number): Promise<void> {
-  const [s] = await tx.select({ retiredAt: laserSetups.retiredAt }).from(laserSetups).where(eq(laserSetups.id, id))
+/** The setup must exist, be in use and hold a valid sign-off on the session date (issue 5, server-enforced). */
+async function checkSetup(tx: DbOrTx, id: number, performedAt: Date): Promise<void> {
+  const [s] = await tx.select().from(laserSetups).where(eq(laserSetups.id, id))
   if (!s) throw fieldError('laserSetupId', 'No such laser setup')
   if (s.retiredAt) throw fieldError('laserSetupId', 'This laser setup is retired')
+  await requireValidSignoff(tx, s, performedAt)
 }
 
 /** Every array must exist, be in use and appear once; field errors name the result row. */
@@ -50,22 +53,22 @@ const resultRows = (sessionId: number, results: ResultInput[]) => results.map((r
 
 export async function createSession(db: Db, actor: User, input: SessionInput): Promise<MeasurementSession> {
   const performedAt = checkPerformedAt(input.performedAt)
-  const { results, ...fields } = input
+  const { results, safetyNotesRead, ...fields } = input
   const id = await withCodeRetry(() => db.transaction(async (tx) => {
-    await checkSetup(tx, input.laserSetupId)
+    await checkSetup(tx, input.laserSetupId, performedAt)
     await checkArrays(tx, results)
     const code = await nextCode(tx, 'measurement_sessions', 'S', 4)
     const values = { ...fields, code, performedAt, operatorId: actor.id }
     const [{ id }] = await tx.insert(ms).values(values).$returningId()
     await tx.insert(sessionResults).values(resultRows(id, results))
-    await writeAudit(tx, { userId: actor.id, entity: 'session', entityId: id, action: 'create', changes: diffFields({}, { ...values, results }) })
+    await writeAudit(tx, { userId: actor.id, entity: 'session', entityId: id, action: 'create', changes: diffFields({}, { ...values, results, safetyNotesRead }) })
     return id
   }))
   return getSession(db, id)
 }
 
 export async function updateSession(db: Db, actor: User, id: number, input: SessionUpdateInput): Promise<MeasurementSession> {
-  const { reason, results, performedAt, ...fields } = input
+  const { reason, results, performedAt, safetyNotesRead: _read, ...fields } = input
   await db.transaction(async (tx) => {
     const [before] = await tx.select().from(ms).where(eq(ms.id, id)).for('update')
     if (!before) throw new NotFoundError('No such session')
@@ -73,7 +76,8 @@ export async function updateSession(db: Db, actor: User, id: number, input: Sess
       throw fieldError('reason', 'This entry is more than 24 h old: say why it is being changed')
     const next: Record<string, unknown> = { ...fields }
     if (performedAt !== undefined) next.performedAt = checkPerformedAt(performedAt)
-    if (fields.laserSetupId !== undefined && fields.laserSetupId !== before.laserSetupId) await checkSetup(tx, fields.laserSetupId)
+    if (fields.laserSetupId !== undefined && fields.laserSetupId !== before.laserSetupId)
+      await checkSetup(tx, fields.laserSetupId, (next.performedAt as Date | undefined) ?? before.performedAt)
     const changes = diffFields(before as unknown as Record<string, unknown>, next)
     if (results) {
       await checkArrays(tx, results)

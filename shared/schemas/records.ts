@@ -142,15 +142,56 @@ export const arraySchema = z.object({
 })
 export type ArrayInput = z.infer<typeof arraySchema>
 
-// ---------- laser setups (plain list; the safety register extends it) ----------
+// ---------- laser setups: the safety register (issue 5) ----------
+export const LASER_CLASSES = ['1', '1M', '2', '2M', '3R', '3B', '4'] as const
+/** Bands as text: ranges and single wavelengths in nm, e.g. `190–534, 1064` or `720-850`. */
+export const BANDS_PATTERN = /^\s*\d+(\.\d+)?(\s*[-–]\s*\d+(\.\d+)?)?(\s*,\s*\d+(\.\d+)?(\s*[-–]\s*\d+(\.\d+)?)?)*\s*$/
+export const eyewearSchema = z.object({
+  description: text(120).min(1, 'Describe the eyewear (maker, model or filter)'),
+  bandsNm: text(120).regex(BANDS_PATTERN, 'Bands in nm, e.g. 720–850, 1064'),
+  od: num(0, 20, '').nullable().optional().transform((v) => v ?? null),
+  en207: text(80).regex(/^[DIRM]+\s+[\d\s,.–-]+\s+LB\d{1,2}$/i, 'EN 207 marking, e.g. D 800 LB5 or DIRM 720-850 LB7').nullable().optional().transform((v) => v || null),
+}).refine((e) => e.od !== null || e.en207 !== null, { message: 'Give the OD or the EN 207 marking', path: ['od'] })
+export type EyewearInput = z.infer<typeof eyewearSchema>
+const optNum = (min: number, max: number, unit: string) => num(min, max, unit).nullable().optional().transform((v) => v ?? null)
 export const laserSetupSchema = z.object({
   name: text(80).min(1, 'Enter a name'),
   room: text(40).min(1, 'Enter the room'),
   sourceType: z.enum(['cw', 'pulsed', 'mode_locked']),
   wavelengthsNm: z.array(num(100, 20000, 'nm')).min(1, 'At least one wavelength').max(10),
   notes: optText(2000),
+  pulseDurationFs: optNum(1, 1e15, 'fs'),
+  repRateHz: optNum(0.001, 1e11, 'Hz'),
+  maxAvgPowerMw: optNum(0, 1e7, 'mW'),
+  pulseEnergyUj: optNum(0, 1e9, 'µJ'),
+  beamDiameterMm: optNum(0.001, 1000, 'mm'),
+  divergenceMrad: optNum(0.001, 1000, 'mrad'),
+  harmonicOrders: z.array(z.coerce.number().int().min(2, 'Orders 2 to 5').max(5, 'Orders 2 to 5')).max(4).optional()
+    .transform((v) => (v === undefined ? undefined : [...new Set(v)].sort((a, b) => a - b))),
+  laserClass: z.enum(LASER_CLASSES, 'Pick the class (IEC 60825-1)').nullable().optional().transform((v) => v ?? null),
+  eyewear: z.array(eyewearSchema).max(20).optional(),
+  interlocks: optText(2000),
+  controlledAreaNotes: optText(2000),
+  /** The person submitting the setup for sign-off (default: whoever registers it). */
+  submitterId: optId,
 })
 export type LaserSetupInput = z.infer<typeof laserSetupSchema>
+/** Fields whose change changes the hazard (and voids a sign-off). */
+export const HAZARD_FIELDS = [
+  'room', 'sourceType', 'wavelengthsNm', 'pulseDurationFs', 'repRateHz', 'maxAvgPowerMw', 'pulseEnergyUj', 'beamDiameterMm',
+  'divergenceMrad', 'harmonicOrders', 'laserClass', 'eyewear', 'interlocks', 'controlledAreaNotes',
+] as const satisfies readonly (keyof LaserSetupInput)[]
+export type HazardField = (typeof HAZARD_FIELDS)[number]
+
+/** Sign-off decisions by a safety officer. `today` is compared in UTC. */
+export const SIGNOFF_MAX_DAYS = 730
+export const approveSchema = z.object({
+  expiresOn: dateString,
+  note: optText(2000),
+})
+export const signoffNoteSchema = z.object({
+  note: z.string('Say why').trim().max(2000, 'Use at most 2000 characters').min(1, 'Say why'),
+})
 
 // ---------- measurement sessions ----------
 export const pumpSchema = z.discriminatedUnion('type', [
@@ -191,6 +232,8 @@ export const sessionSchema = z.object({
   filters: optText(300),
   notes: optText(4000),
   results: z.array(sessionResultSchema).min(1, 'Pick at least one array').max(200),
+  /** The person logging confirms they read the setup's safety notes (issue 5). */
+  safetyNotesRead: z.literal(true, 'Confirm that you read the setup\'s safety notes'),
 })
 export type SessionInput = z.infer<typeof sessionSchema>
 

@@ -1,5 +1,6 @@
 import { eq } from 'drizzle-orm'
-import { arrays, chips, laserSetups, materials, users, wafers } from '../../server/db/schema/index'
+import { arrays, chips, laserSetups, laserSetupSignoffs, materials, users, wafers } from '../../server/db/schema/index'
+import { hazardHash } from '../../server/services/setup-hazards'
 import type { Db } from '../../server/db/client'
 import { demoEmail } from './helpers'
 
@@ -34,12 +35,22 @@ export async function makeSample(db: Db, opts: { pointGroup?: string; cutNormal?
   return { materialId, waferId, chipId, chipCode: `C-T${t}-01`, arrays: arrayRows }
 }
 
-export async function makeLaserSetup(db: Db, retired = false) {
+/**
+ * A laser setup inserted directly; by default signed off by the demo safety officer (sessions need a
+ * valid sign-off). `signoff: 'none'` leaves it waiting; `'expired'` gives an approval that expired yesterday.
+ */
+export async function makeLaserSetup(db: Db, retired = false, signoff: 'approved' | 'none' | 'expired' = 'approved') {
   const t = tag()
   const code = `LS-T${t}`.slice(0, 20)
   const [{ id }] = await db.insert(laserSetups).values({
     code, name: `Test OPO ${t}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 775], retiredAt: retired ? new Date() : null,
   }).$returningId()
+  if (signoff !== 'none') {
+    const [row] = await db.select().from(laserSetups).where(eq(laserSetups.id, id))
+    const [safety] = await db.select().from(users).where(eq(users.email, demoEmail('safety_officer')))
+    const expiresOn = new Date(Date.now() + (signoff === 'expired' ? -1 : 90) * 86400_000).toISOString().slice(0, 10)
+    await db.insert(laserSetupSignoffs).values({ setupId: id, decision: 'approved', byId: safety.id, expiresOn, note: 'test sign-off', hazardHash: hazardHash(row) })
+  }
   return { id, code }
 }
 
@@ -48,7 +59,7 @@ export function sessionBody(laserSetupId: number, arrayIds: number[], extra: Rec
   return {
     laserSetupId, performedAt: new Date(Date.now() - 3600_000).toISOString(), wavelengthNm: 1550, pulseDurationFs: 150, repRateHz: 80e6,
     avgPowerMw: 10, spotDiameterUm: 2.5, objectiveNa: 0.7, pump: { type: 'circular', m: 1 }, harmonicOrder: 2,
-    geometry: 'reflection', collection: 'normal', detector: 'Test PMT', results: arrayIds.map((arrayId) => ({ arrayId, observedNormal: 'none' })),
+    geometry: 'reflection', collection: 'normal', detector: 'Test PMT', results: arrayIds.map((arrayId) => ({ arrayId, observedNormal: 'none' })), safetyNotesRead: true,
     ...extra,
   }
 }

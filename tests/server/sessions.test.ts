@@ -176,3 +176,42 @@ describe('GET/PATCH /api/sessions', () => {
     expect(await counts()).toEqual(before)
   })
 })
+
+describe('POST /api/sessions: the laser-safety gate (issue 5)', () => {
+  const refused = async (setupId: number, pattern: RegExp, extra: Record<string, unknown> = {}) => {
+    const before = await counts()
+    const res = await optics.post('/api/sessions').send(sessionBody(setupId, [gaas001.arrays[0].id], extra))
+    expect(res.status).toBe(409)
+    expect(res.body.fields.laserSetupId[0]).toMatch(/^This setup is not signed off/)
+    expect(res.body.fields.laserSetupId[0]).toMatch(pattern)
+    expect(res.body.fields.laserSetupId[0]).toMatch(/ask a safety officer$/)
+    expect(await counts()).toEqual(before)
+  }
+  it('refuses a setup waiting for sign-off, with the field message, and writes nothing', async () => {
+    await refused((await makeLaserSetup(t.db, false, 'none')).id, /not signed off yet/)
+  })
+  it('refuses a setup whose sign-off expired (naming the date)', async () => {
+    const yesterday = new Date(Date.now() - 86400_000).toISOString().slice(0, 10)
+    await refused((await makeLaserSetup(t.db, false, 'expired')).id, new RegExp(`expired on ${yesterday}`))
+  })
+  it('refuses a revoked setup', async () => {
+    const safety = await signedInAs(t.app, 'safety_officer')
+    const s = await makeLaserSetup(t.db)
+    expect((await safety.post(`/api/laser-setups/${s.id}/revoke`).send({ note: 'Interlock failed its check' })).status).toBe(200)
+    await refused(s.id, /revoked/)
+  })
+  it('refuses a session without the safety-notes confirmation (field safetyNotesRead)', async () => {
+    const before = await counts()
+    const res = await optics.post('/api/sessions').send(sessionBody(setup.id, [gaas001.arrays[0].id], { safetyNotesRead: undefined }))
+    expect(res.status).toBe(400)
+    expect(res.body.fields.safetyNotesRead).toEqual(["Confirm that you read the setup's safety notes"])
+    const no = await optics.post('/api/sessions').send(sessionBody(setup.id, [gaas001.arrays[0].id], { safetyNotesRead: false }))
+    expect(no.body.fields.safetyNotesRead).toBeTruthy()
+    expect(await counts()).toEqual(before)
+  })
+  it('records the confirmation in the session audit row', async () => {
+    const res = await optics.post('/api/sessions').send(sessionBody(setup.id, [gaas001.arrays[0].id]))
+    const [audit] = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'session'), eq(auditLog.entityId, res.body.id)))
+    expect((audit.changes as Record<string, { to: unknown }>).safetyNotesRead.to).toBe(true)
+  })
+})

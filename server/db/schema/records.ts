@@ -3,7 +3,7 @@ import {
 } from 'drizzle-orm/mysql-core'
 import { sql } from 'drizzle-orm'
 import { users } from './users'
-import type { Coefficient, StoredChannel } from '../../../shared/records'
+import type { Coefficient, EyewearEntry, StoredChannel } from '../../../shared/records'
 import type { PumpSpec } from '../../../shared/engine'
 
 /**
@@ -74,7 +74,8 @@ export const chips = mysqlTable('chips', {
   notes: text('notes'),
   createdAt: created(),
   updatedAt: updated(),
-}, (t) => [uniqueIndex('chips_wafer_index_uq').on(t.waferId, t.index), index('chips_status_idx').on(t.status), index('chips_location_idx').on(t.locationId)])
+}, (t) => [uniqueIndex('chips_wafer_index_uq').on(t.waferId, t.index), index('chips_status_idx').on(t.status), index('chips_location_idx').on(t.locationId),
+  index('chips_status_code_idx').on(t.status, t.code)])
 
 export const moves = mysqlTable('moves', {
   id: int('id').autoincrement().primaryKey(),
@@ -126,7 +127,9 @@ export const arrays = mysqlTable('arrays', {
   retiredAt: retired(),
   createdAt: created(),
   updatedAt: updated(),
-}, (t) => [uniqueIndex('arrays_chip_position_uq').on(t.chipId, t.position), index('arrays_shape_idx').on(t.shape), index('arrays_engine_idx').on(t.engineVersion)])
+}, (t) => [uniqueIndex('arrays_chip_position_uq').on(t.chipId, t.position), index('arrays_shape_idx').on(t.shape), index('arrays_engine_idx').on(t.engineVersion),
+  // list pages: unretired rows in code order, and the shape + lattice filter (bench: see DEVELOPERS.md)
+  index('arrays_retired_code_idx').on(t.retiredAt, t.code), index('arrays_shape_lattice_idx').on(t.shape, t.lattice, t.retiredAt)])
 
 export const laserSetups = mysqlTable('laser_setups', {
   id: int('id').autoincrement().primaryKey(),
@@ -136,10 +139,39 @@ export const laserSetups = mysqlTable('laser_setups', {
   sourceType: mysqlEnum('source_type', ['cw', 'pulsed', 'mode_locked']).notNull(),
   wavelengthsNm: json('wavelengths_nm').$type<number[]>().notNull(),
   notes: text('notes'),
+  // Hazard fields (issue 5): any change to these voids a sign-off.
+  pulseDurationFs: double('pulse_duration_fs'),
+  repRateHz: double('rep_rate_hz'),
+  maxAvgPowerMw: double('max_avg_power_mw'),
+  pulseEnergyUj: double('pulse_energy_uj'),
+  beamDiameterMm: double('beam_diameter_mm'),
+  divergenceMrad: double('divergence_mrad'),
+  harmonicOrders: json('harmonic_orders').$type<number[]>(),
+  laserClass: mysqlEnum('laser_class', ['1', '1M', '2', '2M', '3R', '3B', '4']),
+  eyewear: json('eyewear').$type<EyewearEntry[]>(),
+  interlocks: text('interlocks'),
+  controlledAreaNotes: text('controlled_area_notes'),
+  /** Who submitted the setup for sign-off (the performer; a safety officer may not approve their own). */
+  submittedById: int('submitted_by_id').references(() => users.id, { onDelete: 'restrict' }),
   retiredAt: retired(),
   createdAt: created(),
   updatedAt: updated(),
 })
+
+/**
+ * Sign-off decisions on laser setups, append-only: the latest row is the current state. `hazardHash`
+ * is the SHA-256 of the setup's hazard fields at decision time (an approval binds to that version).
+ */
+export const laserSetupSignoffs = mysqlTable('laser_setup_signoffs', {
+  id: int('id').autoincrement().primaryKey(),
+  setupId: int('setup_id').notNull().references(() => laserSetups.id, { onDelete: 'restrict' }),
+  decision: mysqlEnum('decision', ['approved', 'rejected', 'revoked', 'voided']).notNull(),
+  byId: int('by_id').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  expiresOn: date('expires_on', { mode: 'string' }),
+  note: text('note'),
+  hazardHash: varchar('hazard_hash', { length: 64 }).notNull(),
+}, (t) => [index('signoffs_setup_idx').on(t.setupId, t.id)])
 
 export const measurementSessions = mysqlTable('measurement_sessions', {
   id: int('id').autoincrement().primaryKey(),

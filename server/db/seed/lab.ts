@@ -1,6 +1,7 @@
 import { eq, inArray } from 'drizzle-orm'
 import type { Db } from '../client'
-import { users, arrays, chips, wafers, materials, fabSteps, laserSetups, auditLog } from '../schema/index'
+import { users, arrays, chips, wafers, materials, fabSteps, laserSetups, laserSetupSignoffs, auditLog } from '../schema/index'
+import { hazardHash } from '../../services/setup-hazards'
 import type { Coefficient } from '../../../shared/records'
 import type { ArrayInput, MaterialInput } from '../../../shared/schemas/records'
 import { ENGINE_VERSION } from '../../../shared/engine'
@@ -105,11 +106,41 @@ export async function seedLab(db: Db): Promise<void> {
     k++
   }
   await seedArrays(db, fab.id, chipIds)
+  await seedLaserSetups(db)
+}
+
+const GOGGLE_NIR = { description: 'Kestrel goggle KG-7 (polycarbonate, NIR)', bandsNm: '740–1100', od: 6, en207: 'DIRM 740-1100 LB6' }
+const GOGGLE_VIS = { description: 'Amber visor AV-2 (blue/green)', bandsNm: '190–540', od: 5, en207: null }
+const GOGGLE_TELECOM = { description: 'Spectacles TS-15 (1.4–1.7 µm)', bandsNm: '1400–1700', od: 5, en207: 'D 1400-1700 LB5' }
+
+/**
+ * Three laser setups submitted by the optics person with realistic hazard fields; the safety
+ * officer signed off two (one expiring within 14 days, so the queue shows it) and one waits.
+ */
+async function seedLaserSetups(db: Db): Promise<void> {
+  const [optics] = await db.select().from(users).where(eq(users.email, 'optics@kestrel-lab.example'))
+  const [safety] = await db.select().from(users).where(eq(users.email, 'safety@kestrel-lab.example'))
+  const by = optics?.id ?? null
+  const common = { submittedById: by, interlocks: 'Door interlock on C1.03 (shutter closes when opened); key switch; emergency stop by the door', controlledAreaNotes: 'Laser controlled area: warning light on while the shutter is open; beam height 12 cm, enclosed periscopes; no reflective jewellery' }
   await db.insert(laserSetups).values([
-    { code: 'LS-001', name: 'Ti:sapphire oscillator bench', room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [800, 400], notes: '80 MHz, ~100 fs; SH at 400 nm' },
-    { code: 'LS-002', name: '1550 nm fibre laser bench', room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [1550, 775, 517], notes: 'Er fibre oscillator + amplifier, ~150 fs' },
-    { code: 'LS-003', name: '1064 nm ps laser', room: 'B2.14', sourceType: 'pulsed', wavelengthsNm: [1064, 532], notes: 'Nd:YVO4, 10 ps, 1 MHz' },
+    { code: 'LS-001', name: 'Ti:sapphire oscillator bench', room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [800, 400], notes: '80 MHz, ~100 fs; SH at 400 nm in a BBO crystal', pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000, pulseEnergyUj: 0.0125, beamDiameterMm: 2, divergenceMrad: 1, harmonicOrders: [2], laserClass: '4', eyewear: [GOGGLE_NIR, GOGGLE_VIS], ...common },
+    { code: 'LS-002', name: '1550 nm fibre laser bench', room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [1550, 775, 517], notes: 'Er fibre oscillator + amplifier, ~150 fs', pulseDurationFs: 150, repRateHz: 80e6, maxAvgPowerMw: 200, pulseEnergyUj: 0.0025, beamDiameterMm: 1.5, divergenceMrad: 1.2, harmonicOrders: [2, 3], laserClass: '3B', eyewear: [GOGGLE_TELECOM, GOGGLE_NIR, GOGGLE_VIS], ...common },
+    { code: 'LS-003', name: '1064 nm ps laser', room: 'B2.14', sourceType: 'pulsed', wavelengthsNm: [1064, 532], notes: 'Nd:YVO4, 10 ps, 1 MHz', pulseDurationFs: 1e4, repRateHz: 1e6, maxAvgPowerMw: 2000, pulseEnergyUj: 2, beamDiameterMm: 1.2, divergenceMrad: 0.8, harmonicOrders: [2], laserClass: '4', eyewear: [GOGGLE_NIR], submittedById: by, interlocks: 'Interlocked enclosure; key switch', controlledAreaNotes: 'Room B2.14 is a laser controlled area when the enclosure is open' },
   ])
+  if (!safety) return
+  const rows = await db.select().from(laserSetups).where(inArray(laserSetups.code, ['LS-001', 'LS-002']))
+  const day = (n: number) => new Date(Date.now() + n * 86400_000)
+  const plan: Record<string, { expires: number; note: string }> = {
+    'LS-001': { expires: 300, note: 'Enclosure and eyewear checked; alignment with the oscillator at low power only' },
+    'LS-002': { expires: 10, note: 'Approved for the spring campaign; re-inspect the fibre output collimator before renewal' },
+  }
+  for (const r of rows) {
+    const p = plan[r.code]
+    await db.transaction(async (tx) => {
+      const [{ id }] = await tx.insert(laserSetupSignoffs).values({ setupId: r.id, decision: 'approved', byId: safety.id, at: day(-60), expiresOn: day(p.expires).toISOString().slice(0, 10), note: p.note, hazardHash: hazardHash(r) }).$returningId()
+      await tx.insert(auditLog).values({ userId: safety.id, entity: 'laser_setup', entityId: r.id, action: 'signoff', changes: { signoff: { from: 'waiting', to: 'approved' }, signoffId: { from: null, to: id } }, reason: p.note })
+    })
+  }
 }
 
 /** Arrays on every chip (batched inserts with derived channels) and a few fab steps. */

@@ -1,6 +1,6 @@
 import { asc, eq, isNull } from 'drizzle-orm'
 import type { Db } from '../client'
-import { arrays, chips, files, laserSetups, materials, measurementSessions, sessionResults, users, wafers } from '../schema/index'
+import { arrays, chips, files, laserSetups, laserSetupSignoffs, materials, measurementSessions, sessionResults, users, wafers } from '../schema/index'
 import type { PumpSpec } from '../../../shared/engine'
 import { writeAudit, diffFields } from '../../services/audit'
 import { nextCode } from '../../services/laser-setups'
@@ -41,7 +41,9 @@ export function syntheticSpectrum(pumpNm: number, order: number, seed: number): 
 
 export async function seedSessions(db: Db, storage: FileStorage = createFileStorage(process.env.DATA_DIR ?? '.data')): Promise<void> {
   const [optics] = await db.select().from(users).where(eq(users.email, 'optics@kestrel-lab.example'))
-  const setups = await db.select().from(laserSetups).where(isNull(laserSetups.retiredAt)).orderBy(asc(laserSetups.code))
+  // Only signed-off setups may carry sessions (issue 5).
+  const approved = new Set((await db.select({ id: laserSetupSignoffs.setupId }).from(laserSetupSignoffs).where(eq(laserSetupSignoffs.decision, 'approved'))).map((r) => r.id))
+  const setups = (await db.select().from(laserSetups).where(isNull(laserSetups.retiredAt)).orderBy(asc(laserSetups.code))).filter((s) => approved.has(s.id))
   if (!optics || !setups.length) return
   const all = await db.select({ id: arrays.id }).from(arrays).where(isNull(arrays.retiredAt)).orderBy(asc(arrays.id))
   const ctx = await loadArrayContexts(db, all.map((a) => a.id))

@@ -1,36 +1,75 @@
 import { Router } from 'express'
+import { z } from 'zod'
 import { idParamSchema } from '../../../shared/schemas/auth'
-import { laserSetupSchema, listQuerySchema } from '../../../shared/schemas/records'
+import { approveSchema, laserSetupSchema, listQuerySchema, signoffNoteSchema } from '../../../shared/schemas/records'
 import { retireSchema } from '../../../shared/schemas/measurements'
 import { LASER_CAUTION } from '../../../shared/safety'
+import { MPE_EDITIONS } from '../../../shared/laser-safety'
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createLaserSetup, getLaserSetup, listLaserSetups, retireLaserSetup, updateLaserSetup } from '../../services/laser-setups'
+import { createLaserSetup, getLaserSetup, listLaserSetups, retireLaserSetup, signoffQueue, updateLaserSetup } from '../../services/laser-setups'
+import { approveSetup, historyOut, loadDecisions, rejectSetup, revokeSetup } from '../../services/signoffs'
+import { figuresFor } from '../../services/setup-hazards'
+import { laserSetups } from '../../db/schema/index'
+import { eq } from 'drizzle-orm'
 
 const updateSchema = laserSetupSchema.partial().extend({ reason: retireSchema.shape.reason.optional() })
+const figuresQuery = z.object({
+  edition: z.enum(MPE_EDITIONS as [string, ...string[]]).optional(),
+  spotUm: z.coerce.number().positive('Spot diameter in µm, above 0').max(1e5).optional(),
+})
 
-/** /api/laser-setups: the setup list (safety officers write; everyone reads). Every answer carries the laser caution. */
+/**
+ * /api/laser-setups: the laser-safety register (safety officers write and sign off; everyone reads).
+ * Every answer carries the laser caution; the detail adds the sign-off history and computed figures.
+ */
 export function laserSetupRoutes(ctx: AppContext): Router {
   const r = Router()
+  const detail = async (id: number, q: z.infer<typeof figuresQuery> = {}) => {
+    const setup = await getLaserSetup(ctx.db, id)
+    const [row] = await ctx.db.select().from(laserSetups).where(eq(laserSetups.id, id))
+    const history = historyOut((await loadDecisions(ctx.db, [id])).get(id)!)
+    const computed = figuresFor(row, { edition: q.edition as never, spotDiameterUm: q.spotUm })
+    return { ...setup, signoff: { ...setup.signoff, history }, computed, caution: LASER_CAUTION }
+  }
   r.get('/laser-setups', requireAbility('read', 'LaserSetup'), async (req, res) => {
     res.json({ ...(await listLaserSetups(ctx.db, parse(listQuerySchema, req.query))), caution: LASER_CAUTION })
   })
+  r.get('/laser-setups/queue', requireAbility('signoff', 'LaserSetup'), async (_req, res) => {
+    res.json({ ...(await signoffQueue(ctx.db)), caution: LASER_CAUTION })
+  })
   r.get('/laser-setups/:id', requireAbility('read', 'LaserSetup'), async (req, res) => {
-    res.json({ ...(await getLaserSetup(ctx.db, parse(idParamSchema, req.params).id)), caution: LASER_CAUTION })
+    res.json(await detail(parse(idParamSchema, req.params).id, parse(figuresQuery, req.query)))
   })
   r.post('/laser-setups', requireAbility('create', 'LaserSetup'), async (req, res) => {
     const setup = await createLaserSetup(ctx.db, currentUser(req), parse(laserSetupSchema, req.body))
-    res.status(201).json({ ...setup, caution: LASER_CAUTION })
+    res.status(201).json(await detail(setup.id))
   })
   r.patch('/laser-setups/:id', requireAbility('update', 'LaserSetup'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
-    res.json({ ...(await updateLaserSetup(ctx.db, currentUser(req), id, parse(updateSchema, req.body))), caution: LASER_CAUTION })
+    await updateLaserSetup(ctx.db, currentUser(req), id, parse(updateSchema, req.body))
+    res.json(await detail(id))
   })
   r.post('/laser-setups/:id/retire', requireAbility('retire', 'LaserSetup'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     const { reason } = parse(retireSchema, req.body ?? {})
     res.json({ ...(await retireLaserSetup(ctx.db, currentUser(req), id, reason)), caution: LASER_CAUTION })
+  })
+  r.post('/laser-setups/:id/approve', requireAbility('signoff', 'LaserSetup'), async (req, res) => {
+    const { id } = parse(idParamSchema, req.params)
+    await approveSetup(ctx.db, currentUser(req), id, parse(approveSchema, req.body ?? {}))
+    res.json(await detail(id))
+  })
+  r.post('/laser-setups/:id/reject', requireAbility('signoff', 'LaserSetup'), async (req, res) => {
+    const { id } = parse(idParamSchema, req.params)
+    await rejectSetup(ctx.db, currentUser(req), id, parse(signoffNoteSchema, req.body ?? {}).note)
+    res.json(await detail(id))
+  })
+  r.post('/laser-setups/:id/revoke', requireAbility('signoff', 'LaserSetup'), async (req, res) => {
+    const { id } = parse(idParamSchema, req.params)
+    await revokeSetup(ctx.db, currentUser(req), id, parse(signoffNoteSchema, req.body ?? {}).note)
+    res.json(await detail(id))
   })
   return r
 }

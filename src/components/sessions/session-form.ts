@@ -82,7 +82,7 @@ export function toResultInput(r: ResultForm): SessionInput['results'][number] {
   }
 }
 
-export function toSessionInput(f: SessionForm, results: ResultForm[]): SessionInput {
+export function toSessionInput(f: SessionForm, results: ResultForm[]): Omit<SessionInput, 'safetyNotesRead'> {
   const rep = orNull(f.repRateMhz)
   return {
     laserSetupId: f.laserSetupId ?? 0, performedAt: new Date(f.performedAt).toISOString(),
