@@ -14,8 +14,9 @@ export const useArraysStore = defineStore('arrays', () => {
     return current.value
   }
   const create = (input: ArrayInput): Promise<ArrayRecord> => api.createArray(input)
-  async function update(id: number, input: ArrayInput): Promise<void> {
+  async function update(id: number, input: ArrayInput): Promise<ArrayRecord> {
     current.value = await api.updateArray(id, input)
+    return current.value
   }
   async function retire(id: number, reason: string): Promise<void> {
     current.value = await api.retireArray(id, reason)

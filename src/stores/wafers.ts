@@ -13,9 +13,10 @@ export const useWafersStore = defineStore('wafers', () => {
     return current.value
   }
   const register = (input: api.WaferWrite): Promise<Wafer> => api.createWafer(input)
-  async function update(id: number, input: api.WaferWrite): Promise<void> {
-    await api.updateWafer(id, input)
+  async function update(id: number, input: api.WaferWrite): Promise<Wafer> {
+    const w = await api.updateWafer(id, input)
     await load(id)
+    return w
   }
   async function retire(id: number, reason: string): Promise<void> {
     await api.retireWafer(id, reason)
