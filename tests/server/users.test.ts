@@ -19,7 +19,7 @@ async function deliveredTo(to: string) {
     summary = list.body.messages.find((m: { to: string }) => m.to.includes(to))
   }
   expect(summary, `a message to ${to}`).toBeDefined()
-  return (await admin.get(`/api/mail/${summary.id}`)).body as { text: string; html: string; subject: string }
+  return (await admin.get(`/api/mail/${summary!.id}`)).body as { text: string; html: string; subject: string }
 }
 
 describe('people', () => {
