@@ -1,26 +1,13 @@
-import { describe, it, expect, beforeAll, afterAll } from 'vitest'
-import request from 'supertest'
-import type TestAgent from 'supertest/lib/agent'
-import { startTestApp, signedInAs } from './helpers'
-import { ROLES, type Role } from '../../shared/roles'
+import { describeRoleMatrix, EVERYONE, type MatrixRoute } from './role-matrix'
+import type { Role } from '../../shared/roles'
 
-let t: Awaited<ReturnType<typeof startTestApp>>
-const agents = {} as Record<Role, TestAgent>
-beforeAll(async () => {
-  t = await startTestApp()
-  for (const role of ROLES) agents[role] = await signedInAs(t.app, role)
-})
-afterAll(async () => { await t.stop() })
-
-type Method = 'get' | 'post' | 'patch'
-const EVERYONE = [...ROLES]
 const FAB: Role[] = ['admin', 'fab_technician']
 /**
  * The inventory routes × roles (shared/abilities.ts: every signed-in person reads lab records;
  * fab technicians and admins write materials, locations, wafers, chips, fab steps and arrays).
  * Bodies are empty or point at missing ids, so an allowed call answers 2xx/400/404 and writes nothing.
  */
-const MATRIX: { method: Method; path: string; body?: object; allowed: Role[] }[] = [
+const MATRIX: MatrixRoute[] = [
   { method: 'get', path: '/api/materials', allowed: EVERYONE },
   { method: 'get', path: '/api/materials/999999', allowed: EVERYONE },
   { method: 'post', path: '/api/materials', body: {}, allowed: FAB },
@@ -57,20 +44,4 @@ const MATRIX: { method: Method; path: string; body?: object; allowed: Role[] }[]
   { method: 'get', path: '/api/resolve/W-99999', allowed: EVERYONE },
 ]
 
-describe('inventory route × role matrix', () => {
-  for (const route of MATRIX) {
-    it(`${route.method.toUpperCase()} ${route.path}: anonymous gets 401`, async () => {
-      const res = await request(t.app)[route.method](route.path).send(route.body)
-      expect(res.status).toBe(401)
-    })
-    for (const role of ROLES) {
-      const allowed = route.allowed.includes(role)
-      it(`${route.method.toUpperCase()} ${route.path} as ${role}: ${allowed ? 'allowed' : '403'}`, async () => {
-        const res = await agents[role][route.method](route.path).send(route.body)
-        if (allowed) expect([200, 201, 204, 400, 404]).toContain(res.status)
-        else expect(res.status).toBe(403)
-        expect(res.headers['content-type']).toMatch(/json/)
-      })
-    }
-  }
-})
+describeRoleMatrix('inventory route × role matrix', MATRIX)
