@@ -1,7 +1,7 @@
 import { createHash } from 'node:crypto'
 import {
   computeChannels, deriveArraySymmetry, rotateStructure, structureGroupName, getPointGroup, EngineError, ENGINE_VERSION,
-  type PumpSpec, type ShapeKind, type LatticeKind, type StructureSymmetry,
+  type ChannelResponse, type PumpSpec, type ShapeKind, type LatticeKind, type StructureSymmetry,
 } from '../../shared/engine'
 import type { StoredChannel } from '../../shared/records'
 import { BadRequestError } from '../errors'
@@ -60,8 +60,13 @@ function wrapEngine<T>(fn: () => T): T {
   }
 }
 
+/** The inputs of the structure symmetry: the array's geometry and the chip's rotation on the wafer. */
+export type SymmetryInputs = Pick<ChannelInputs, 'shape' | 'shapeAzimuthDeg' | 'lattice' | 'azimuthDeg' | 'customRotationOrder' | 'customMirrors' | 'chipRotationDeg'>
+/** The inputs of the crystal side: material point group and the wafer's cut and flat. */
+export type CrystalInputs = Pick<ChannelInputs, 'pointGroup' | 'cutNormal' | 'flatDirection' | 'chipRotationDeg' | 'azimuthDeg'>
+
 /** Structure symmetry of the array in the wafer-flat frame (meta-atom at shapeAzimuthDeg in the lattice). */
-export function arraySymmetry(x: ChannelInputs): StructureSymmetry {
+export function arraySymmetry(x: SymmetryInputs): StructureSymmetry {
   return wrapEngine(() => {
     const custom = { rotationOrder: x.customRotationOrder ?? undefined, mirrors: x.customMirrors ?? undefined }
     const own = deriveArraySymmetry(
@@ -72,26 +77,33 @@ export function arraySymmetry(x: ChannelInputs): StructureSymmetry {
   })
 }
 
+/**
+ * The engine's channels for one pump and order on an array, in the wafer-flat frame, with the frame
+ * notes first. The one place both the stored channels (standard pumps) and the session predictions
+ * (the session's own pump) ask the engine, so the two can never disagree. Centrosymmetric crystals
+ * use the surface χ(2) for even orders.
+ */
+export function channelsForArray(x: CrystalInputs, symmetry: StructureSymmetry, pump: PumpSpec, order: number): ChannelResponse {
+  const group = wrapEngine(() => getPointGroup(x.pointGroup))
+  const mirrors = symmetry.mirrors === 'all' ? CONTINUOUS_MIRRORS : symmetry.mirrors
+  const surface = order % 2 === 0 && group.isCentrosymmetric
+  const result = wrapEngine(() => computeChannels({
+    crystal: { pointGroup: group.symbol, normal: x.cutNormal, reference: x.flatDirection },
+    surface, structure: { rotationOrder: symmetry.rotationOrder, mirrors }, pump, order,
+  }))
+  const turn = x.chipRotationDeg + x.azimuthDeg
+  const notes = [`lab x = primary flat of the wafer; the array is rotated by ${turn}° (chip ${x.chipRotationDeg}° from the flat + array ${x.azimuthDeg}° on the chip), so its mirrors are given from the flat; "linear along the flat" is 0°`]
+  if (symmetry.mirrors === 'all') notes.push('the structure has every vertical mirror (C∞v); the mirrors at 0°, 45°, 90° and 135° stand for them')
+  if (surface) notes.push(`${group.symbol} is centrosymmetric: bulk χ(2) vanishes, so only the surface χ(2) of the interface is used`)
+  return { ...result, explain: [...notes, ...result.explain] }
+}
+
 /** Derive symmetry and channels for one array. Pure; throws a field-level 400 on bad custom input. */
 export function deriveChannels(x: ChannelInputs): { symmetry: StructureSymmetry; symmetryName: string; channels: StoredChannel[]; hash: string } {
   const symmetry = arraySymmetry(x)
-  const group = wrapEngine(() => getPointGroup(x.pointGroup))
-  const mirrors = symmetry.mirrors === 'all' ? CONTINUOUS_MIRRORS : symmetry.mirrors
-  const turn = x.chipRotationDeg + x.azimuthDeg
-  const frame = `lab x = primary flat of the wafer; the array is rotated by ${turn}° (chip ${x.chipRotationDeg}° from the flat + array ${x.azimuthDeg}° on the chip), so its mirrors are given from the flat; "linear along the flat" is 0°`
   const channels: StoredChannel[] = []
   for (const order of STORED_ORDERS) {
-    const surface = order % 2 === 0 && group.isCentrosymmetric
-    for (const { key, pump } of STANDARD_PUMPS) {
-      const result = wrapEngine(() => computeChannels({
-        crystal: { pointGroup: group.symbol, normal: x.cutNormal, reference: x.flatDirection },
-        surface, structure: { rotationOrder: symmetry.rotationOrder, mirrors }, pump, order,
-      }))
-      const notes = [frame]
-      if (symmetry.mirrors === 'all') notes.push('the structure has every vertical mirror (C∞v); the mirrors at 0°, 45°, 90° and 135° stand for them')
-      if (surface) notes.push(`${group.symbol} is centrosymmetric: bulk χ(2) vanishes, so only the surface χ(2) of the interface is used`)
-      channels.push({ order, pumpKey: key, pump, result: { ...result, explain: [...notes, ...result.explain] } })
-    }
+    for (const { key, pump } of STANDARD_PUMPS) channels.push({ order, pumpKey: key, pump, result: channelsForArray(x, symmetry, pump, order) })
   }
   return { symmetry, symmetryName: structureGroupName(symmetry), channels, hash: channelsInputHash(x) }
 }

@@ -1,7 +1,5 @@
-import {
-  ENGINE_VERSION, deriveArraySymmetry, evaluateChannels, parseChannelRequest, rotateStructure,
-  type ChannelResponse, type PumpSpec, type ShapeKind, type LatticeKind, type StructureSymmetry,
-} from '../../shared/engine'
+import { ENGINE_VERSION, type ChannelResponse, type PumpSpec } from '../../shared/engine'
+import { arraySymmetry, channelsForArray } from './array-channels'
 import { eq, inArray } from 'drizzle-orm'
 import { arrays, chips, materials, wafers } from '../db/schema/index'
 import type { Db } from '../db/client'
@@ -19,39 +17,16 @@ export interface ArrayGeometry {
   customRotationOrder: number | null; customMirrors: number[] | null
 }
 
-/**
- * Structure symmetry of an array in the wafer-flat frame: meta-atom (rotated by its azimuth on the
- * lattice) ∩ lattice, then rotated by the chip's rotation on the wafer plus the array's azimuth on
- * the chip. Custom shapes/lattices take `customRotationOrder` / `customMirrors`.
- * NOTE for the lead: the arrays service derives the same thing when it stores `symmetryName`;
- * this is the single place on the measurement side, so the two can be merged later.
- */
-export function arrayStructureInFlatFrame(array: ArrayGeometry, chip: { rotationDeg: number }): StructureSymmetry {
-  const custom = { rotationOrder: array.customRotationOrder ?? 1, mirrors: array.customMirrors ?? [] }
-  const shape = { kind: array.shape as ShapeKind, azimuthDeg: array.shapeAzimuthDeg, ...(array.shape === 'custom' ? custom : {}) }
-  const lattice = { kind: array.lattice as LatticeKind, ...(array.lattice === 'custom' ? custom : {}) }
-  return rotateStructure(deriveArraySymmetry(shape, lattice), chip.rotationDeg + array.azimuthDeg)
-}
-
-/** Mirror list for a channel request ('all' = a body of revolution: sampled every 15°). */
-function mirrorList(s: StructureSymmetry): number[] {
-  return s.mirrors === 'all' ? Array.from({ length: 12 }, (_, k) => k * 15) : s.mirrors
-}
-
 /** Everything the prediction for one array needs (joined from arrays → chips → wafers → materials). */
 export interface ArrayContext {
   id: number; code: string; geometry: ArrayGeometry; chipRotationDeg: number
   pointGroup: string; cutNormal: [number, number, number]; flatDirection: [number, number, number]
 }
 
-/** Engine channels for this session's pump and harmonic order on one array. */
+/** Engine channels for this session's pump and harmonic order on one array (same path as the stored channels). */
 export function predictForArray(a: ArrayContext, pump: PumpSpec, order: number): ChannelResponse {
-  const structure = arrayStructureInFlatFrame(a.geometry, { rotationDeg: a.chipRotationDeg })
-  return evaluateChannels(parseChannelRequest({
-    crystal: { pointGroup: a.pointGroup, normal: a.cutNormal, reference: a.flatDirection },
-    structure: { rotationOrder: structure.rotationOrder, mirrors: mirrorList(structure) },
-    pump, order,
-  }))
+  const x = { ...a.geometry, chipRotationDeg: a.chipRotationDeg, pointGroup: a.pointGroup, cutNormal: a.cutNormal, flatDirection: a.flatDirection }
+  return channelsForArray(x, arraySymmetry(x), pump, order)
 }
 
 type Observed = Pick<SessionResult, 'observedNormal' | 'observedM'>
