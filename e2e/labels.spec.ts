@@ -78,6 +78,8 @@ test('a keyboard-wedge burst anywhere opens the record; /S/<code> and /s/<code> 
   await signIn(page, demo('fab').email)
   const wafer = await makeWafer(page)
   await page.goto('/')
+  // The listener comes with the signed-in layout: wait for it before scanning.
+  await expect(page.getByRole('banner').getByTestId('user-name')).toBeVisible()
   // A scanner's burst: keys a few ms apart, then Enter. Dispatched in the page, because on a
   // loaded test machine page.keyboard.type({ delay: 5 }) was measured at 15–115 ms between keys
   // (each key is a CDP round trip), slower than any scanner and than the 40 ms burst limit.
