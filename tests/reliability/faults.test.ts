@@ -30,11 +30,14 @@ beforeAll(async () => {
 }, 180_000)
 
 afterAll(async () => {
-  for (const c of children) if (c.exitCode === null) c.kill('SIGKILL')
+  for (const c of children) if (!hasExited(c)) c.kill('SIGKILL')
   await pdb?.destroy()
 }, 120_000)
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms))
+/** A child killed by a signal keeps exitCode null (signalCode is set instead), so test both. */
+const hasExited = (c: ChildProcess) => c.exitCode !== null || c.signalCode !== null
+const whenExited = (c: ChildProcess) => new Promise<void>((r) => { if (hasExited(c)) r(); else c.once('exit', () => r()) })
 
 describe('MariaDB restart while the app runs', () => {
   it('reports unhealthy while the database is down, reconnects, and the old session still works', async () => {
@@ -76,7 +79,7 @@ async function startServer(port: number): Promise<ChildProcess> {
   children.push(child)
   for (let i = 0; i < 300; i++) {
     if (await fetch(`http://127.0.0.1:${port}/api/health`).then((r) => r.ok, () => false)) return child
-    if (child.exitCode !== null) break
+    if (hasExited(child)) break
     await sleep(200)
   }
   throw new Error('server child did not start')
@@ -125,7 +128,7 @@ describe('server killed in the middle of a large import', () => {
     // undici can keep waiting on a request whose server died mid-upload; after 10 s count it as lost
     // (the stricter branch below: nothing may have been written).
     const outcome = await Promise.race([posted, sleep(10_000).then(() => 'connection lost' as const)])
-    await new Promise((r) => (child.exitCode !== null ? r(null) : child.once('exit', r)))
+    await whenExited(child)
 
     child = await startServer(port)
     const after = await recordCounts()

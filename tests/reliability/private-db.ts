@@ -71,7 +71,7 @@ export async function startPrivateDb(tag: string): Promise<PrivateDb> {
       try { execFileSync('mariadb-admin', ['--no-defaults', `--socket=${socket}`, '-uroot', 'shutdown'], { stdio: 'ignore', timeout: 60_000 }) } catch { /* not running */ }
       const c = child
       child = undefined
-      if (c && c.exitCode === null) await new Promise<void>((r) => { const t = setTimeout(() => { c.kill('SIGKILL'); r() }, 30_000); c.once('exit', () => { clearTimeout(t); r() }) })
+      if (c && c.exitCode === null && c.signalCode === null) await new Promise<void>((r) => { const t = setTimeout(() => { c.kill('SIGKILL'); r() }, 30_000); c.once('exit', () => { clearTimeout(t); r() }) })
     },
     async destroy() {
       await db.stop()
