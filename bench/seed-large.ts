@@ -65,11 +65,10 @@ export async function seedLarge(url: string, log = (m: string) => console.error(
     await insert(conn, 'chips', ['code', 'wafer_id', 'chip_index', 'rotation_deg', 'width_mm', 'height_mm', 'status', 'notes'], chipRows)
     const [cRows] = await conn.query('SELECT c.id, c.code, w.material_id FROM chips c JOIN wafers w ON w.id = c.wafer_id WHERE w.id >= ? ORDER BY c.id', [wRows[0].id]) as unknown as [{ id: number; code: string; material_id: number }[]]
 
-    // Channels: computed once per (material, shape, lattice) and written server-side. Each array row
-    // carries its combination's input hash; one UPDATE … JOIN copies the (≈20 kB) channel JSON from a
-    // small table, so the client never escapes and sends 100 000 copies of it.
+    // Channels: computed once per (material, shape, lattice) and stored once in channel_sets (the
+    // app's content-addressed store); each array row carries only the set's key.
     const groupOf = new Map(mats.map((m) => [m.id, m.point_group]))
-    const derived = new Map<string, { symmetryName: string; channels: string; hash: string }>()
+    const derived = new Map<string, { symmetryName: string; channels: string; setKey: string; hash: string }>()
     const arrayRows: unknown[][] = []
     const now = new Date()
     cRows.forEach((chip, ci) => {
@@ -79,21 +78,18 @@ export async function seedLarge(url: string, log = (m: string) => console.error(
         let d = derived.get(key)
         if (!d) {
           const x = deriveChannels({ ...g, pointGroup: groupOf.get(chip.material_id)!, cutNormal: cut, flatDirection: flat, chipRotationDeg: 0, shapeAzimuthDeg: 0, azimuthDeg: 0, customRotationOrder: null, customMirrors: null })
-          d = { symmetryName: x.symmetryName, channels: JSON.stringify(x.channels), hash: x.hash }
+          d = { symmetryName: x.symmetryName, channels: JSON.stringify(x.channels), setKey: x.channelSetKey, hash: x.hash }
           derived.set(key, d)
         }
         const note = (ci * 20 + pi) % 50 === 0 ? `dose test ${ci % 13}` : null
         arrayRows.push([`A-${chip.code.slice(2)}-${position}`, chip.id, position, g.shape, JSON.stringify(g.dimensionsNm), 0, g.lattice, g.periodXNm, g.periodYNm, 0, 400,
-          d.symmetryName, ENGINE_VERSION, d.hash, now, note])
+          d.symmetryName, d.setKey, ENGINE_VERSION, d.hash, now, note])
       })
     })
+    const sets = [...new Map([...derived.values()].map((d) => [d.setKey, [d.setKey, d.channels, ENGINE_VERSION]])).values()]
+    await conn.query(`INSERT IGNORE INTO channel_sets (set_key, channels, engine_version) VALUES ${sets.map(() => '(?, ?, ?)').join(', ')}`, sets.flat())
     await insert(conn, 'arrays', ['code', 'chip_id', 'position', 'shape', 'dimensions_nm', 'shape_azimuth_deg', 'lattice', 'period_x_nm', 'period_y_nm', 'azimuth_deg', 'count',
-      'symmetry_name', 'engine_version', 'channels_input_hash', 'channels_computed_at', 'notes'], arrayRows)
-    await conn.query('CREATE TEMPORARY TABLE bench_channel_sets (hash VARCHAR(64) PRIMARY KEY, channels LONGTEXT NOT NULL)')
-    await insert(conn, 'bench_channel_sets', ['hash', 'channels'], [...new Map([...derived.values()].map((d) => [d.hash, d.channels]))])
-    const [[firstNew]] = await conn.query('SELECT MIN(id) AS id FROM arrays WHERE chip_id >= ?', [cRows[0].id]) as unknown as [[{ id: number }]]
-    await conn.query('UPDATE arrays a JOIN bench_channel_sets s ON s.hash = a.channels_input_hash SET a.channels = s.channels WHERE a.id >= ?', [firstNew.id])
-    await conn.query('DROP TEMPORARY TABLE bench_channel_sets')
+      'symmetry_name', 'channel_set_key', 'engine_version', 'channels_input_hash', 'channels_computed_at', 'notes'], arrayRows)
 
     const [[maxS]] = await conn.query("SELECT COALESCE(MAX(CAST(SUBSTRING(code, 3) AS UNSIGNED)), 0) AS n FROM measurement_sessions WHERE code LIKE 'S-%'") as unknown as [[{ n: number }]]
     const firstS = Number(maxS.n) + 1

@@ -66,19 +66,21 @@ export interface StoredChannel {
   pump: PumpSpec
   result: ChannelResponse
 }
-export interface ArrayRecord {
+/** An array as a list shows it (no channels: a list shows only whether they are stale). */
+export interface ArrayRow {
   id: number; code: string; chip: { id: number; code: string }; position: string
   shape: string; dimensionsNm: Record<string, number>; shapeAzimuthDeg: number
   lattice: string; periodXNm: number | null; periodYNm: number | null; azimuthDeg: number; count: number
   customRotationOrder: number | null; customMirrors: number[] | null
   /** Structure symmetry at normal incidence, e.g. "C4v", with its mirrors in the wafer-flat frame. */
   symmetry: { name: string; rotationOrder: number; mirrors: number[] | 'all' }
-  channels: StoredChannel[]
   engineVersion: string | null; channelsComputedAt: string | null
   /** True when the stored channels were computed by another engine version or for other inputs. */
   isStale: boolean
   notes: string | null; retiredAt: string | null; createdAt: string; updatedAt: string
 }
+/** An array as its own page shows it: with the stored channels for the standard pumps. */
+export interface ArrayRecord extends ArrayRow { channels: StoredChannel[] }
 
 /** One eyewear entry of a laser setup: bands in nm as text (`720–850, 1064`), OD and/or an EN 207 marking. */
 export interface EyewearEntry { description: string; bandsNm: string; od: number | null; en207: string | null }

@@ -5,6 +5,7 @@ import {
 } from '../../shared/engine'
 import type { StoredChannel } from '../../shared/records'
 import { BadRequestError } from '../errors'
+import { keyChannels } from './channel-sets'
 
 /**
  * Derived data of an array: its structure symmetry and the harmonic channels for the standard pumps
@@ -98,12 +99,29 @@ export function channelsForArray(x: CrystalInputs, symmetry: StructureSymmetry, 
   return { ...result, explain: [...notes, ...result.explain] }
 }
 
-/** Derive symmetry and channels for one array. Pure; throws a field-level 400 on bad custom input. */
-export function deriveChannels(x: ChannelInputs): { symmetry: StructureSymmetry; symmetryName: string; channels: StoredChannel[]; hash: string } {
+/**
+ * Derive symmetry and channels for one array. Pure; throws a field-level 400 on bad custom input.
+ * `channelSetKey` is the content key under which the channels are stored (see channel-sets.ts).
+ */
+export type DerivedChannels = { symmetry: StructureSymmetry; symmetryName: string; channels: StoredChannel[]; channelSetKey: string; hash: string }
+export function deriveChannels(x: ChannelInputs): DerivedChannels {
+  // An import or a recompute derives the same design on the same wafer many times: remember the
+  // last results by input hash (the hash covers every input and the engine version).
+  const hash = channelsInputHash(x)
+  const hit = derivedCache.get(hash)
+  if (hit) return hit
+  const d = deriveUncached(x, hash)
+  derivedCache.set(hash, d)
+  if (derivedCache.size > 2000) derivedCache.delete(derivedCache.keys().next().value!)
+  return d
+}
+const derivedCache = new Map<string, DerivedChannels>()
+
+function deriveUncached(x: ChannelInputs, hash: string): DerivedChannels {
   const symmetry = arraySymmetry(x)
   const channels: StoredChannel[] = []
   for (const order of STORED_ORDERS) {
     for (const { key, pump } of STANDARD_PUMPS) channels.push({ order, pumpKey: key, pump, result: channelsForArray(x, symmetry, pump, order) })
   }
-  return { symmetry, symmetryName: structureGroupName(symmetry), channels, hash: channelsInputHash(x) }
+  return { symmetry, symmetryName: structureGroupName(symmetry), channels, channelSetKey: keyChannels(channels).key, hash }
 }

@@ -1,13 +1,14 @@
 import { and, asc, eq, gt, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm'
 import { arrays, chips, wafers, materials, auditLog, type User } from '../db/schema/index'
 import type { Db } from '../db/client'
-import type { ArrayRecord, Page } from '../../shared/records'
+import type { ArrayRecord, ArrayRow, Page, StoredChannel } from '../../shared/records'
 import type { ArrayInput, ListQuery } from '../../shared/schemas/records'
 import { ENGINE_VERSION } from '../../shared/engine'
 import { diffFields, writeAudit, type DbOrTx } from './audit'
 import { ConflictError, fieldError } from '../errors'
 import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './codes'
 import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
+import { loadChannelSets, saveChannelSets } from './channel-sets'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
 type Row = typeof arrays.$inferSelect
@@ -26,7 +27,8 @@ function inputsOf(r: Joined, a: Pick<Row, keyof Omit<ChannelInputs, 'pointGroup'
   }
 }
 
-function toArrayRecord(r: Joined): ArrayRecord {
+/** A list row: everything but the channels (a list shows only whether they are stale). */
+function toArrayRow(r: Joined): ArrayRow {
   const a = r.a
   const inputs = inputsOf(r)
   let symmetry: ArrayRecord['symmetry'] = { name: a.symmetryName ?? '?', rotationOrder: 1, mirrors: [] }
@@ -35,10 +37,14 @@ function toArrayRecord(r: Joined): ArrayRecord {
   return {
     id: a.id, code: a.code, chip: { id: a.chipId, code: r.chipCode }, position: a.position, shape: a.shape, dimensionsNm: a.dimensionsNm,
     shapeAzimuthDeg: a.shapeAzimuthDeg, lattice: a.lattice, periodXNm: a.periodXNm, periodYNm: a.periodYNm, azimuthDeg: a.azimuthDeg,
-    count: a.count, customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors, symmetry, channels: a.channels ?? [],
+    count: a.count, customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors, symmetry,
     engineVersion: a.engineVersion, channelsComputedAt: iso(a.channelsComputedAt), isStale, notes: a.notes,
     retiredAt: iso(a.retiredAt), createdAt: a.createdAt.toISOString(), updatedAt: a.updatedAt.toISOString(),
   }
+}
+
+function toArrayRecord(r: Joined, sets: Map<string, StoredChannel[]>): ArrayRecord {
+  return { ...toArrayRow(r), channels: (r.a.channelSetKey && sets.get(r.a.channelSetKey)) || [] }
 }
 
 /** Stale in SQL: another engine version, or an input hash cleared when the wafer/chip/material changed. */
@@ -48,7 +54,7 @@ const SORTS = { code: arrays.code, position: arrays.position, shape: arrays.shap
 export type ArrayListQuery = ListQuery & { chipId?: number; shape?: string; lattice?: string; stale?: boolean }
 
 /** Arrays filtered by chip, shape, lattice, staleness and text (code, notes), sorted and paged in SQL. */
-export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayRecord>> {
+export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayRow>> {
   const chipId = q.chipId ?? q.parentId
   const where = and(
     q.includeRetired ? undefined : isNull(arrays.retiredAt),
@@ -68,16 +74,17 @@ export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayR
   const ids = pageIds.map((r) => r.id)
   const rows = ids.length ? await selectArrays(db).where(inArray(arrays.id, ids)) : []
   const byId = new Map(rows.map((r) => [r.a.id, r]))
-  return { rows: ids.map((id) => toArrayRecord(byId.get(id)!)), total: Number(n), page: q.page, pageSize: q.pageSize }
+  return { rows: ids.map((id) => toArrayRow(byId.get(id)!)), total: Number(n), page: q.page, pageSize: q.pageSize }
 }
 
-export async function listArraysOfChip(db: Db, chipId: number): Promise<ArrayRecord[]> {
-  return (await selectArrays(db).where(and(eq(arrays.chipId, chipId), isNull(arrays.retiredAt))).orderBy(asc(arrays.position))).map(toArrayRecord)
+export async function listArraysOfChip(db: Db, chipId: number): Promise<ArrayRow[]> {
+  return (await selectArrays(db).where(and(eq(arrays.chipId, chipId), isNull(arrays.retiredAt))).orderBy(asc(arrays.position))).map(toArrayRow)
 }
 
 export async function getArray(db: Db, id: number): Promise<ArrayRecord> {
   const [row] = await selectArrays(db).where(eq(arrays.id, id))
-  return toArrayRecord(found(row, 'array'))
+  found(row, 'array')
+  return toArrayRecord(row, await loadChannelSets(db, [row.a.channelSetKey]))
 }
 
 async function chipContext(db: Db, chipId: number) {
@@ -96,7 +103,7 @@ function geometry(i: ArrayInput) {
 
 function derived(ctx: Awaited<ReturnType<typeof chipContext>>, g: ReturnType<typeof geometry>) {
   const d = deriveChannels({ pointGroup: ctx.pointGroup, cutNormal: ctx.cutNormal, flatDirection: ctx.flatDirection, chipRotationDeg: ctx.chip.rotationDeg, ...g })
-  return { symmetryName: d.symmetryName, channels: d.channels, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() }
+  return { set: { key: d.channelSetKey, channels: d.channels }, row: { symmetryName: d.symmetryName, channelSetKey: d.channelSetKey, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() } }
 }
 
 /** Create an array (code A-<chip>-<position>) with its symmetry and channels derived. */
@@ -106,8 +113,10 @@ export async function createArray(db: Db, actor: User, input: ArrayInput): Promi
   const [dup] = await db.select({ id: arrays.id }).from(arrays).where(and(eq(arrays.chipId, input.chipId), eq(arrays.position, input.position)))
   if (dup) throw new ConflictError(`${ctx.chip.code} already has an array at ${input.position}`, { position: ['This position is taken on the chip'] })
   const g = geometry(input)
-  const v = { code: arrayCode(ctx.chip.code, input.position), chipId: input.chipId, position: input.position, ...g, ...derived(ctx, g) }
+  const d = derived(ctx, g)
+  const v = { code: arrayCode(ctx.chip.code, input.position), chipId: input.chipId, position: input.position, ...g, ...d.row }
   return db.transaction(async (tx) => {
+    await saveChannelSets(tx, [d.set])
     const [{ id }] = await tx.insert(arrays).values(v).$returningId()
     await writeAudit(tx, { userId: actor.id, entity: 'array', entityId: id, action: 'create', changes: diffFields({}, { code: v.code, position: v.position, ...g, symmetryName: v.symmetryName }) })
     return id
@@ -122,9 +131,10 @@ export async function updateArray(db: Db, actor: User, id: number, input: ArrayI
   if (input.position !== prev.position) throw fieldError('position', 'The position is part of the code; it cannot change')
   const g = geometry(input)
   const d = derived(await chipContext(db, prev.chipId), g)
-  const changes = diffFields(prev as unknown as Record<string, unknown>, { ...g, symmetryName: d.symmetryName })
+  const changes = diffFields(prev as unknown as Record<string, unknown>, { ...g, symmetryName: d.row.symmetryName })
   await db.transaction(async (tx) => {
-    await tx.update(arrays).set({ ...g, ...d, updatedAt: new Date() }).where(eq(arrays.id, id))
+    await saveChannelSets(tx, [d.set])
+    await tx.update(arrays).set({ ...g, ...d.row, updatedAt: new Date() }).where(eq(arrays.id, id))
     if (Object.keys(changes).length) await writeAudit(tx, { userId: actor.id, entity: 'array', entityId: id, action: 'update', changes })
   })
   return getArray(db, id)
@@ -158,10 +168,11 @@ export async function recomputeArrays(db: Db, actor: User, opts: { ids?: number[
     lastId = rows[rows.length - 1].a.id
     checked += rows.length
     const todo = rows
+    const fresh = todo.map((r) => ({ id: r.a.id, d: deriveChannels(inputsOf(r)) }))
     await db.transaction(async (tx) => {
-      for (const r of todo) {
-        const d = deriveChannels(inputsOf(r))
-        await tx.update(arrays).set({ symmetryName: d.symmetryName, channels: d.channels, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() }).where(eq(arrays.id, r.a.id))
+      await saveChannelSets(tx, fresh.map(({ d }) => ({ key: d.channelSetKey, channels: d.channels })))
+      for (const { id, d } of fresh) {
+        await tx.update(arrays).set({ symmetryName: d.symmetryName, channelSetKey: d.channelSetKey, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() }).where(eq(arrays.id, id))
       }
       await tx.insert(auditLog).values(todo.map((r) => ({
         userId: actor.id, entity: 'array', entityId: r.a.id, action: 'update' as const, reason: 'channels recomputed',

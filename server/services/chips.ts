@@ -1,7 +1,7 @@
 import { and, asc, eq, like, or, sql } from 'drizzle-orm'
 import { chips, wafers, materials, users, locations, arrays, type User } from '../db/schema/index'
 import type { Db } from '../db/client'
-import type { ArrayRecord, Chip, FabStep, Page } from '../../shared/records'
+import type { ArrayRow, Chip, FabStep, Page } from '../../shared/records'
 import type { DiceInput, ListQuery } from '../../shared/schemas/records'
 import type { chipUpdateSchema } from '../../shared/schemas/records'
 import type { z } from 'zod'
@@ -66,7 +66,7 @@ export async function getChip(db: Db, id: number): Promise<Chip> {
   return toChip(found(row, 'chip'), await locationRefs(db))
 }
 
-export async function getChipDetail(db: Db, id: number): Promise<Chip & { arrays: ArrayRecord[]; fabSteps: FabStep[] }> {
+export async function getChipDetail(db: Db, id: number): Promise<Chip & { arrays: ArrayRow[]; fabSteps: FabStep[] }> {
   const chip = await getChip(db, id)
   const [arrs, steps] = await Promise.all([listArraysOfChip(db, id), listFabSteps(db, id)])
   return { ...chip, arrays: arrs, fabSteps: steps }

@@ -8,6 +8,7 @@ import { ENGINE_VERSION, type PumpSpec } from '../../shared/engine'
 import { ARRAY_COLUMNS, CHIP_COLUMNS, WAFER_COLUMNS } from './excel-columns'
 import { DATE_FMT, DATE_TIME_FMT, addStyledSheet, dateOnly, vectorText, type SheetColumn } from './excel-style'
 import { STANDARD_PUMPS, STORED_ORDERS } from './array-channels'
+import { loadChannelSets } from './channel-sets'
 import { cutLabel } from './wafers'
 import { locationRefs } from './locations'
 import { compareResult, loadArrayContexts } from './session-compare'
@@ -123,8 +124,22 @@ export async function writeArrays({ db, book, tick }: SheetContext) {
     { header: 'Symmetry', key: 'symmetry', width: 10 }, { header: 'Engine version', key: 'engineVersion', width: 10 }, { header: 'Stale', key: 'stale', width: 7 },
     utc('Channels computed', 'channelsComputedAt'), utc('Retired', 'retiredAt'), utc('Created', 'createdAt'), ...channelCols,
   ])
+  // Arrays share a few distinct channel sets (stored once, see channel-sets.ts): each set is read
+  // and turned into cells once for the whole sheet.
+  const cells = new Map<string, Record<string, string>>()
   await eachBatch((after) => db.select({ a: arrays, chip: chips.code }).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId))
-    .where(gt(arrays.id, after)).orderBy(asc(arrays.id)).limit(BATCH), (r) => r.a.id, (rows) => {
+    .where(gt(arrays.id, after)).orderBy(asc(arrays.id)).limit(BATCH), (r) => r.a.id, async (rows) => {
+    const sets = await loadChannelSets(db, rows.map((r) => r.a.channelSetKey).filter((k) => k && !cells.has(k)))
+    const cellsOf = (key: string | null): Record<string, string> => {
+      if (!key) return {}
+      let c = cells.get(key)
+      if (!c) {
+        c = {}
+        for (const ch of sets.get(key) ?? []) { c[`${ch.order}|${ch.pumpKey}|m`] = ch.result.m.join(', '); c[`${ch.order}|${ch.pumpKey}|n`] = normalEmissionText(ch) }
+        cells.set(key, c)
+      }
+      return c
+    }
     for (const { a, chip } of rows) {
       const row: Record<string, unknown> = {
         ref: a.code, chip, position: a.position, shape: a.shape, dimensionsNm: Object.entries(a.dimensionsNm).map(([k, v]) => `${k}=${v}`).join('; '),
@@ -133,10 +148,7 @@ export async function writeArrays({ db, book, tick }: SheetContext) {
         symmetry: a.symmetryName, engineVersion: a.engineVersion, stale: a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash ? 'yes' : 'no',
         channelsComputedAt: a.channelsComputedAt, retiredAt: a.retiredAt, createdAt: a.createdAt,
       }
-      for (const ch of a.channels ?? []) {
-        row[`${ch.order}|${ch.pumpKey}|m`] = ch.result.m.join(', ')
-        row[`${ch.order}|${ch.pumpKey}|n`] = normalEmissionText(ch)
-      }
+      Object.assign(row, cellsOf(a.channelSetKey))
       commitRow(ws.addRow(row))
     }
     tick(rows.length)

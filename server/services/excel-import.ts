@@ -5,6 +5,7 @@ import type { ImportReport, ImportSheetReport } from '../../shared/excel'
 import { ENGINE_VERSION } from '../../shared/engine'
 import { ConflictError } from '../errors'
 import { diffFields, writeAudit, type DbOrTx } from './audit'
+import { saveChannelSets } from './channel-sets'
 import { arrayCode, chipCode, codeNumber, nextCodeNumber, waferCode } from './codes'
 import { loadWorkbook, readImportSheets, type ReadSheet } from './excel-import-read'
 import { checkImport, type ImportPlan } from './excel-import-check'
@@ -87,11 +88,12 @@ async function writePlan(tx: DbOrTx, actor: User, plan: ImportPlan, fileName: st
     a.report.code = code
     const d = a.derived!
     return {
-      code, chipId, ...a.input, symmetryName: d.symmetryName, channels: d.channels, engineVersion: ENGINE_VERSION,
+      code, chipId, ...a.input, symmetryName: d.symmetryName, channelSetKey: d.channelSetKey, engineVersion: ENGINE_VERSION,
       channelsInputHash: d.hash, channelsComputedAt: new Date(),
     }
   })
-  created.arrays = (await insertWithAudit(tx, actor, 'array', arrays, arrayValues, reason, (v) => ({ ...v, channels: undefined, channelsInputHash: undefined, channelsComputedAt: undefined }))).size
+  await saveChannelSets(tx, plan.arrays.filter((p) => p.report.status === 'create').map((a) => ({ key: a.derived!.channelSetKey, channels: a.derived!.channels })))
+  created.arrays = (await insertWithAudit(tx, actor, 'array', arrays, arrayValues, reason, (v) => ({ ...v, channelSetKey: undefined, channelsInputHash: undefined, channelsComputedAt: undefined }))).size
   return created
 }
 

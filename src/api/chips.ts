@@ -1,9 +1,9 @@
-import type { ArrayRecord, Chip, FabStep, Page } from '../../shared/records'
+import type { ArrayRow, Chip, FabStep, Page } from '../../shared/records'
 import type { FabStepInput } from '../../shared/schemas/records'
 import { http } from './http'
 import { listQuery, type ListParams } from './wafers'
 
-export type ChipDetail = Chip & { arrays: ArrayRecord[]; fabSteps: FabStep[] }
+export type ChipDetail = Chip & { arrays: ArrayRow[]; fabSteps: FabStep[] }
 export interface ChipUpdate { rotationDeg?: number; widthMm?: number; heightMm?: number; status?: Chip['status']; notes?: string | null; reason?: string | null }
 
 export const listChips = (p: ListParams) => http.get<Page<Chip>>(`/chips${listQuery(p)}`)

@@ -1,4 +1,4 @@
-import type { ArrayRecord, MeasurementSession, MeasurementSessionRow, Page, SessionResult } from '../../shared/records'
+import type { ArrayRow, MeasurementSession, MeasurementSessionRow, Page, SessionResult } from '../../shared/records'
 import type { SessionInput } from '../../shared/schemas/records'
 import type { SessionPreviewInput } from '../../shared/schemas/measurements'
 import { http } from './http'
@@ -31,4 +31,4 @@ export const previewSession = (input: SessionPreviewInput) => http.post<SessionP
  * is searched as the prefix A-… its arrays' codes share (array codes are chip code + position).
  */
 export const searchArrays = (text: string) =>
-  http.get<Page<ArrayRecord>>(`/arrays?${toQueryString({ q: text.trim().toUpperCase().replace(/^C-/, 'A-'), pageSize: 20 })}`)
+  http.get<Page<ArrayRow>>(`/arrays?${toQueryString({ q: text.trim().toUpperCase().replace(/^C-/, 'A-'), pageSize: 20 })}`)

@@ -78,4 +78,28 @@ describe('arrays', () => {
     expect((await fab.post(`/api/arrays/${a.id}/retire`).send({})).body.fields).toHaveProperty('reason')
     expect((await fab.post(`/api/arrays/${a.id}/retire`).send({ reason: 'resist peeled' })).body.retiredAt).not.toBeNull()
   })
+
+  it('stores each distinct channel set once: two arrays of one design share a row; a recompute that changes the result points at a new row', async () => {
+    const { chip } = await makeChip(fab)
+    const setOf = async (id: number) => {
+      const [[row]] = (await t.pool.query('SELECT channel_set_key AS k FROM arrays WHERE id = ?', [id])) as unknown as [[{ k: string }]]
+      return row.k
+    }
+    const sets = async () => Number(((await t.pool.query('SELECT COUNT(*) AS n FROM channel_sets')) as unknown as [[{ n: number }]])[0][0].n)
+    const a = (await fab.post('/api/arrays').send(disk(chip.id, 'A1'))).body
+    const before = await sets()
+    const b = (await fab.post('/api/arrays').send({ ...disk(chip.id, 'A2'), dimensionsNm: { diameterNm: 300 } })).body
+    expect(await sets()).toBe(before)
+    expect(await setOf(b.id)).toBe(await setOf(a.id))
+    expect(b.channels).toEqual(a.channels)
+    // A list row carries no channel JSON, only whether it is stale.
+    const list = (await fab.get(`/api/arrays?chipId=${chip.id}`)).body.rows
+    expect(list).toHaveLength(2)
+    expect(list[0]).not.toHaveProperty('channels')
+    // A new azimuth changes the structure's mirrors and the frame notes: a new set, the old one stays for A1.
+    const turned = (await fab.patch(`/api/arrays/${b.id}`).send({ ...disk(chip.id, 'A2'), azimuthDeg: 15 })).body
+    expect(await setOf(b.id)).not.toBe(await setOf(a.id))
+    expect(turned.channels).toHaveLength(8)
+    expect((await fab.get(`/api/arrays/${a.id}`)).body.channels).toEqual(a.channels)
+  })
 })

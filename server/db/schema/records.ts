@@ -101,6 +101,18 @@ export const fabSteps = mysqlTable('fab_steps', {
   createdAt: created(),
 }, (t) => [index('fab_steps_chip_idx').on(t.chipId, t.performedAt)])
 
+/**
+ * Computed channel sets, stored once per distinct content: the key is the SHA-256 of the channels'
+ * JSON, so the thousands of arrays of one design on one wafer share one row, and a row never
+ * changes (a recompute with a new result makes a new row and repoints the array).
+ */
+export const channelSets = mysqlTable('channel_sets', {
+  key: varchar('set_key', { length: 64 }).primaryKey(),
+  channels: json('channels').$type<StoredChannel[]>().notNull(),
+  engineVersion: varchar('engine_version', { length: 20 }).notNull(),
+  createdAt: created(),
+})
+
 export const arrays = mysqlTable('arrays', {
   id: int('id').autoincrement().primaryKey(),
   code: varchar('code', { length: 32 }).notNull().unique(),
@@ -116,9 +128,9 @@ export const arrays = mysqlTable('arrays', {
   count: int('count').notNull().default(1),
   customRotationOrder: int('custom_rotation_order'),
   customMirrors: json('custom_mirrors').$type<number[] | null>(),
-  /** Derived on every save: structure group name (e.g. C4v) and the stored channels. */
+  /** Derived on every save: structure group name (e.g. C4v) and the key of the stored channel set. */
   symmetryName: varchar('symmetry_name', { length: 12 }),
-  channels: json('channels').$type<StoredChannel[]>(),
+  channelSetKey: varchar('channel_set_key', { length: 64 }).references(() => channelSets.key, { onDelete: 'restrict' }),
   engineVersion: varchar('engine_version', { length: 20 }),
   /** Hash of every input the channels depend on (material group, cut, flat, chip rotation, array geometry). */
   channelsInputHash: varchar('channels_input_hash', { length: 64 }),

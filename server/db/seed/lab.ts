@@ -10,6 +10,7 @@ import { createLocation } from '../../services/locations'
 import { createWafer } from '../../services/wafers'
 import { diceChips } from '../../services/chips'
 import { deriveChannels } from '../../services/array-channels'
+import { saveChannelSets, type KeyedChannels } from '../../services/channel-sets'
 import { arrayCode } from '../../services/codes'
 
 /**
@@ -148,15 +149,18 @@ async function seedArrays(db: Db, actorId: number, chipIds: number[]): Promise<v
   const contexts = await db.select({ id: chips.id, code: chips.code, rotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup })
     .from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)).innerJoin(materials, eq(materials.id, wafers.materialId)).where(inArray(chips.id, chipIds)).orderBy(chips.id)
   const rows: (typeof arrays.$inferInsert)[] = []
+  const sets: KeyedChannels[] = []
   contexts.forEach((ctx, i) => {
     POSITIONS.forEach((position, p) => {
       const t = ARRAY_TEMPLATES[(i + p) % ARRAY_TEMPLATES.length]
       const g = { ...t, azimuthDeg: p === 7 ? 30 : 0 }
       const d = deriveChannels({ pointGroup: ctx.pointGroup, cutNormal: ctx.cutNormal, flatDirection: ctx.flatDirection, chipRotationDeg: ctx.rotationDeg, ...g })
-      rows.push({ code: arrayCode(ctx.code, position), chipId: ctx.id, position, ...g, symmetryName: d.symmetryName, channels: d.channels, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() })
+      sets.push({ key: d.channelSetKey, channels: d.channels })
+      rows.push({ code: arrayCode(ctx.code, position), chipId: ctx.id, position, ...g, symmetryName: d.symmetryName, channelSetKey: d.channelSetKey, engineVersion: ENGINE_VERSION, channelsInputHash: d.hash, channelsComputedAt: new Date() })
     })
   })
   await db.transaction(async (tx) => {
+    await saveChannelSets(tx, sets)
     for (let s = 0; s < rows.length; s += 100) await tx.insert(arrays).values(rows.slice(s, s + 100))
     const made = await tx.select({ id: arrays.id, code: arrays.code }).from(arrays).where(inArray(arrays.chipId, chipIds))
     await tx.insert(auditLog).values(made.map((a) => ({ userId: actorId, entity: 'array', entityId: a.id, action: 'create' as const, changes: { code: { from: null, to: a.code } } })))
