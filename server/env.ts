@@ -1,5 +1,29 @@
 import { z } from 'zod'
 
+/** Where uploaded files are kept (see server/services/storage.ts). */
+const fileStorageFields = {
+  /** local: content-addressed under DATA_DIR/uploads; s3: an S3-compatible bucket (S3_* below). */
+  FILE_STORAGE: z.enum(['local', 's3']).default('local'),
+  /** S3-compatible endpoint (MinIO, Ceph RGW, Garage, …); unset: AWS S3 of S3_REGION. */
+  S3_ENDPOINT: z.string().url().optional(),
+  S3_REGION: z.string().min(1).default('us-east-1'),
+  S3_BUCKET: z.string().optional(),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  /** Put before every object key, e.g. "overtone/"; keys are `${S3_PREFIX}ab/cd/<sha256>`. */
+  S3_PREFIX: z.string().default(''),
+}
+
+type FileStorageFields = { FILE_STORAGE: 'local' | 's3'; S3_BUCKET?: string; S3_ACCESS_KEY_ID?: string; S3_SECRET_ACCESS_KEY?: string }
+
+/** With FILE_STORAGE=s3 the bucket and both keys must be set (checked at start-up, not at the first upload). */
+function requireS3Settings(e: FileStorageFields, ctx: z.RefinementCtx) {
+  if (e.FILE_STORAGE !== 's3') return
+  for (const name of ['S3_BUCKET', 'S3_ACCESS_KEY_ID', 'S3_SECRET_ACCESS_KEY'] as const) {
+    if (!e[name]?.trim()) ctx.addIssue({ code: 'custom', path: [name], message: `${name} is required when FILE_STORAGE=s3` })
+  }
+}
+
 /** Server configuration, parsed once from process.env at start-up; fails fast with a clear message. */
 const envSchema = z.object({
   NODE_ENV: z.enum(['development', 'production', 'test']).default('development'),
@@ -19,15 +43,29 @@ const envSchema = z.object({
   /** Failed sign-ins allowed per e-mail and address in a 10-minute window. */
   LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(8),
   LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
-})
+  ...fileStorageFields,
+}).superRefine(requireS3Settings)
+
+const fileStorageEnvSchema = z.object(fileStorageFields).superRefine(requireS3Settings)
 
 export type Env = z.infer<typeof envSchema>
+/** The part of the configuration that `createFileStorage` reads. */
+export type FileStorageEnv = z.infer<typeof fileStorageEnvSchema>
 
-export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
-  const parsed = envSchema.safeParse(source)
+function parseOrThrow<T>(schema: z.ZodType<T>, source: NodeJS.ProcessEnv): T {
+  const parsed = schema.safeParse(source)
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`)
     throw new Error(`Invalid server configuration:\n${lines.join('\n')}`)
   }
   return parsed.data
+}
+
+export function loadEnv(source: NodeJS.ProcessEnv = process.env): Env {
+  return parseOrThrow(envSchema, source)
+}
+
+/** Only the file-storage settings (for scripts such as the seed that run without the full server configuration). */
+export function loadFileStorageEnv(source: NodeJS.ProcessEnv = process.env): FileStorageEnv {
+  return parseOrThrow(fileStorageEnvSchema, source)
 }

@@ -16,7 +16,7 @@ import { sheetSessions } from '../services/analysis-sheet'
  */
 export function analysisRoutes(ctx: AppContext): Router {
   const r = Router()
-  const storage = createFileStorage(ctx.env.DATA_DIR)
+  const storage = createFileStorage(ctx.env.DATA_DIR, ctx.env)
   r.get('/arrays/:id/pattern', requireAbility('read', 'Array'), async (req, res) => {
     res.json(await arrayPattern(ctx.db, parse(idParamSchema, req.params).id, parse(patternQuerySchema, req.query)))
   })

@@ -2,6 +2,8 @@ import { createHash, randomBytes } from 'node:crypto'
 import { createReadStream, type ReadStream } from 'node:fs'
 import fs from 'node:fs/promises'
 import path from 'node:path'
+import type { FileStorageEnv } from '../env'
+import { S3Storage } from './storage-s3'
 
 /**
  * Content-addressed blob storage for uploaded files. A blob is named by the SHA-256 of its bytes,
@@ -9,9 +11,10 @@ import path from 'node:path'
  * kept unchanged with their checksum: FACTS.md §3.2 behaviour 7).
  *
  * Only this interface is used by the services. `LocalDiskStorage` keeps blobs under
- * `${DATA_DIR}/uploads/ab/cd/<sha256>`; an S3-compatible implementation can be added later by
- * implementing the same three methods (put = PutObject with the hash as key after hashing in
- * memory, get = GetObject body stream, has = HeadObject) and choosing it in `createFileStorage`.
+ * `${DATA_DIR}/uploads/ab/cd/<sha256>`; `S3Storage` (storage-s3.ts) keeps them in an
+ * S3-compatible bucket under `${S3_PREFIX}ab/cd/<sha256>`. `FILE_STORAGE` chooses one in
+ * `createFileStorage`. Both refuse a "hash" that is not 64 lower-case hex digits before touching
+ * anything, and `tests/server/storage-s3.test.ts` holds both to the same contract.
  */
 export interface FileStorage {
   /** Store bytes; answers their hash and whether they were new. */
@@ -29,12 +32,23 @@ export function sha256Of(data: Buffer): string {
   return createHash('sha256').update(data).digest('hex')
 }
 
+/** The hash itself when it is 64 lower-case hex digits; throws otherwise (never make a key or path from anything else). */
+export function checkedSha256(sha256: string): string {
+  if (typeof sha256 !== 'string' || !SHA.test(sha256)) throw new Error(`not a sha256: ${String(sha256).slice(0, 80)}`)
+  return sha256
+}
+
+/** The error `get` and `read` throw for a blob that is not stored (code ENOENT, as from the disk). */
+export function blobMissing(sha256: string, where: string): Error {
+  return Object.assign(new Error(`no stored blob ${sha256} in ${where}`), { code: 'ENOENT' })
+}
+
 export class LocalDiskStorage implements FileStorage {
   constructor(readonly root: string) {}
 
   /** The only place a path is made, and only from a checked hex hash (never from a user's name). */
   private pathOf(sha256: string): string {
-    if (!SHA.test(sha256)) throw new Error(`not a sha256: ${sha256}`)
+    checkedSha256(sha256)
     return path.join(this.root, sha256.slice(0, 2), sha256.slice(2, 4), sha256)
   }
 
@@ -61,11 +75,30 @@ export class LocalDiskStorage implements FileStorage {
   }
 
   async has(sha256: string): Promise<boolean> {
-    try { await fs.access(this.pathOf(sha256)); return true } catch { return false }
+    const p = this.pathOf(sha256)
+    try { await fs.access(p); return true } catch (err) {
+      const code = (err as NodeJS.ErrnoException).code
+      if (code === 'ENOENT' || code === 'ENOTDIR') return false
+      throw err
+    }
   }
 }
 
-/** The storage of this server: local disk under `${dataDir}/uploads`. */
-export function createFileStorage(dataDir: string): FileStorage {
+/**
+ * The storage of this server: local disk under `${dataDir}/uploads` (the default, and always
+ * when `env` is left out), or an S3-compatible bucket when `env.FILE_STORAGE` is 's3'. Makes no
+ * network call: the S3 client is created on first use.
+ */
+export function createFileStorage(dataDir: string, env?: FileStorageEnv): FileStorage {
+  if (env?.FILE_STORAGE === 's3') {
+    return new S3Storage({
+      endpoint: env.S3_ENDPOINT,
+      region: env.S3_REGION,
+      bucket: env.S3_BUCKET ?? '',
+      accessKeyId: env.S3_ACCESS_KEY_ID ?? '',
+      secretAccessKey: env.S3_SECRET_ACCESS_KEY ?? '',
+      prefix: env.S3_PREFIX,
+    })
+  }
   return new LocalDiskStorage(path.resolve(dataDir, 'uploads'))
 }

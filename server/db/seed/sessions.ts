@@ -6,6 +6,7 @@ import { writeAudit, diffFields } from '../../services/audit'
 import { nextCode } from '../../services/laser-setups'
 import { compareResult, loadArrayContexts, type ArrayContext } from '../../services/session-compare'
 import { createFileStorage, type FileStorage } from '../../services/storage'
+import { loadFileStorageEnv } from '../../env'
 
 /**
  * A few measurement sessions by the optics person on the seeded arrays and laser setups, each with
@@ -39,7 +40,8 @@ export function syntheticSpectrum(pumpNm: number, order: number, seed: number): 
   return Buffer.from(lines.join('\n') + '\n')
 }
 
-export async function seedSessions(db: Db, storage: FileStorage = createFileStorage(process.env.DATA_DIR ?? '.data')): Promise<void> {
+/** `storage` defaults to the one the server would use (FILE_STORAGE and S3_* from the environment). */
+export async function seedSessions(db: Db, storage: FileStorage = createFileStorage(process.env.DATA_DIR ?? '.data', loadFileStorageEnv())): Promise<void> {
   const [optics] = await db.select().from(users).where(eq(users.email, 'optics@kestrel-lab.example'))
   // Only signed-off setups may carry sessions (issue 5).
   const approved = new Set((await db.select({ id: laserSetupSignoffs.setupId }).from(laserSetupSignoffs).where(eq(laserSetupSignoffs.decision, 'approved'))).map((r) => r.id))

@@ -30,7 +30,7 @@ function lockDown(res: Response) {
 /** /api/files: uploads checked by content, content-addressed storage, downloads and previews. */
 export function fileRoutes(ctx: AppContext): Router {
   const r = Router()
-  const storage = createFileStorage(ctx.env.DATA_DIR)
+  const storage = createFileStorage(ctx.env.DATA_DIR, ctx.env)
   r.get('/files', requireAbility('read', 'File'), async (req, res) => {
     const q = parse(fileListQuerySchema, req.query)
     res.json(await listFiles(ctx.db, q.entity, q.entityId, q.includeRetired))
