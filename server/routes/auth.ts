@@ -10,12 +10,15 @@ import { UnauthorizedError, AppError } from '../errors'
 import type { User } from '../db/schema/index'
 import { preferencesSchema } from '../../shared/schemas/notices'
 import { getPreferences, setPreferences } from '../services/notices'
+import { MariaDbThrottleStore } from '../services/throttle-store'
 
 export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router {
   const r = Router()
 
   // Failed sign-ins per address and e-mail in a 10-minute window; successful ones do not count.
+  // Counted in MariaDB, so every app server behind a proxy sees the same count.
   const loginLimiter = rateLimit({
+    store: new MariaDbThrottleStore(ctx.db, 'login'),
     windowMs: 10 * 60 * 1000,
     limit: ctx.env.LOGIN_MAX_FAILURES,
     skipSuccessfulRequests: true,

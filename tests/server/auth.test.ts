@@ -1,6 +1,6 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest'
 import request from 'supertest'
-import { startTestApp, signedInAs, demoEmail } from './helpers'
+import { startTestApp, signedInAs, demoEmail, uniqueEmail } from './helpers'
 import { DEMO_PASSWORD } from '../../server/db/seed/people'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
@@ -58,11 +58,26 @@ describe('sign-in', () => {
   })
 
   it('throttles repeated failed sign-ins for one e-mail', async () => {
-    const email = 'nobody-throttle@kestrel-lab.example'
+    const email = uniqueEmail('nobody-throttle')
     const statuses: number[] = []
     for (let i = 0; i < 7; i++) statuses.push((await request(t.app).post('/api/auth/login').send({ email, password: 'guess-' + i })).status)
     expect(statuses.slice(0, 5)).toEqual([401, 401, 401, 401, 401])
     expect(statuses[6]).toBe(429)
+  })
+
+  it('counts failed sign-ins in MariaDB: guesses spread over two app servers are throttled together', async () => {
+    const other = await startTestApp()
+    try {
+      const email = uniqueEmail('spread-guesses')
+      const statuses: number[] = []
+      // LOGIN_MAX_FAILURES is 5 in tests: 3 guesses on one server, then 3 on the other.
+      for (let i = 0; i < 6; i++) statuses.push((await request(i < 3 ? t.app : other.app).post('/api/auth/login').send({ email, password: 'guess-' + i })).status)
+      expect(statuses).toEqual([401, 401, 401, 401, 401, 429])
+      // The stored key is a hash: the e-mail address is not kept in the table.
+      const [rows] = (await t.pool.query('SELECT hit_key, hits FROM throttle_hits WHERE hits >= 5')) as unknown as [{ hit_key: string; hits: number }[]]
+      expect(rows.length).toBeGreaterThan(0)
+      expect(JSON.stringify(rows)).not.toContain('spread-guesses')
+    } finally { await other.stop() }
   })
 
   it('does not sign in a deactivated person', async () => {
