@@ -65,7 +65,7 @@ db_start() {
     --port="$port" --bind-address=127.0.0.1 --skip-name-resolve \
     --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
     --innodb-buffer-pool-size=256M --innodb-log-file-size=16M --innodb-flush-log-at-trx-commit=2 \
-    --max-connections=300 > /dev/null 2>&1 &
+    --query-cache-type=DEMAND --query-cache-size=32M --max-connections=300 > /dev/null 2>&1 &
   for _ in $(seq 1 300); do
     if mariadb-admin --no-defaults --socket="$run/mysqld.sock" -uroot ping >/dev/null 2>&1; then
       log "MariaDB up on 127.0.0.1:$port"; return 0

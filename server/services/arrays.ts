@@ -1,4 +1,4 @@
-import { and, asc, eq, gt, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm'
+import { and, asc, desc, eq, gt, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm'
 import { arrays, chips, wafers, materials, auditLog, type User } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { ArrayRecord, ArrayRow, Page, StoredChannel } from '../../shared/records'
@@ -9,6 +9,7 @@ import { ConflictError, fieldError } from '../errors'
 import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './codes'
 import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
 import { loadChannelSets, saveChannelSets } from './channel-sets'
+import { cachedCount, codePrefixes, fulltextQuery, idCondition, textHitIds } from './text-search'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
 type Row = typeof arrays.$inferSelect
@@ -53,6 +54,12 @@ const SORTS = { code: arrays.code, position: arrays.position, shape: arrays.shap
 
 export type ArrayListQuery = ListQuery & { chipId?: number; shape?: string; lattice?: string; stale?: boolean }
 
+/** Arrays whose code starts with the typed code (chip codes find their arrays) or whose notes have the words. */
+async function arrayTextHits(db: Db, text: string): Promise<number[] | null> {
+  const ft = await fulltextQuery(db, text)
+  return textHitIds(db, 'arrays', 'code', codePrefixes(text, 'A'), ft ? { columns: ['notes'], query: ft } : null)
+}
+
 /** Arrays filtered by chip, shape, lattice, staleness and text (code, notes), sorted and paged in SQL. */
 export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayRow>> {
   const chipId = q.chipId ?? q.parentId
@@ -62,14 +69,15 @@ export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayR
     q.shape ? eq(arrays.shape, q.shape) : undefined,
     q.lattice ? eq(arrays.lattice, q.lattice) : undefined,
     q.stale === true ? staleSql : q.stale === false ? sql`NOT ${staleSql}` : undefined,
-    q.q ? or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q))) : undefined,
+    q.q ? idCondition(arrays.id, await arrayTextHits(db, q.q), or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q)))) : undefined,
   )
   // Two steps so the page is cut from `arrays` alone (its indexes), not from a join over every row:
   // first the ids of the page, then the joined rows of just those ids, kept in page order.
   const [pageIds, [{ n }]] = await Promise.all([
+    // Ties broken by id in the same direction, so a (filter…, sort column) index is read backwards, not filesorted.
     db.select({ id: arrays.id }).from(arrays).where(where)
-      .orderBy(orderBy(SORTS, q.sort, q.dir, 'code'), asc(arrays.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
-    db.select({ n: sql<number>`count(*)` }).from(arrays).where(where),
+      .orderBy(orderBy(SORTS, q.sort, q.dir, 'code'), q.dir === 'desc' ? desc(arrays.id) : asc(arrays.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+    db.select({ n: cachedCount() }).from(arrays).where(where),
   ])
   const ids = pageIds.map((r) => r.id)
   const rows = ids.length ? await selectArrays(db).where(inArray(arrays.id, ids)) : []

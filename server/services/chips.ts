@@ -1,4 +1,4 @@
-import { and, asc, eq, like, or, sql } from 'drizzle-orm'
+import { and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm'
 import { chips, wafers, materials, users, locations, arrays, type User } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { ArrayRow, Chip, FabStep, Page } from '../../shared/records'
@@ -13,6 +13,7 @@ import { markArraysStale } from './materials'
 import { cutLabel } from './wafers'
 import { listArraysOfChip } from './arrays'
 import { listFabSteps } from './fab-steps'
+import { cachedCount, codePrefixes, fulltextQuery, idCondition, textHitIds } from './text-search'
 
 /** Parsed update; `notes` undefined = leave as is (the route drops it when the body omits it). */
 type ChipUpdate = Omit<z.infer<typeof chipUpdateSchema>, 'notes'> & { notes?: string | null }
@@ -41,19 +42,33 @@ function toChip(r: Joined, refs: Awaited<ReturnType<typeof locationRefs>>): Chip
 
 const SORTS = { code: chips.code, status: chips.status, rotationDeg: chips.rotationDeg, createdAt: chips.createdAt, wafer: wafers.code }
 
+/** Chips whose code starts with the typed code (wafer codes find their chips), whose notes have the words, or whose wafer's lot contains the text. */
+async function chipTextHits(db: Db, text: string): Promise<number[] | null> {
+  const ft = await fulltextQuery(db, text)
+  const lot = sql`SELECT c.id FROM chips c JOIN wafers w ON w.id = c.wafer_id WHERE w.lot LIKE ${likePattern(text)}`
+  return textHitIds(db, 'chips', 'code', codePrefixes(text, 'C'), ft ? { columns: ['notes'], query: ft } : null, [lot])
+}
+
 /** Chips filtered by wafer (`parentId`), status and text (code, notes, wafer lot), paged in SQL. */
 export async function listChips(db: Db, q: ListQuery): Promise<Page<Chip>> {
+  const lotOf = (text: string) => sql`${chips.waferId} IN (SELECT id FROM wafers WHERE lot LIKE ${likePattern(text)})`
   const where = and(
     q.parentId ? eq(chips.waferId, q.parentId) : undefined,
     q.status ? sql`${chips.status} = ${q.status}` : q.includeRetired ? undefined : sql`${chips.status} <> 'retired'`,
-    q.q ? or(like(chips.code, likePattern(q.q)), like(chips.notes, likePattern(q.q)), like(wafers.lot, likePattern(q.q))) : undefined,
+    q.q ? idCondition(chips.id, await chipTextHits(db, q.q), or(like(chips.code, likePattern(q.q)), like(chips.notes, likePattern(q.q)), lotOf(q.q))) : undefined,
   )
-  const [rows, [{ n }], refs] = await Promise.all([
-    selectChips(db).where(where).orderBy(orderBy(SORTS, q.sort, q.dir, 'code')).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
-    db.select({ n: sql<number>`count(*)` }).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)).where(where),
-    locationRefs(db),
-  ])
-  return { rows: rows.map((r) => toChip(r, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }
+  // The page is cut from `chips` alone (its indexes; the wafer only when sorting by wafer code),
+  // then the joined rows of just those ids are read, kept in page order.
+  const order = [orderBy(SORTS, q.sort, q.dir, 'code'), q.dir === 'desc' ? desc(chips.id) : asc(chips.id)]
+  const offset = (q.page - 1) * q.pageSize
+  const pageIds = q.sort === 'wafer'
+    ? db.select({ id: chips.id }).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)).where(where).orderBy(...order).limit(q.pageSize).offset(offset)
+    : db.select({ id: chips.id }).from(chips).where(where).orderBy(...order).limit(q.pageSize).offset(offset)
+  const [idRows, [{ n }], refs] = await Promise.all([pageIds, db.select({ n: cachedCount() }).from(chips).where(where), locationRefs(db)])
+  const ids = idRows.map((r) => r.id)
+  const rows = ids.length ? await selectChips(db).where(inArray(chips.id, ids)) : []
+  const byId = new Map(rows.map((r) => [r.c.id, r]))
+  return { rows: ids.map((id) => toChip(byId.get(id)!, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }
 }
 
 export async function listChipsOfWafer(db: Db, waferId: number): Promise<Chip[]> {

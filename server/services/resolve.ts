@@ -1,4 +1,4 @@
-import { eq, like, or, desc } from 'drizzle-orm'
+import { eq, like, or, desc, sql } from 'drizzle-orm'
 import { wafers, chips, arrays, locations, materials, measurementSessions, laserSetups } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { ResolvedCode } from '../../shared/records'
@@ -7,6 +7,7 @@ import { NotFoundError } from '../errors'
 import { likePattern } from './codes'
 import { cutLabel } from './wafers'
 import { locationRefs } from './locations'
+import { codePrefixes, fulltextQuery, prefixPattern } from './text-search'
 
 /**
  * Codes → records: `resolveCode` answers a scanned or typed code (any case, or a resolver URL
@@ -48,20 +49,34 @@ async function findByCode(db: Db, code: string): Promise<ResolvedCode | undefine
   return undefined
 }
 
+/** Up to `limit` rows found by code prefix or by FULLTEXT words (`'ft'`), merged by id, in key order. */
+async function byCodeOrWords<R extends { id: number }>(prefixes: string[], ft: string | null, limit: number,
+  find: (what: string) => Promise<R[]>, key: (r: R) => string, dir: 'asc' | 'desc' = 'asc'): Promise<R[]> {
+  const found = await Promise.all([...prefixes.map((p) => find(p)), ...(ft ? [find('ft')] : [])])
+  const byId = new Map(found.flat().map((r) => [r.id, r]))
+  const rows = [...byId.values()].sort((a, b) => key(a).localeCompare(key(b)))
+  return (dir === 'desc' ? rows.reverse() : rows).slice(0, limit)
+}
+
 type Ranked = SearchHit & { rank: number }
 const rankOf = (code: string, q: string) => (code.toUpperCase() === q.toUpperCase() ? 0 : code.toUpperCase().startsWith(q.toUpperCase()) ? 1 : 2)
 
 /** Records matching `q`: codes (exact, then prefix), lots, suppliers, notes, material names. Exact code first. */
 export async function searchRecords(db: Db, q: string, perKind = 8): Promise<SearchHit[]> {
   const any = likePattern(q), prefix = likePattern(q, true)
+  // The big tables (chips, arrays, sessions): codes by prefix and notes by FULLTEXT words, each an
+  // index lookup (an OR of both, or LIKE '%…%', scans 100 000 rows); see text-search.ts.
+  const ft = await fulltextQuery(db, q)
   const [ws, cs, as, ls, ms, ss, lss, refs] = await Promise.all([
     db.select({ w: wafers, m: materials.name, pg: materials.pointGroup }).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId))
       .where(or(like(wafers.code, prefix), like(wafers.lot, any), like(wafers.supplier, any), like(wafers.notes, any), like(materials.name, any))).orderBy(wafers.code).limit(perKind),
-    db.select().from(chips).where(or(like(chips.code, prefix), like(chips.notes, any))).orderBy(chips.code).limit(perKind),
-    db.select().from(arrays).where(or(like(arrays.code, prefix), like(arrays.notes, any))).orderBy(arrays.code).limit(perKind),
+    byCodeOrWords(codePrefixes(q, 'C', false), ft, perKind, (w) => db.select().from(chips).where(w === 'ft' ? sql`MATCH(notes) AGAINST (${ft} IN BOOLEAN MODE)` : like(chips.code, prefixPattern(w))).orderBy(chips.code).limit(perKind), (r) => r.code),
+    byCodeOrWords(codePrefixes(q, 'A', false), ft, perKind, (w) => db.select().from(arrays).where(w === 'ft' ? sql`MATCH(notes) AGAINST (${ft} IN BOOLEAN MODE)` : like(arrays.code, prefixPattern(w))).orderBy(arrays.code).limit(perKind), (r) => r.code),
     db.select().from(locations).where(or(like(locations.code, prefix), like(locations.name, any))).orderBy(locations.code).limit(perKind),
     db.select().from(materials).where(or(like(materials.name, any), like(materials.formula, any))).orderBy(materials.name).limit(perKind),
-    db.select().from(measurementSessions).where(or(like(measurementSessions.code, prefix), like(measurementSessions.notes, any))).orderBy(desc(measurementSessions.performedAt)).limit(perKind),
+    byCodeOrWords(codePrefixes(q, 'S', false), ft, perKind, (w) => db.select().from(measurementSessions)
+      .where(w === 'ft' ? sql`MATCH(notes, detector) AGAINST (${ft} IN BOOLEAN MODE)` : like(measurementSessions.code, prefixPattern(w)))
+      .orderBy(desc(measurementSessions.performedAt)).limit(perKind), (r) => r.performedAt.toISOString(), 'desc'),
     db.select().from(laserSetups).where(or(like(laserSetups.code, prefix), like(laserSetups.name, any))).orderBy(laserSetups.code).limit(perKind),
     locationRefs(db),
   ])

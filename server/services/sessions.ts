@@ -10,6 +10,7 @@ import { requireValidSignoff } from './signoffs'
 import { nextCode, withCodeRetry } from './laser-setups'
 import { compareResult, deriveEfficiency, loadArrayContexts, type Reader } from './session-compare'
 import { NotFoundError, fieldError } from '../errors'
+import { cachedCount, codePrefixes, fulltextQuery, idCondition, prefixPattern, textHitIds } from './text-search'
 
 /**
  * Measurement sessions: one session (pump, detection) on one or more arrays, with the observed
@@ -135,7 +136,14 @@ export async function getSession(db: Db, id: number): Promise<MeasurementSession
 const SORTABLE = { performedAt: ms.performedAt, code: ms.code, wavelengthNm: ms.wavelengthNm, harmonicOrder: ms.harmonicOrder, createdAt: ms.createdAt } as const
 const dayEnd = (s: string) => (/^\d{4}-\d{2}-\d{2}$/.test(s) ? new Date(Date.parse(s) + DAY_MS) : new Date(Date.parse(s) + 1))
 
-function listWhere(q: SessionListQuery): SQL | undefined {
+/** Sessions whose code starts with the text, whose notes or detector have its words, or that measured an array whose code starts with it. */
+async function sessionTextHits(db: Db, text: string): Promise<number[] | null> {
+  const ft = await fulltextQuery(db, text)
+  const onArrays = codePrefixes(text, 'A').map((p) => sql`SELECT sr.session_id AS id FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE a.code LIKE ${prefixPattern(p)}`)
+  return textHitIds(db, 'measurement_sessions', 'code', codePrefixes(text, 'S'), ft ? { columns: ['notes', 'detector'], query: ft } : null, onArrays)
+}
+
+async function listWhere(db: Db, q: SessionListQuery): Promise<SQL | undefined> {
   const w: SQL[] = []
   const inResults = (cond: SQL) => sql`EXISTS (SELECT 1 FROM session_results sr JOIN arrays a ON a.id = sr.array_id JOIN chips c ON c.id = a.chip_id WHERE sr.session_id = ${ms.id} AND ${cond})`
   if (q.array) w.push(inResults(sql`a.code = ${q.array}`))
@@ -145,20 +153,27 @@ function listWhere(q: SessionListQuery): SQL | undefined {
   if (q.to) w.push(lt(ms.performedAt, dayEnd(q.to)))
   if (q.q) {
     const p = `%${q.q.replace(/[\\%_]/g, (c) => '\\' + c)}%`
-    w.push(or(like(ms.code, p), like(ms.notes, p), like(ms.detector, p), inResults(sql`a.code LIKE ${p}`))!)
+    w.push(idCondition(ms.id, await sessionTextHits(db, q.q), or(like(ms.code, p), like(ms.notes, p), like(ms.detector, p), inResults(sql`a.code LIKE ${p}`)))!)
   }
   return w.length ? and(...w) : undefined
 }
 
 export async function listSessions(db: Db, q: SessionListQuery): Promise<Page<MeasurementSessionRow>> {
-  const where = listWhere(q)
+  const where = await listWhere(db, q)
   const col = SORTABLE[(q.sort ?? 'performedAt') as keyof typeof SORTABLE] ?? ms.performedAt
   const dir = q.sort ? q.dir : 'desc'
-  const rows = await db.select({ s: ms, setup: { id: laserSetups.id, code: laserSetups.code, name: laserSetups.name }, operator: { id: operators.id, name: operators.name } })
-    .from(ms).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId)).innerJoin(operators, eq(operators.id, ms.operatorId))
-    .where(where).orderBy(dir === 'desc' ? desc(col) : asc(col), desc(ms.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize)
-  const [{ n }] = await db.select({ n: count() }).from(ms).where(where)
-  const ids = rows.map((r) => r.s.id)
+  // The page is cut from measurement_sessions alone (newest first reads sessions_performed_idx
+  // backwards; ties by id in the same direction), then only those sessions are joined.
+  const [pageIds, [{ n }]] = await Promise.all([
+    db.select({ id: ms.id }).from(ms).where(where).orderBy(dir === 'desc' ? desc(col) : asc(col), dir === 'desc' ? desc(ms.id) : asc(ms.id))
+      .limit(q.pageSize).offset((q.page - 1) * q.pageSize),
+    db.select({ n: cachedCount() }).from(ms).where(where),
+  ])
+  const ids = pageIds.map((r) => r.id)
+  const joined = ids.length ? await db.select({ s: ms, setup: { id: laserSetups.id, code: laserSetups.code, name: laserSetups.name }, operator: { id: operators.id, name: operators.name } })
+    .from(ms).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId)).innerJoin(operators, eq(operators.id, ms.operatorId)).where(inArray(ms.id, ids)) : []
+  const byId = new Map(joined.map((r) => [r.s.id, r]))
+  const rows = ids.map((id) => byId.get(id)!)
   const codes = ids.length ? await db.select({ sessionId: sessionResults.sessionId, code: arrays.code }).from(sessionResults)
     .innerJoin(arrays, eq(arrays.id, sessionResults.arrayId)).where(inArray(sessionResults.sessionId, ids)).orderBy(asc(arrays.code)) : []
   return {

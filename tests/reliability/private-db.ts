@@ -63,7 +63,7 @@ export async function startPrivateDb(tag: string): Promise<PrivateDb> {
       child = spawn(findMariadbd(), ['--no-defaults', `--datadir=${data}`, '--user=root', `--socket=${socket}`, `--pid-file=${run}/mysqld.pid`,
         `--log-error=${run}/error.log`, `--port=${port}`, '--bind-address=127.0.0.1', '--skip-name-resolve',
         '--character-set-server=utf8mb4', '--collation-server=utf8mb4_unicode_ci', '--innodb-buffer-pool-size=64M',
-        '--innodb-log-file-size=16M', '--innodb-flush-log-at-trx-commit=2', '--max-connections=100'], { stdio: 'ignore' })
+        '--innodb-log-file-size=16M', '--innodb-flush-log-at-trx-commit=2', '--query-cache-type=DEMAND', '--query-cache-size=16M', '--max-connections=100'], { stdio: 'ignore' })
       for (let i = 0; i < 600; i++) { if (ping()) return; await sleep(100) }
       throw new Error(`private MariaDB did not start: ${fs.readFileSync(`${run}/error.log`, 'utf8').slice(-800)}`)
     },

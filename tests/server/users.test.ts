@@ -130,6 +130,7 @@ describe('people', () => {
     expect(res.status).toBe(200)
     expect(res.body.hits[0]).toMatchObject({ kind: 'person', label: 'Maren Okafor' })
     expect((await agent.get('/api/search').query({ q: '' })).status).toBe(400)
-    expect((await agent.get('/api/search').query({ q: '100%_' })).body.hits).toEqual([])
+    // LIKE wildcards typed in the box are plain characters (and no word for the notes' FULLTEXT search)
+    expect((await agent.get('/api/search').query({ q: '%_%' })).body.hits).toEqual([])
   })
 })
