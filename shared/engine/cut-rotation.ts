@@ -5,7 +5,7 @@
  * T'_{ab…} = R_ai R_bj … T_{ij…} where the rows of R are the lab axes in crystal coordinates.
  */
 import type { Mat3, Vec3 } from './linalg'
-import { cross, dot, norm, scale } from './linalg'
+import { cross, scale } from './linalg'
 import { transformTensor } from './tensor-space'
 import { EngineError } from './errors'
 
@@ -24,21 +24,10 @@ export interface CutOrientation {
  * Throws ZERO_VECTOR (`{field}.normal` / `{field}.reference`) or REFERENCE_PARALLEL_TO_NORMAL.
  */
 export function labFrame(cut: CutOrientation, field = 'crystal'): Mat3 {
-  const n = norm(cut.normal)
-  if (!(n > 1e-12))
-    throw new EngineError({ code: 'ZERO_VECTOR', field: `${field}.normal`, value: cut.normal, message: 'the normal is the zero vector' })
-  const z = scale(cut.normal, 1 / n)
-  const r = norm(cut.reference)
-  if (!(r > 1e-12))
-    throw new EngineError({ code: 'ZERO_VECTOR', field: `${field}.reference`, value: cut.reference, message: 'the reference is the zero vector' })
-  const inPlane: Vec3 = [0, 1, 2].map((i) => cut.reference[i] - dot(cut.reference, z) * z[i]) as unknown as Vec3
-  const p = norm(inPlane)
-  if (p < 1e-9 * r)
-    throw new EngineError({
-      code: 'REFERENCE_PARALLEL_TO_NORMAL', field: `${field}.reference`, value: cut.reference,
-      message: `the reference ${JSON.stringify(cut.reference)} is parallel to the normal ${JSON.stringify(cut.normal)}`,
-      hint: 'choose an in-plane direction, e.g. the wafer flat',
-    })
+  const plane = new Array<number>(6)
+  const p = cutPlane(cut, field, plane)
+  const z: Vec3 = [plane[0], plane[1], plane[2]]
+  const inPlane: Vec3 = [plane[3], plane[4], plane[5]]
   const x0 = scale(inPlane, 1 / p)
   const y0 = cross(z, x0)
   const a = ((cut.azimuthDeg ?? 0) * Math.PI) / 180
@@ -46,6 +35,51 @@ export function labFrame(cut: CutOrientation, field = 'crystal'): Mat3 {
   const x: Vec3 = [c * x0[0] + s * y0[0], c * x0[1] + s * y0[1], c * x0[2] + s * y0[2]]
   const y = cross(z, x)
   return [...x, ...y, ...z]
+}
+
+/** Throws exactly what {@link labFrame} throws for `cut`, without forming the frame (request validation). */
+export function checkCut(cut: CutOrientation, field = 'crystal'): void {
+  cutPlane(cut, field)
+}
+
+/**
+ * The checks of {@link labFrame}: unit normal z = normal/|normal| and the reference minus its
+ * component along z; returns the length of that in-plane part and, with `out`, writes z (0–2) and
+ * the in-plane part (3–5).
+ */
+function cutPlane(cut: CutOrientation, field: string, out?: number[]): number {
+  const nv = cut.normal
+  const n = Math.sqrt(nv[0] * nv[0] + nv[1] * nv[1] + nv[2] * nv[2])
+  if (!(n > 1e-12))
+    throw new EngineError({ code: 'ZERO_VECTOR', field: `${field}.normal`, value: cut.normal, message: 'the normal is the zero vector' })
+  const inv = 1 / n
+  const z0 = nv[0] * inv
+  const z1 = nv[1] * inv
+  const z2 = nv[2] * inv
+  const rv = cut.reference
+  const r = Math.sqrt(rv[0] * rv[0] + rv[1] * rv[1] + rv[2] * rv[2])
+  if (!(r > 1e-12))
+    throw new EngineError({ code: 'ZERO_VECTOR', field: `${field}.reference`, value: cut.reference, message: 'the reference is the zero vector' })
+  const along = rv[0] * z0 + rv[1] * z1 + rv[2] * z2
+  const i0 = rv[0] - along * z0
+  const i1 = rv[1] - along * z1
+  const i2 = rv[2] - along * z2
+  const p = Math.sqrt(i0 * i0 + i1 * i1 + i2 * i2)
+  if (p < 1e-9 * r)
+    throw new EngineError({
+      code: 'REFERENCE_PARALLEL_TO_NORMAL', field: `${field}.reference`, value: cut.reference,
+      message: `the reference ${JSON.stringify(cut.reference)} is parallel to the normal ${JSON.stringify(cut.normal)}`,
+      hint: 'choose an in-plane direction, e.g. the wafer flat',
+    })
+  if (out) {
+    out[0] = z0
+    out[1] = z1
+    out[2] = z2
+    out[3] = i0
+    out[4] = i1
+    out[5] = i2
+  }
+  return p
 }
 
 /** Express a crystal-frame tensor of rank `rank` in the lab frame given by {@link labFrame}. */

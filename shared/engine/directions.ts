@@ -24,7 +24,7 @@ function parseMiller(text: string): Vec3 | undefined {
 export function parseDirection(input: unknown, field: string, isCubic: boolean): Vec3 {
   let v: Vec3 | undefined
   if (Array.isArray(input)) {
-    if (input.length !== 3 || !input.every((x) => typeof x === 'number' && Number.isFinite(x)))
+    if (input.length !== 3 || !input.every(isFiniteNumber))
       throw new EngineError({
         code: 'INVALID_DIRECTION', field, value: input,
         message: `a direction must be an array of 3 finite numbers, got ${JSON.stringify(input)}`,
@@ -77,6 +77,10 @@ export function formatDirection(v: Vec3, plane = false): string {
     }
   }
   return open + v.map((x) => Number(x.toFixed(3))).join(', ') + close
+}
+
+function isFiniteNumber(x: unknown): boolean {
+  return typeof x === 'number' && Number.isFinite(x)
 }
 
 function gcd(a: number, b: number): number {

@@ -9,7 +9,7 @@ import type { NormalEmission, Multipole } from './selection-rules'
 import type { Vec3 } from './linalg'
 import { describeDMatrixEqualities } from './voigt'
 import { formatDirection } from './directions'
-import { describePump, signed } from './pump'
+import { describePump, signed, signedList } from './pump'
 import { structureGroupName } from './structure'
 
 /** Name of a cut: Miller plane for cubic crystals, X/Y/Z-cut or the Cartesian normal otherwise. */
@@ -75,27 +75,62 @@ function parityWord(p: Parity): string {
 
 /** Steps of rules 4–7 for one evaluation. */
 export function explainRules(x: ChannelExplainInput): string[] {
+  return explainRuleSteps(x, {
+    pump: describePump(x.pump),
+    structure: describeStructureStep(x.rotationOrder, x.mirrorCount, x.mirrors.map((m) => m.mirror)),
+    pumpSums: signedList(x.pumpSums),
+    q: x.q.length ? formatSymmetricSet(x.q) : '',
+    allowedM: x.allowedM.length ? signedList(x.allowedM) : 'none',
+  })
+}
+
+/**
+ * Texts of {@link explainRules} that depend on one part of the request only (pump, structure,
+ * pump sums, sample Q), so a caller may form them once and reuse them.
+ */
+export interface RuleStepTexts {
+  /** {@link describePump} of the pump. */
+  pump: string
+  /** {@link describeStructureStep} of the structure. */
+  structure: string
+  /** The pump sums as signed integers joined by `, `. */
+  pumpSums: string
+  /** {@link formatSymmetricSet} of Q, or '' when Q is empty. */
+  q: string
+  /** The allowed m as signed integers joined by `, `, or 'none'. */
+  allowedM: string
+}
+
+/** The structure step: group name, rotation order and the (distinct) mirrors, in degrees, as given. */
+export function describeStructureStep(rotationOrder: number, mirrorCount: number, mirrors: readonly number[]): string {
+  const n = rotationOrder
+  return `structure: ${structureGroupName({ rotationOrder: n, mirrors: mirrorCount > 0 ? [0] : [] })}, rotation order ${n === 0 ? '∞ (body of revolution)' : n}${mirrors.length ? `, mirrors at ${mirrors.map((m) => `${m}°`).join(', ')}` : ', no mirrors given'}`
+}
+
+/** Steps of rules 4–7 with the per-part texts already formed (see {@link RuleStepTexts}). */
+export function explainRuleSteps(x: ChannelExplainInput, texts: RuleStepTexts): string[] {
   const n = x.rotationOrder
-  const steps = [describePump(x.pump)]
-  steps.push(`structure: ${structureGroupName({ rotationOrder: n, mirrors: x.mirrorCount > 0 ? [0] : [] })}, rotation order ${n === 0 ? '∞ (body of revolution)' : n}${x.mirrors.length ? `, mirrors at ${x.mirrors.map((m) => `${m.mirror}°`).join(', ')}` : ', no mirrors given'}`)
-  const sums = x.pumpSums.map(signed).join(', ')
-  const m = x.allowedM.length ? x.allowedM.map(signed).join(', ') : 'none'
-  steps.push(`rule 4: m = (sum of ${x.order} pump projections ∈ {${sums}}) + (q ∈ {${x.q.length ? formatSymmetricSet(x.q) : ''}})${n === 0 ? '' : ` + k·${n}`} → m ∈ {${m}} for |m| ≤ ${x.window}`)
+  const steps = [texts.pump, texts.structure]
+  steps.push(`rule 4: m = (sum of ${x.order} pump projections ∈ {${texts.pumpSums}}) + (q ∈ {${texts.q}})${n === 0 ? '' : ` + k·${n}`} → m ∈ {${texts.allowedM}} for |m| ≤ ${x.window}`)
+  let hasEven = false
+  let hasOdd = false
   for (const r of x.mirrors) {
-    if (r.result !== 0) steps.push(`rule 5 at the mirror ${r.mirror}°: tensor ${parityWord(r.tensor)} × (pump ${parityWord(r.pump)})^${x.order} → the harmonic is ${parityWord(r.result)}`)
-    else if (r.tensor === 0) steps.push(`no parity rule at the mirror ${r.mirror}°: the rotated tensor is neither even nor odd under it (it is not a mirror of the cut crystal), so nothing is assumed`)
+    if (r.result !== 0) {
+      steps.push(`rule 5 at the mirror ${r.mirror}°: tensor ${parityWord(r.tensor)} × (pump ${parityWord(r.pump)})^${x.order} → the harmonic is ${parityWord(r.result)}`)
+      if (r.result === 1) hasEven = true
+      else if (r.result === -1) hasOdd = true
+    } else if (r.tensor === 0) steps.push(`no parity rule at the mirror ${r.mirror}°: the rotated tensor is neither even nor odd under it (it is not a mirror of the cut crystal), so nothing is assumed`)
     else steps.push(`no parity rule at the mirror ${r.mirror}°: the pump has no definite parity under it`)
   }
   const ne = x.normalEmission
   if (!ne.allowed) steps.push(`rule 6: neither m = +1 nor m = −1 is allowed, so no harmonic is emitted along the normal (zeroth order)`)
   else {
-    const hand = ne.handedness ? ne.m.map((v, i) => `m = ${signed(v)} ${ne.handedness![i]}`).join(', ') : `m = ${ne.m.map(signed).join(', ')}`
+    const hand = ne.handedness ? ne.m.map((v, i) => `m = ${signed(v)} ${ne.handedness![i]}`).join(', ') : `m = ${signedList(ne.m)}`
     const pol = ne.polarizationDeg !== undefined ? `; the parity rule fixes its polarisation at ${ne.polarizationDeg}°` : ''
     const sup = ne.suppressedByParity ? '; however the parity rules demand different polarisations, so this emission cancels by symmetry' : ''
     steps.push(`rule 6: emission along the normal is allowed (${hand}${pol}${sup})`)
   }
-  const signs = x.mirrors.filter((r) => r.result !== 0).map((r) => r.result)
-  const zero = !x.allowedM.includes(0) ? '' : signs.includes(1) && signs.includes(-1) ? '; m = 0 is excluded by conflicting parity rules' : signs.includes(-1) ? '; at m = 0 only magnetic multipoles (odd)' : signs.includes(1) ? '; at m = 0 only electric multipoles (even)' : ''
+  const zero = !x.allowedM.includes(0) ? '' : hasEven && hasOdd ? '; m = 0 is excluded by conflicting parity rules' : hasOdd ? '; at m = 0 only magnetic multipoles (odd)' : hasEven ? '; at m = 0 only electric multipoles (even)' : ''
   steps.push(`rule 7: ${x.multipoles.length} multipoles (E/M, 1 ≤ l ≤ ${x.lmax}, |m| ≤ l) are allowed${zero}`)
   return steps
 }

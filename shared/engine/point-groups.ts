@@ -7,6 +7,7 @@ import type { CrystalSystem } from './data/generators'
 import type { Mat3 } from './linalg'
 import { IDENTITY3, mulMat3, det3 } from './linalg'
 import { EngineError } from './errors'
+import { BoundedCache } from './bounded-cache'
 
 /** A point group with its generators and (for the 32 classes) every element. */
 export interface PointGroup {
@@ -53,6 +54,11 @@ export function closeGroup(generators: readonly Mat3[], maxOrder = 48): Mat3[] {
 
 const cache = new Map<string, PointGroup>()
 
+/** Groups by the exact spelling a caller used (`m3m`, ` Td `…), so a known spelling is not normalised again. */
+const bySpelling = new BoundedCache<string, PointGroup>(1024)
+/** Longer spellings (padding) are not remembered, so the table stays small. */
+const MAX_SPELLING = 32
+
 function build(symbol: string): PointGroup | undefined {
   const entry = POINT_GROUP_TABLE.find((e) => e.symbol === symbol)
   if (entry) {
@@ -90,6 +96,8 @@ export function normalizePointGroupSymbol(input: string): string | undefined {
  * Throws `UNKNOWN_POINT_GROUP` (field `field`) for anything else. Results are cached.
  */
 export function getPointGroup(symbol: string, field = 'pointGroup'): PointGroup {
+  const known = typeof symbol === 'string' ? bySpelling.get(symbol) : undefined
+  if (known) return known
   const canonical = typeof symbol === 'string' ? normalizePointGroupSymbol(symbol) : undefined
   if (!canonical)
     throw new EngineError({
@@ -102,5 +110,11 @@ export function getPointGroup(symbol: string, field = 'pointGroup'): PointGroup 
     group = build(canonical)!
     cache.set(canonical, group)
   }
+  if (symbol.length <= MAX_SPELLING) bySpelling.set(symbol, group)
   return group
+}
+
+/** Forget the spellings remembered by {@link getPointGroup} (tests compare cold and warm answers). */
+export function clearPointGroupSpellings(): void {
+  bySpelling.clear()
 }

@@ -110,5 +110,21 @@ export function describePump(pump: PumpSpec): string {
 
 /** Signed integer text: +2, −1, 0. */
 export function signed(n: number): string {
+  if (Number.isInteger(n) && n >= -SIGNED_SPAN && n <= SIGNED_SPAN) return SIGNED_TEXT[n + SIGNED_SPAN]
+  return formatSigned(n)
+}
+
+function formatSigned(n: number): string {
   return n > 0 ? `+${n}` : n < 0 ? `−${-n}` : '0'
+}
+
+/** Texts of the small integers, formed once (projections and m stay well inside ±SIGNED_SPAN). */
+const SIGNED_SPAN = 256
+const SIGNED_TEXT: readonly string[] = Array.from({ length: 2 * SIGNED_SPAN + 1 }, (_, i) => formatSigned(i - SIGNED_SPAN))
+
+/** Signed texts of a (dense) list joined by `, `: the same text as `values.map(signed).join(', ')`. */
+export function signedList(values: readonly number[]): string {
+  let text = ''
+  for (let i = 0; i < values.length; i++) text += i === 0 ? signed(values[i]) : `, ${signed(values[i])}`
+  return text
 }

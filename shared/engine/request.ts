@@ -11,7 +11,7 @@ import type { Vec3 } from './linalg'
 import type { PumpSpec } from './pump'
 import { getPointGroup } from './point-groups'
 import { parseDirection } from './directions'
-import { labFrame } from './cut-rotation'
+import { checkCut } from './cut-rotation'
 import { parsePump } from './pump-request'
 import { assertOrder } from './tensor-forms'
 import { readArray, readBoolean, readInteger, readNumber, readObject, readString } from './validate'
@@ -40,7 +40,7 @@ export function parseChannelRequest(input: unknown): ChannelRequest {
   const normal = parseDirection(c.normal, 'crystal.normal', group.isCubic)
   const reference = parseDirection(c.reference, 'crystal.reference', group.isCubic)
   const azimuthDeg = readNumber(c.azimuth, 'crystal.azimuth', CHANNEL_DEFAULTS.azimuthDeg)
-  labFrame({ normal, reference, azimuthDeg })
+  checkCut({ normal, reference, azimuthDeg })
   const s = readObject(r.structure, 'structure')
   const structure = {
     rotationOrder: readInteger(s.rotationOrder, 'structure.rotationOrder', 0, 360),

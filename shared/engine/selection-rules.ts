@@ -33,9 +33,60 @@ export interface AllowedMInput {
  * ascending.
  */
 export function findAllowedHarmonics(input: AllowedMInput): number[] {
-  const { order, q, rotationOrder: n, window } = input
+  return allowedFromSums(sumProjections(input.pumpProjections, input.order), input.q, input.rotationOrder, input.window)
+}
+
+/** Largest window handled with a flag table; wider (or non-integer) inputs take the general path. */
+const TABLE_WINDOW = 4096
+
+/**
+ * Rule 4 from the pump sums already formed (see {@link findAllowedHarmonics}): ascending, distinct.
+ * Integer inputs (every validated request) mark m on a flag table over [−window, window]; any other
+ * input takes the general set-and-sort path, which gives the same list.
+ */
+export function allowedFromSums(sums: readonly number[], q: readonly number[], n: number, window: number): number[] {
+  if (!(Number.isInteger(window) && window >= 0 && window <= TABLE_WINDOW && Number.isInteger(n) && n >= 0 && allIntegers(sums) && allIntegers(q)))
+    return allowedBySet(sums, q, n, window)
+  const out: number[] = []
+  if (q.length === 0 || sums.length === 0) return out
+  const flags = FLAGS
+  let count = 0
+  for (let i = 0; i < sums.length; i++)
+    for (let j = 0; j < q.length; j++) {
+      const base = sums[i] + q[j]
+      if (n === 0) {
+        if (Math.abs(base) <= window && flags[base + window] === 0) {
+          flags[base + window] = 1
+          count++
+        }
+        continue
+      }
+      const start = base - n * Math.floor((base + window) / n)
+      for (let m = start; m <= window; m += n)
+        if (m >= -window && flags[m + window] === 0) {
+          flags[m + window] = 1
+          count++
+        }
+    }
+  for (let k = 0, end = 2 * window; k <= end && out.length < count; k++)
+    if (flags[k] === 1) {
+      flags[k] = 0
+      out.push(k - window)
+    }
+  return out
+}
+
+/** Scratch flags of {@link allowedFromSums}; every flag it sets is cleared again before it returns. */
+const FLAGS = new Uint8Array(2 * TABLE_WINDOW + 1)
+
+function allIntegers(values: readonly number[]): boolean {
+  for (let i = 0; i < values.length; i++) if (!Number.isInteger(values[i])) return false
+  return true
+}
+
+function allowedBySet(sums: readonly number[], q: readonly number[], n: number, window: number): number[] {
   const allowed = new Set<number>()
-  for (const s of sumProjections(input.pumpProjections, order))
+  for (const s of sums)
     for (const dq of q) {
       const base = s + dq
       if (n === 0) {
@@ -65,7 +116,9 @@ export interface NormalEmission {
 
 /** Rule 6: normal emission iff ±1 is allowed; with a circular pump of projection `pumpM`, name the relation. */
 export function findNormalEmission(allowedM: readonly number[], pumpM?: 1 | -1): NormalEmission {
-  const m = [-1, 1].filter((x) => allowedM.includes(x))
+  const m: number[] = []
+  if (allowedM.includes(-1)) m.push(-1)
+  if (allowedM.includes(1)) m.push(1)
   const out: NormalEmission = { allowed: m.length > 0, m }
   if (pumpM !== undefined && m.length > 0) out.handedness = m.map((x) => (x === pumpM ? 'co-rotating' : 'counter-rotating'))
   return out
