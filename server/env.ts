@@ -43,6 +43,9 @@ const envSchema = z.object({
   /** Failed sign-ins allowed per e-mail and address in a 10-minute window. */
   LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(8),
   LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
+  /** Excel import: megabytes an uploaded workbook may unpack to, and data rows per sheet. */
+  IMPORT_MAX_EXPANDED_MB: z.coerce.number().positive().default(200),
+  IMPORT_MAX_ROWS: z.coerce.number().int().min(1).default(100_000),
   ...fileStorageFields,
 }).superRefine(requireS3Settings)
 

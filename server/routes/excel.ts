@@ -50,7 +50,8 @@ export function excelRoutes(ctx: AppContext): Router {
     const { dryRun } = parse(importQuery, req.query)
     await receiveUpload(req, res)
     const file = req.file ? { buffer: req.file.buffer, originalName: req.file.originalname } : undefined
-    const report = await importWorkbook(ctx.db, currentUser(req), file, dryRun)
+    const limits = { maxExpandedBytes: Math.round(ctx.env.IMPORT_MAX_EXPANDED_MB * 1024 * 1024), maxRows: ctx.env.IMPORT_MAX_ROWS }
+    const report = await importWorkbook(ctx.db, currentUser(req), file, dryRun, limits)
     // A real import that was refused (errors in the file) answers 422 with the same report.
     res.status(!dryRun && !report.imported ? 422 : dryRun ? 200 : 201).json(report)
   })

@@ -7,7 +7,7 @@ import { ConflictError } from '../errors'
 import { diffFields, writeAudit, type DbOrTx } from './audit'
 import { saveChannelSets } from './channel-sets'
 import { arrayCode, chipCode, codeNumber, nextCodeNumber, waferCode } from './codes'
-import { loadWorkbook, readImportSheets, type ReadSheet } from './excel-import-read'
+import { loadWorkbook, readImportSheets, type ImportLimits, type ReadSheet } from './excel-import-read'
 import { checkImport, type ImportPlan } from './excel-import-check'
 
 /**
@@ -27,17 +27,19 @@ function summarise(fileName: string, dryRun: boolean, sheets: ReadSheet[], fileM
     }
   })
   const sheetErrors = sheets.reduce((n, s) => n + s.messages.filter((m) => m.level === 'error').length, 0)
-  const errorCount = fileMessages.length + sheetErrors + sheetReports.reduce((n, s) => n + s.errors, 0)
+  const errorCount = fileMessages.filter((m) => m.level === 'error').length + sheetErrors + sheetReports.reduce((n, s) => n + s.errors, 0)
   return {
     dryRun, fileName, fileMessages, sheets: sheetReports, rows: plan.reports, errorCount,
     createCount: sheetReports.reduce((n, s) => n + s.create, 0), imported: false, created: null,
   }
 }
 
-/** Read, check and (unless dryRun, and only without errors) import the workbook. */
-export async function importWorkbook(db: Db, actor: User, file: { buffer: Buffer; originalName: string } | undefined, dryRun: boolean): Promise<ImportReport> {
-  const book = await loadWorkbook(file?.buffer)
-  const { sheets, fileMessages } = readImportSheets(book)
+/** Read, check and (unless dryRun, and only without errors) import the workbook; `limits` guard against hostile files. */
+export async function importWorkbook(
+  db: Db, actor: User, file: { buffer: Buffer; originalName: string } | undefined, dryRun: boolean, limits: Partial<ImportLimits> = {},
+): Promise<ImportReport> {
+  const book = await loadWorkbook(file?.buffer, limits)
+  const { sheets, fileMessages } = readImportSheets(book, limits)
   const plan = await checkImport(db, sheets)
   const report = summarise(file!.originalName, dryRun, sheets, fileMessages, plan)
   if (dryRun || report.errorCount > 0) return report

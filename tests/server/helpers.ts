@@ -11,10 +11,11 @@ import type { Role } from '../../shared/roles'
 
 /**
  * A test instance of the app on the real MariaDB that scripts/test.sh started (DATABASE_URL),
- * with its own loopback SMTP sink and a mail worker the test can tick by hand.
+ * with its own loopback SMTP sink and a mail worker the test can tick by hand. `envOverrides`
+ * replace settings of this instance only (e.g. small import limits).
  */
-export async function startTestApp() {
-  const env = loadEnv({ ...process.env, SESSION_SECRET: 'test-secret-test-secret', LOG_LEVEL: 'silent', LOGIN_MAX_FAILURES: '5' })
+export async function startTestApp(envOverrides: Record<string, string> = {}) {
+  const env = loadEnv({ ...process.env, SESSION_SECRET: 'test-secret-test-secret', LOG_LEVEL: 'silent', LOGIN_MAX_FAILURES: '5', ...envOverrides })
   const { pool, db } = createDb(env.DATABASE_URL, 5)
   const sink = await startMailSink(db, 0, () => {})
   const worker = new MailWorker(db, `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`, env.MAIL_FROM, () => {})
