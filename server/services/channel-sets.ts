@@ -36,8 +36,12 @@ function remember(key: string, channels: StoredChannel[]): void {
   if (cache.size > CACHE_MAX) cache.delete(cache.keys().next().value!)
 }
 
-/** The sets of these keys (nulls skipped); unknown keys are simply absent from the answer. */
-export async function loadChannelSets(db: Pick<Db, 'select'>, keys: (string | null | undefined)[]): Promise<Map<string, StoredChannel[]>> {
+/**
+ * The sets of these keys (nulls skipped); unknown keys are simply absent from the answer.
+ * `remember: false` for a one-off pass over every set (the export), which would otherwise fill the
+ * cache with sets nobody asks for again (~45 kB each once parsed).
+ */
+export async function loadChannelSets(db: Pick<Db, 'select'>, keys: (string | null | undefined)[], { remember: keep = true } = {}): Promise<Map<string, StoredChannel[]>> {
   const out = new Map<string, StoredChannel[]>()
   const missing: string[] = []
   for (const k of new Set(keys)) {
@@ -48,7 +52,7 @@ export async function loadChannelSets(db: Pick<Db, 'select'>, keys: (string | nu
   }
   for (let i = 0; i < missing.length; i += 200) {
     const rows = await db.select({ key: channelSets.key, channels: channelSets.channels }).from(channelSets).where(inArray(channelSets.key, missing.slice(i, i + 200)))
-    for (const r of rows) { out.set(r.key, r.channels); remember(r.key, r.channels) }
+    for (const r of rows) { out.set(r.key, r.channels); if (keep) remember(r.key, r.channels) }
   }
   return out
 }

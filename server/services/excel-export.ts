@@ -9,7 +9,7 @@ import type { User } from '../db/schema/index'
 import type { ExportJob, ExportPhase } from '../../shared/excel'
 import { ENGINE_VERSION } from '../../shared/engine'
 import { NotFoundError, ConflictError } from '../errors'
-import { addStyledSheet } from './excel-style'
+import { addStyledSheet, rememberPlainStyles } from './excel-style'
 import { writeArrays, writeChips, writeLocations, writeMaterials, writeSessions, writeWafers, type SheetContext } from './excel-export-sheets'
 
 /**
@@ -71,6 +71,7 @@ async function run(db: Db, actor: User, job: Job) {
     job.total = await countRows(db)
     await fs.mkdir(path.dirname(job.file), { recursive: true })
     const book = new ExcelJS.stream.xlsx.WorkbookWriter({ filename: job.file, useStyles: true, useSharedStrings: false })
+    rememberPlainStyles(book)
     book.creator = actor.name
     book.created = new Date()
     set('About')

@@ -52,3 +52,30 @@ export const dateOnly = (s: string | null | undefined): Date | null => (s ? new 
 
 /** A vector as the text the importer reads back: "0 0 1". */
 export const vectorText = (v: readonly number[] | null | undefined) => (v ? v.join(' ') : '')
+
+type StyleModel = Partial<ExcelJS.Style> | undefined
+interface StyleRegistry { addStyleModel(model: StyleModel, cellType?: number): number }
+
+/**
+ * Speed up style lookups of a streaming WorkbookWriter (`useStyles: true`); the styles written stay
+ * the same. exceljs gives every new cell a fresh style object copied from its column, and registers
+ * it by rendering it to XML and looking the text up, unless it has seen that very object before,
+ * which it never has: that lookup was a third of a large export's time. A cell whose style is
+ * "plain" (at most a number format, as every data cell of an export is) gets a style id that
+ * depends on nothing but that format and the cell's value type, so remember the id per (format,
+ * type) after the first lookup. Any other style (fonts, fills, …) goes through exceljs unchanged.
+ */
+export function rememberPlainStyles(book: object): void {
+  const registry = (book as { styles?: Partial<StyleRegistry> }).styles
+  const lookup = registry?.addStyleModel
+  if (!registry || typeof lookup !== 'function') return
+  const ids = new Map<string, number>()
+  registry.addStyleModel = function (model: StyleModel, cellType?: number): number {
+    if (!model) return lookup.call(this, model, cellType)
+    for (const k in model) if (k !== 'numFmt') return lookup.call(this, model, cellType)
+    const key = `${model.numFmt ?? ''}\u0000${cellType ?? ''}`
+    let id = ids.get(key)
+    if (id === undefined) ids.set(key, (id = lookup.call(this, model, cellType)))
+    return id
+  }
+}

@@ -1,5 +1,5 @@
 import { ENGINE_VERSION, type ChannelResponse, type PumpSpec } from '../../shared/engine'
-import { arraySymmetry, channelsForArray } from './array-channels'
+import { arraySymmetry, channelsForArray, type CrystalInputs, type SymmetryInputs } from './array-channels'
 import { eq, inArray } from 'drizzle-orm'
 import { arrays, chips, materials, wafers } from '../db/schema/index'
 import type { Db } from '../db/client'
@@ -23,9 +23,13 @@ export interface ArrayContext {
   pointGroup: string; cutNormal: [number, number, number]; flatDirection: [number, number, number]
 }
 
+function predictionInputs(a: ArrayContext) {
+  return { ...a.geometry, chipRotationDeg: a.chipRotationDeg, pointGroup: a.pointGroup, cutNormal: a.cutNormal, flatDirection: a.flatDirection }
+}
+
 /** Engine channels for this session's pump and harmonic order on one array (same path as the stored channels). */
 export function predictForArray(a: ArrayContext, pump: PumpSpec, order: number): ChannelResponse {
-  const x = { ...a.geometry, chipRotationDeg: a.chipRotationDeg, pointGroup: a.pointGroup, cutNormal: a.cutNormal, flatDirection: a.flatDirection }
+  const x = predictionInputs(a)
   return channelsForArray(x, arraySymmetry(x), pump, order)
 }
 
@@ -75,25 +79,69 @@ export type Reader = Pick<Db, 'select'>
 
 export async function loadArrayContexts(db: Reader, ids: number[]): Promise<Map<number, ArrayContext & { retiredAt: Date | null }>> {
   if (!ids.length) return new Map()
-  const rows = await db.select({ a: arrays, rotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup })
+  // Only the columns a prediction reads: the session pages and the export load thousands of these.
+  const rows = await db.select({
+    id: arrays.id, code: arrays.code, retiredAt: arrays.retiredAt,
+    g: { shape: arrays.shape, shapeAzimuthDeg: arrays.shapeAzimuthDeg, lattice: arrays.lattice, azimuthDeg: arrays.azimuthDeg, customRotationOrder: arrays.customRotationOrder, customMirrors: arrays.customMirrors },
+    rotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup,
+  })
     .from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).innerJoin(wafers, eq(wafers.id, chips.waferId))
     .innerJoin(materials, eq(materials.id, wafers.materialId)).where(inArray(arrays.id, ids))
-  return new Map(rows.map((r) => [r.a.id, {
-    id: r.a.id, code: r.a.code, retiredAt: r.a.retiredAt, chipRotationDeg: r.rotationDeg, pointGroup: r.pointGroup,
-    cutNormal: r.cutNormal, flatDirection: r.flatDirection, geometry: r.a,
+  return new Map(rows.map((r) => [r.id, {
+    id: r.id, code: r.code, retiredAt: r.retiredAt, chipRotationDeg: r.rotationDeg, pointGroup: r.pointGroup,
+    cutNormal: r.cutNormal, flatDirection: r.flatDirection, geometry: r.g,
   }]))
+}
+
+type Prediction = { predicted: ChannelResponse } | { error: string }
+
+function predictOrError(ctx: ArrayContext, pump: PumpSpec, order: number): Prediction {
+  try {
+    return { predicted: predictForArray(ctx, pump, order) }
+  } catch (err) {
+    return { error: (err as Error).message }
+  }
+}
+
+function compareWith(p: Prediction, ctx: ArrayContext, observed: Observed, pump: PumpSpec): { predicted: ChannelResponse; flags: string[] } {
+  let message: string
+  if ('predicted' in p) {
+    try {
+      return { predicted: p.predicted, flags: compareObserved(p.predicted, observed, pump) }
+    } catch (err) { message = (err as Error).message }
+  } else message = p.error
+  const predicted: ChannelResponse = {
+    q: [], m: [], parity: [], normalEmission: { allowed: false, m: [] }, multipoles: [], explain: [message], engineVersion: ENGINE_VERSION, qWeights: [],
+  }
+  return { predicted, flags: [`No prediction for ${ctx.code}: ${message}`] }
 }
 
 /** Prediction and flags for one observed result; an engine failure becomes a flag, never a 500 on a saved record. */
 export function compareResult(ctx: ArrayContext, observed: Observed, pump: PumpSpec, order: number): { predicted: ChannelResponse; flags: string[] } {
-  try {
-    const predicted = predictForArray(ctx, pump, order)
-    return { predicted, flags: compareObserved(predicted, observed, pump) }
-  } catch (err) {
-    const message = (err as Error).message
-    const predicted: ChannelResponse = {
-      q: [], m: [], parity: [], normalEmission: { allowed: false, m: [] }, multipoles: [], explain: [message], engineVersion: ENGINE_VERSION, qWeights: [],
-    }
-    return { predicted, flags: [`No prediction for ${ctx.code}: ${message}`] }
+  return compareWith(predictOrError(ctx, pump, order), ctx, observed, pump)
+}
+
+/** Every input of predictForArray (the compile-time check below fails if one is added to array-channels and not listed here). */
+const PREDICTION_INPUTS = ['pointGroup', 'cutNormal', 'flatDirection', 'chipRotationDeg', 'shape', 'shapeAzimuthDeg', 'lattice', 'azimuthDeg',
+  'customRotationOrder', 'customMirrors'] as const
+type Unlisted = Exclude<keyof (SymmetryInputs & CrystalInputs), (typeof PREDICTION_INPUTS)[number]>
+const allInputsListed: [Unlisted] extends [never] ? true : Unlisted = true
+void allInputsListed
+
+/**
+ * compareResult for a pass over many results (the inventory export): the engine's prediction is
+ * remembered per (prediction inputs, pump, order) for the life of the returned function. A lab
+ * measures a few designs on a few wafers, so thousands of results share a few hundred
+ * predictions. Answers exactly as compareResult (predictions are pure; the shared `predicted`
+ * objects must not be changed by the caller).
+ */
+export function rememberingCompare(): typeof compareResult {
+  const memo = new Map<string, Prediction>()
+  return (ctx, observed, pump, order) => {
+    const x = predictionInputs(ctx)
+    const key = JSON.stringify([PREDICTION_INPUTS.map((k) => x[k]), pump, order])
+    let p = memo.get(key)
+    if (!p) memo.set(key, (p = predictOrError(ctx, pump, order)))
+    return compareWith(p, ctx, observed, pump)
   }
 }
