@@ -1,11 +1,9 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest'
 import { crc32, deflateRawSync, inflateRawSync } from 'node:zlib'
 import ExcelJS from 'exceljs'
-import { sql } from 'drizzle-orm'
 import type TestAgent from 'supertest/lib/agent'
-import { startTestApp, signedInAs } from './helpers'
 import { makeChip, makeMaterial, uid } from './inventory-helpers'
-import { toBuffer, upload } from './excel-helpers'
+import { startImportTestApp, toBuffer, upload, workbookOf } from './excel-helpers'
 import { loadWorkbook, readImportSheets } from '../../server/services/excel-import-read'
 import { readZipDirectory } from '../../server/services/zip-guard'
 import type { AppError } from '../../server/errors'
@@ -20,29 +18,13 @@ import type { ImportReport } from '../../shared/excel'
 const LIMIT_MB = 4
 const LIMIT_ROWS = 50
 
-let t: Awaited<ReturnType<typeof startTestApp>>
-let lead: TestAgent, fab: TestAgent, leadId = 0
+let t: Awaited<ReturnType<typeof startImportTestApp>>['t']
+let lead: TestAgent, fab: TestAgent
+let counts: Awaited<ReturnType<typeof startImportTestApp>>['counts']
 beforeAll(async () => {
-  t = await startTestApp({ IMPORT_MAX_EXPANDED_MB: String(LIMIT_MB), IMPORT_MAX_ROWS: String(LIMIT_ROWS) })
-  lead = await signedInAs(t.app, 'group_lead')
-  fab = await signedInAs(t.app, 'fab_technician')
-  const me = (await lead.get('/api/auth/me')).body
-  leadId = me.user?.id ?? me.id
+  ({ t, lead, fab, counts } = await startImportTestApp({ IMPORT_MAX_EXPANDED_MB: String(LIMIT_MB), IMPORT_MAX_ROWS: String(LIMIT_ROWS) }))
 })
 afterAll(async () => { await t.stop() })
-
-/** Rows of the record tables and the group lead's audit rows on them (see excel-import.test.ts). */
-async function counts() {
-  const [rows] = (await t.db.execute(sql`SELECT (SELECT count(*) FROM wafers) w, (SELECT count(*) FROM chips) c, (SELECT count(*) FROM arrays) a,
-    (SELECT count(*) FROM audit_log WHERE user_id = ${leadId} AND entity IN ('wafer', 'chip', 'array')) l`)) as unknown as [Record<string, number>[]]
-  return rows[0]
-}
-
-async function workbook(sheets: Record<string, (ExcelJS.CellValue | object)[][]>, state: Record<string, ExcelJS.WorksheetState> = {}): Promise<ExcelJS.Workbook> {
-  const book = new ExcelJS.Workbook()
-  for (const [name, rows] of Object.entries(sheets)) book.addWorksheet(name, { state: state[name] ?? 'visible' }).addRows(rows as ExcelJS.CellValue[][])
-  return book
-}
 
 // ---------- a small ZIP reader/writer, to take exceljs output apart and pack it (with lies) again ----------
 interface Part { name: string; data: Buffer; declaredSize?: number }
@@ -121,7 +103,7 @@ async function refusal(buf: Buffer, limits = {}): Promise<string | null> {
 }
 
 async function waferBook(materialName: string, lot = `LOT-${uid()}`) {
-  return workbook({ Wafers: [['Ref', 'Material', 'Cut normal', 'Flat direction', 'Diameter (mm)', 'Thickness (µm)', 'Lot'], ['W1', materialName, '0 0 1', '1 -1 0', 50.8, 350, lot]] })
+  return workbookOf({ Wafers: [['Ref', 'Material', 'Cut normal', 'Flat direction', 'Diameter (mm)', 'Thickness (µm)', 'Lot'], ['W1', materialName, '0 0 1', '1 -1 0', 50.8, 350, lot]] })
 }
 
 describe('Excel import: ZIP bombs and damaged packages (reader)', () => {
@@ -151,10 +133,10 @@ describe('Excel import: ZIP bombs and damaged packages (reader)', () => {
 
   it('rows over the limit: the sheet is refused with a clear message; formatted and blank rows do not count', async () => {
     const rows = (n: number) => Array.from({ length: n }, (_, i) => ['W-0001', i + 1, 5, 5])
-    const over = readImportSheets(await workbook({ Chips: [['Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ...rows(4)] }), { maxRows: 3 })
+    const over = readImportSheets(workbookOf({ Chips: [['Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ...rows(4)] }), { maxRows: 3 })
     expect(over.sheets[1].messages).toEqual([{ column: null, message: 'The sheet has 4 rows; at most 3 can be imported at once: split the file', level: 'error' }])
     expect(over.sheets[1].rows).toEqual([])
-    const book = await workbook({ Chips: [['Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ...rows(3), ['', '  ', null, null], ['', '', '', '']] })
+    const book = workbookOf({ Chips: [['Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ...rows(3), ['', '  ', null, null], ['', '', '', '']] })
     const ws = book.getWorksheet('Chips')!
     for (let r = 10; r < 200; r++) ws.getRow(r).getCell(2).fill = { type: 'pattern', pattern: 'solid', fgColor: { argb: 'FFFFFF00' } }
     const within = readImportSheets(await loadWorkbook(await toBuffer(book)), { maxRows: 3 })
@@ -188,7 +170,7 @@ describe('Excel import: hostile workbooks through the API', () => {
   it('a sheet with more rows than allowed is refused with the sheet-level message; nothing is written', async () => {
     const { wafer } = await makeChip(fab)
     const rows = Array.from({ length: LIMIT_ROWS + 1 }, () => [wafer.code, 5, 5])
-    const bytes = await toBuffer(await workbook({ Chips: [['Wafer', 'Width (mm)', 'Height (mm)'], ...rows] }))
+    const bytes = await toBuffer(workbookOf({ Chips: [['Wafer', 'Width (mm)', 'Height (mm)'], ...rows] }))
     const before = await counts()
     const res = await upload(lead, bytes, false)
     expect(res.status).toBe(422)
@@ -204,7 +186,7 @@ describe('Excel import: hostile workbooks through the API', () => {
     const { wafer } = await makeChip(fab)
     const head = ['Ref', 'Material', 'Cut normal', 'Flat direction', 'Diameter (mm)', 'Thickness (µm)', 'Lot', 'Supplier', 'Received on', 'Notes', 'Status']
     const ok = (ref: string) => [ref, material.name, '0 0 1', '1 -1 0', 50.8, 350, lot]
-    const book = await workbook({
+    const book = workbookOf({
       Wafers: [head,
         ['W1', { formula: 'Lists!A2', result: material.name }, '0 0 1', '1 -1 0', { formula: '25.4*2', result: 50.8 }, { formula: 'E2*7', result: 350 },
           { text: lot, hyperlink: 'https://lots.example/1' }, { richText: [{ text: 'Norrvik ' }, { font: { bold: true }, text: 'Supply' }] },
@@ -250,7 +232,7 @@ describe('Excel import: hostile workbooks through the API', () => {
     expect(r.rows.filter((x) => x.status === 'error')).toHaveLength(13)
 
     // Only the good rows: they import, and the stored values are the saved results and plain texts.
-    const good = await workbook({ Wafers: book.getWorksheet('Wafers')!.getRows(1, 2)!.map((row) => (row.values as ExcelJS.CellValue[]).slice(1)), Chips: [['Ref', 'Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ['K1', 'W1', 1, 5, 5]] })
+    const good = workbookOf({ Wafers: book.getWorksheet('Wafers')!.getRows(1, 2)!.map((row) => (row.values as ExcelJS.CellValue[]).slice(1)), Chips: [['Ref', 'Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ['K1', 'W1', 1, 5, 5]] })
     const real = await upload(lead, await toBuffer(good), false)
     expect(real.status, JSON.stringify(real.body)).toBe(201)
     const made = (await lead.get(`/api/wafers/${real.body.created.wafers[0].id}`)).body
@@ -259,7 +241,7 @@ describe('Excel import: hostile workbooks through the API', () => {
 
   it('10 000 formatted but empty rows after the data: only the data rows are read and imported', async () => {
     const { wafer } = await makeChip(fab)
-    const book = await workbook({ Chips: [['Wafer', 'Width (mm)', 'Height (mm)', 'Notes'], [wafer.code, 5, 5, 'a'], [wafer.code, 6, 6, 'b']] })
+    const book = workbookOf({ Chips: [['Wafer', 'Width (mm)', 'Height (mm)', 'Notes'], [wafer.code, 5, 5, 'a'], [wafer.code, 6, 6, 'b']] })
     const ws = book.getWorksheet('Chips')!
     for (let r = 4; r < 10_004; r++) {
       const row = ws.getRow(r)
@@ -277,7 +259,7 @@ describe('Excel import: hostile workbooks through the API', () => {
   it('extra sheets and hidden sheets are not read, with a warning; the visible sheets import', async () => {
     const material = await makeMaterial(fab)
     const { wafer } = await makeChip(fab)
-    const book = await workbook({
+    const book = workbookOf({
       'Read me': [['Filled in by hand, 2019']],
       Wafers: [['Ref', 'Material', 'Cut normal', 'Flat direction', 'Diameter (mm)', 'Thickness (µm)', 'Lot'], ['W1', material.name, '0 0 1', '1 -1 0', 50.8, 350, 'L']],
       Chips: [['Wafer', 'Width (mm)', 'Height (mm)'], [wafer.code, 5, 5]],
@@ -295,7 +277,7 @@ describe('Excel import: hostile workbooks through the API', () => {
     expect(r.sheets.map((s) => s.isPresent)).toEqual([false, true, false])
     const after = await counts()
     expect([after.w - before.w, after.c - before.c]).toEqual([0, 1])
-    const onlyHidden = (await upload(lead, await toBuffer(await workbook({ Wafers: [['Ref']] }, { Wafers: 'hidden' })), true)).body as ImportReport
+    const onlyHidden = (await upload(lead, await toBuffer(workbookOf({ Wafers: [['Ref']] }, { Wafers: 'hidden' })), true)).body as ImportReport
     expect(onlyHidden.fileMessages.map((m) => m.level)).toEqual(['warning', 'error'])
     expect(onlyHidden.fileMessages[1].message).toMatch(/no sheet named Wafers, Chips or Arrays \(it has: Wafers \(hidden\)\)/)
   })

@@ -2,38 +2,20 @@ import { describe, it, expect, beforeAll, afterAll } from 'vitest'
 import ExcelJS from 'exceljs'
 import { sql } from 'drizzle-orm'
 import type TestAgent from 'supertest/lib/agent'
-import { startTestApp, signedInAs } from './helpers'
 import { disk, makeChip, makeMaterial, uid } from './inventory-helpers'
-import { binary, runExport, toBuffer, upload } from './excel-helpers'
+import { binary, runExport, startImportTestApp, toBuffer, upload, workbookOf } from './excel-helpers'
 import type { ImportReport } from '../../shared/excel'
 
-let t: Awaited<ReturnType<typeof startTestApp>>
+let t: Awaited<ReturnType<typeof startImportTestApp>>['t']
 let lead: TestAgent, fab: TestAgent, leadId = 0
+let counts: Awaited<ReturnType<typeof startImportTestApp>>['counts']
 beforeAll(async () => {
-  t = await startTestApp()
-  lead = await signedInAs(t.app, 'group_lead')
-  fab = await signedInAs(t.app, 'fab_technician')
-  const me = (await lead.get('/api/auth/me')).body
-  leadId = me.user?.id ?? me.id
+  ({ t, lead, fab, leadId, counts } = await startImportTestApp())
 })
 afterAll(async () => { await t.stop() })
 
-/**
- * Rows of the record tables, and the group lead's audit rows on them: a refused import must leave
- * them all unchanged (the shared DB sees other people's activity, hence the audit filter).
- */
-async function counts() {
-  const [rows] = (await t.db.execute(sql`SELECT (SELECT count(*) FROM wafers) w, (SELECT count(*) FROM chips) c, (SELECT count(*) FROM arrays) a,
-    (SELECT count(*) FROM audit_log WHERE user_id = ${leadId} AND entity IN ('wafer', 'chip', 'array')) l`)) as unknown as [Record<string, number>[]]
-  return rows[0]
-}
-
-/** A workbook of the given sheets: header row, then rows (values by header). */
-async function workbook(sheets: Record<string, (string | number | Date | null | object)[][]>): Promise<Buffer> {
-  const book = new ExcelJS.Workbook()
-  for (const [name, rows] of Object.entries(sheets)) book.addWorksheet(name).addRows(rows as ExcelJS.CellValue[][])
-  return toBuffer(book)
-}
+/** A workbook of the given sheets as .xlsx bytes: header row, then rows. */
+const workbook = (sheets: Parameters<typeof workbookOf>[0]) => toBuffer(workbookOf(sheets))
 
 /** Keep only the rows of one sheet whose cell in column `col` (1-based) passes `keep`; copy values only. */
 function copySheet(from: ExcelJS.Worksheet, to: ExcelJS.Workbook, keep: (row: ExcelJS.Row) => boolean) {
