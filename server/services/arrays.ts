@@ -9,7 +9,7 @@ import { ConflictError, fieldError } from '../errors'
 import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './codes'
 import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
 import { loadChannelSets, saveChannelSets } from './channel-sets'
-import { cachedCount, codePrefixes, fulltextQuery, idCondition, textHitIds } from './text-search'
+import { cachedCount, idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
 type Row = typeof arrays.$inferSelect
@@ -55,10 +55,7 @@ const SORTS = { code: arrays.code, position: arrays.position, shape: arrays.shap
 export type ArrayListQuery = ListQuery & { chipId?: number; shape?: string; lattice?: string; stale?: boolean }
 
 /** Arrays whose code starts with the typed code (chip codes find their arrays) or whose notes have the words. */
-async function arrayTextHits(db: Db, text: string): Promise<number[] | null> {
-  const ft = await fulltextQuery(db, text)
-  return textHitIds(db, 'arrays', 'code', codePrefixes(text, 'A'), ft ? { columns: ['notes'], query: ft } : null)
-}
+const ARRAY_TEXT: TextTarget = { table: 'arrays', letter: 'A', wordColumns: ['notes'] }
 
 /** Arrays filtered by chip, shape, lattice, staleness and text (code, notes), sorted and paged in SQL. */
 export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayRow>> {
@@ -69,7 +66,7 @@ export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayR
     q.shape ? eq(arrays.shape, q.shape) : undefined,
     q.lattice ? eq(arrays.lattice, q.lattice) : undefined,
     q.stale === true ? staleSql : q.stale === false ? sql`NOT ${staleSql}` : undefined,
-    q.q ? idCondition(arrays.id, await arrayTextHits(db, q.q), or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q)))) : undefined,
+    q.q ? idCondition(arrays.id, await textHitIds(db, ARRAY_TEXT, q.q), or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q)))) : undefined,
   )
   // Two steps so the page is cut from `arrays` alone (its indexes), not from a join over every row:
   // first the ids of the page, then the joined rows of just those ids, kept in page order.

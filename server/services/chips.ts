@@ -13,7 +13,7 @@ import { markArraysStale } from './materials'
 import { cutLabel } from './wafers'
 import { listArraysOfChip } from './arrays'
 import { listFabSteps } from './fab-steps'
-import { cachedCount, codePrefixes, fulltextQuery, idCondition, textHitIds } from './text-search'
+import { cachedCount, idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Parsed update; `notes` undefined = leave as is (the route drops it when the body omits it). */
 type ChipUpdate = Omit<z.infer<typeof chipUpdateSchema>, 'notes'> & { notes?: string | null }
@@ -43,10 +43,9 @@ function toChip(r: Joined, refs: Awaited<ReturnType<typeof locationRefs>>): Chip
 const SORTS = { code: chips.code, status: chips.status, rotationDeg: chips.rotationDeg, createdAt: chips.createdAt, wafer: wafers.code }
 
 /** Chips whose code starts with the typed code (wafer codes find their chips), whose notes have the words, or whose wafer's lot contains the text. */
-async function chipTextHits(db: Db, text: string): Promise<number[] | null> {
-  const ft = await fulltextQuery(db, text)
-  const lot = sql`SELECT c.id FROM chips c JOIN wafers w ON w.id = c.wafer_id WHERE w.lot LIKE ${likePattern(text)}`
-  return textHitIds(db, 'chips', 'code', codePrefixes(text, 'C'), ft ? { columns: ['notes'], query: ft } : null, [lot])
+const CHIP_TEXT: TextTarget = {
+  table: 'chips', letter: 'C', wordColumns: ['notes'],
+  extra: (text) => [sql`SELECT c.id FROM chips c JOIN wafers w ON w.id = c.wafer_id WHERE w.lot LIKE ${likePattern(text)}`],
 }
 
 /** Chips filtered by wafer (`parentId`), status and text (code, notes, wafer lot), paged in SQL. */
@@ -55,7 +54,7 @@ export async function listChips(db: Db, q: ListQuery): Promise<Page<Chip>> {
   const where = and(
     q.parentId ? eq(chips.waferId, q.parentId) : undefined,
     q.status ? sql`${chips.status} = ${q.status}` : q.includeRetired ? undefined : sql`${chips.status} <> 'retired'`,
-    q.q ? idCondition(chips.id, await chipTextHits(db, q.q), or(like(chips.code, likePattern(q.q)), like(chips.notes, likePattern(q.q)), lotOf(q.q))) : undefined,
+    q.q ? idCondition(chips.id, await textHitIds(db, CHIP_TEXT, q.q), or(like(chips.code, likePattern(q.q)), like(chips.notes, likePattern(q.q)), lotOf(q.q))) : undefined,
   )
   // The page is cut from `chips` alone (its indexes; the wafer only when sorting by wafer code),
   // then the joined rows of just those ids are read, kept in page order.

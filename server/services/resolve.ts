@@ -1,4 +1,4 @@
-import { eq, like, or, desc, sql } from 'drizzle-orm'
+import { eq, like, or, desc } from 'drizzle-orm'
 import { wafers, chips, arrays, locations, materials, measurementSessions, laserSetups } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { ResolvedCode } from '../../shared/records'
@@ -7,7 +7,7 @@ import { NotFoundError } from '../errors'
 import { likePattern } from './codes'
 import { cutLabel } from './wafers'
 import { locationRefs } from './locations'
-import { codePrefixes, fulltextQuery, prefixPattern } from './text-search'
+import { codePrefixes, fulltextQuery, matchWords, prefixPattern } from './text-search'
 
 /**
  * Codes → records: `resolveCode` answers a scanned or typed code (any case, or a resolver URL
@@ -70,12 +70,12 @@ export async function searchRecords(db: Db, q: string, perKind = 8): Promise<Sea
   const [ws, cs, as, ls, ms, ss, lss, refs] = await Promise.all([
     db.select({ w: wafers, m: materials.name, pg: materials.pointGroup }).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId))
       .where(or(like(wafers.code, prefix), like(wafers.lot, any), like(wafers.supplier, any), like(wafers.notes, any), like(materials.name, any))).orderBy(wafers.code).limit(perKind),
-    byCodeOrWords(codePrefixes(q, 'C', false), ft, perKind, (w) => db.select().from(chips).where(w === 'ft' ? sql`MATCH(notes) AGAINST (${ft} IN BOOLEAN MODE)` : like(chips.code, prefixPattern(w))).orderBy(chips.code).limit(perKind), (r) => r.code),
-    byCodeOrWords(codePrefixes(q, 'A', false), ft, perKind, (w) => db.select().from(arrays).where(w === 'ft' ? sql`MATCH(notes) AGAINST (${ft} IN BOOLEAN MODE)` : like(arrays.code, prefixPattern(w))).orderBy(arrays.code).limit(perKind), (r) => r.code),
+    byCodeOrWords(codePrefixes(q, 'C', false), ft, perKind, (w) => db.select().from(chips).where(w === 'ft' ? matchWords(['notes'], ft!) : like(chips.code, prefixPattern(w))).orderBy(chips.code).limit(perKind), (r) => r.code),
+    byCodeOrWords(codePrefixes(q, 'A', false), ft, perKind, (w) => db.select().from(arrays).where(w === 'ft' ? matchWords(['notes'], ft!) : like(arrays.code, prefixPattern(w))).orderBy(arrays.code).limit(perKind), (r) => r.code),
     db.select().from(locations).where(or(like(locations.code, prefix), like(locations.name, any))).orderBy(locations.code).limit(perKind),
     db.select().from(materials).where(or(like(materials.name, any), like(materials.formula, any))).orderBy(materials.name).limit(perKind),
     byCodeOrWords(codePrefixes(q, 'S', false), ft, perKind, (w) => db.select().from(measurementSessions)
-      .where(w === 'ft' ? sql`MATCH(notes, detector) AGAINST (${ft} IN BOOLEAN MODE)` : like(measurementSessions.code, prefixPattern(w)))
+      .where(w === 'ft' ? matchWords(['notes', 'detector'], ft!) : like(measurementSessions.code, prefixPattern(w)))
       .orderBy(desc(measurementSessions.performedAt)).limit(perKind), (r) => r.performedAt.toISOString(), 'desc'),
     db.select().from(laserSetups).where(or(like(laserSetups.code, prefix), like(laserSetups.name, any))).orderBy(laserSetups.code).limit(perKind),
     locationRefs(db),

@@ -10,7 +10,8 @@ import { requireValidSignoff } from './signoffs'
 import { nextCode, withCodeRetry } from './laser-setups'
 import { compareResult, deriveEfficiency, loadArrayContexts, type Reader } from './session-compare'
 import { NotFoundError, fieldError } from '../errors'
-import { cachedCount, codePrefixes, fulltextQuery, idCondition, prefixPattern, textHitIds } from './text-search'
+import { cachedCount, codePrefixes, idCondition, prefixPattern, textHitIds, type TextTarget } from './text-search'
+import { likePattern } from './codes'
 
 /**
  * Measurement sessions: one session (pump, detection) on one or more arrays, with the observed
@@ -137,10 +138,9 @@ const SORTABLE = { performedAt: ms.performedAt, code: ms.code, wavelengthNm: ms.
 const dayEnd = (s: string) => (/^\d{4}-\d{2}-\d{2}$/.test(s) ? new Date(Date.parse(s) + DAY_MS) : new Date(Date.parse(s) + 1))
 
 /** Sessions whose code starts with the text, whose notes or detector have its words, or that measured an array whose code starts with it. */
-async function sessionTextHits(db: Db, text: string): Promise<number[] | null> {
-  const ft = await fulltextQuery(db, text)
-  const onArrays = codePrefixes(text, 'A').map((p) => sql`SELECT sr.session_id AS id FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE a.code LIKE ${prefixPattern(p)}`)
-  return textHitIds(db, 'measurement_sessions', 'code', codePrefixes(text, 'S'), ft ? { columns: ['notes', 'detector'], query: ft } : null, onArrays)
+const SESSION_TEXT: TextTarget = {
+  table: 'measurement_sessions', letter: 'S', wordColumns: ['notes', 'detector'],
+  extra: (text) => codePrefixes(text, 'A').map((p) => sql`SELECT sr.session_id AS id FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE a.code LIKE ${prefixPattern(p)}`),
 }
 
 async function listWhere(db: Db, q: SessionListQuery): Promise<SQL | undefined> {
@@ -152,8 +152,8 @@ async function listWhere(db: Db, q: SessionListQuery): Promise<SQL | undefined> 
   if (q.from) w.push(gte(ms.performedAt, new Date(q.from)))
   if (q.to) w.push(lt(ms.performedAt, dayEnd(q.to)))
   if (q.q) {
-    const p = `%${q.q.replace(/[\\%_]/g, (c) => '\\' + c)}%`
-    w.push(idCondition(ms.id, await sessionTextHits(db, q.q), or(like(ms.code, p), like(ms.notes, p), like(ms.detector, p), inResults(sql`a.code LIKE ${p}`)))!)
+    const p = likePattern(q.q)
+    w.push(idCondition(ms.id, await textHitIds(db, SESSION_TEXT, q.q), or(like(ms.code, p), like(ms.notes, p), like(ms.detector, p), inResults(sql`a.code LIKE ${p}`)))!)
   }
   return w.length ? and(...w) : undefined
 }

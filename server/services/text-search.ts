@@ -1,4 +1,4 @@
-import { sql, type SQL } from 'drizzle-orm'
+import { inArray, sql, type Column, type SQL } from 'drizzle-orm'
 import type { Db } from '../db/client'
 
 /**
@@ -62,21 +62,29 @@ export const MAX_TEXT_HITS = 20_000
 export const cachedCount = () => sql<number>`SQL_CACHE count(*)`
 
 /** The search-box condition of a big list: the ids of `textHitIds`, or `fallback` when there are too many. */
-export function idCondition(id: MySqlColumnLike, ids: number[] | null, fallback: SQL | undefined): SQL | undefined {
-  if (ids === null) return fallback
-  return ids.length ? sql`${id} IN (${sql.join(ids.map((i) => sql`${i}`), sql`, `)})` : sql`FALSE`
+export function idCondition(id: Column, ids: number[] | null, fallback: SQL | undefined): SQL | undefined {
+  return ids === null ? fallback : inArray(id, ids)
 }
-type MySqlColumnLike = SQL | import('drizzle-orm').Column
+
+/** `MATCH(columns) AGAINST (words IN BOOLEAN MODE)`; the columns must be exactly those of one FULLTEXT index. */
+export function matchWords(columns: string[], words: string): SQL {
+  return sql`MATCH(${sql.join(columns.map((c) => sql.identifier(c)), sql`, `)}) AGAINST (${words} IN BOOLEAN MODE)`
+}
+
+/** Where the search box of one big list looks: the table, its code letter, its FULLTEXT columns, and extra id queries. */
+export interface TextTarget { table: string; letter: 'A' | 'C' | 'S'; wordColumns: string[]; extra?: (text: string) => SQL[] }
 
 /**
- * Ids of the rows of `table` whose code starts with one of `prefixes` or whose text matches `ft`:
- * each branch an index lookup, joined with UNION. Answers null when there are more than
- * MAX_TEXT_HITS (the caller then filters without the id list).
+ * Ids of the rows of `target.table` whose code starts with one of the code prefixes of `text`, whose
+ * FULLTEXT columns have its words, or that an extra query finds: each branch an index lookup,
+ * joined with UNION. Answers null when there are more than MAX_TEXT_HITS (the caller then
+ * filters without the id list).
  */
-export async function textHitIds(db: Pick<Db, 'execute'>, table: string, codeColumn: string, prefixes: string[], ft: { columns: string[]; query: string } | null, extra: SQL[] = []): Promise<number[] | null> {
-  const branches: SQL[] = prefixes.map((p) => sql`SELECT id FROM ${sql.identifier(table)} WHERE ${sql.identifier(codeColumn)} LIKE ${prefixPattern(p)}`)
-  if (ft) branches.push(sql`SELECT id FROM ${sql.identifier(table)} WHERE MATCH(${sql.join(ft.columns.map((c) => sql.identifier(c)), sql`, `)}) AGAINST (${ft.query} IN BOOLEAN MODE)`)
-  branches.push(...extra)
+export async function textHitIds(db: Pick<Db, 'execute'>, target: TextTarget, text: string): Promise<number[] | null> {
+  const words = await fulltextQuery(db, text)
+  const branches: SQL[] = codePrefixes(text, target.letter).map((p) => sql`SELECT id FROM ${sql.identifier(target.table)} WHERE code LIKE ${prefixPattern(p)}`)
+  if (words) branches.push(sql`SELECT id FROM ${sql.identifier(target.table)} WHERE ${matchWords(target.wordColumns, words)}`)
+  branches.push(...(target.extra?.(text) ?? []))
   if (!branches.length) return []
   const [rows] = (await db.execute(sql`${sql.join(branches, sql` UNION `)} LIMIT ${MAX_TEXT_HITS + 1}`)) as unknown as [{ id: number }[]]
   return rows.length > MAX_TEXT_HITS ? null : rows.map((r) => Number(r.id))
