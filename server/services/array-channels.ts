@@ -6,6 +6,7 @@ import {
 import type { StoredChannel } from '../../shared/records'
 import { BadRequestError } from '../errors'
 import { keyChannels } from './channel-sets'
+import { BoundedCache } from '../../shared/engine/bounded-cache'
 
 /**
  * Derived data of an array: its structure symmetry and the harmonic channels for the standard pumps
@@ -108,14 +109,9 @@ export function deriveChannels(x: ChannelInputs): DerivedChannels {
   // An import or a recompute derives the same design on the same wafer many times: remember the
   // last results by input hash (the hash covers every input and the engine version).
   const hash = channelsInputHash(x)
-  const hit = derivedCache.get(hash)
-  if (hit) return hit
-  const d = deriveUncached(x, hash)
-  derivedCache.set(hash, d)
-  if (derivedCache.size > 2000) derivedCache.delete(derivedCache.keys().next().value!)
-  return d
+  return derivedCache.get(hash) ?? derivedCache.set(hash, deriveUncached(x, hash))
 }
-const derivedCache = new Map<string, DerivedChannels>()
+const derivedCache = new BoundedCache<string, DerivedChannels>(2000)
 
 function deriveUncached(x: ChannelInputs, hash: string): DerivedChannels {
   const symmetry = arraySymmetry(x)

@@ -5,6 +5,7 @@ import type { StoredChannel } from '../../shared/records'
 import { ENGINE_VERSION } from '../../shared/engine'
 import type { DbOrTx } from './audit'
 import type { Db } from '../db/client'
+import { BoundedCache } from '../../shared/engine/bounded-cache'
 
 /**
  * Content-addressed channel sets. An array stores only the key (SHA-256 of the channels' JSON):
@@ -25,16 +26,10 @@ export async function saveChannelSets(db: DbOrTx, sets: KeyedChannels[]): Promis
     await db.insert(channelSets).ignore()
       .values(distinct.slice(i, i + 100).map((s) => ({ key: s.key, channels: s.channels, engineVersion: ENGINE_VERSION })))
   }
-  for (const s of distinct) remember(s.key, s.channels)
+  for (const s of distinct) cache.set(s.key, s.channels)
 }
 
-const CACHE_MAX = 500
-const cache = new Map<string, StoredChannel[]>()
-function remember(key: string, channels: StoredChannel[]): void {
-  cache.delete(key)
-  cache.set(key, channels)
-  if (cache.size > CACHE_MAX) cache.delete(cache.keys().next().value!)
-}
+const cache = new BoundedCache<string, StoredChannel[]>(500)
 
 /**
  * The sets of these keys (nulls skipped); unknown keys are simply absent from the answer.
@@ -52,7 +47,7 @@ export async function loadChannelSets(db: Pick<Db, 'select'>, keys: (string | nu
   }
   for (let i = 0; i < missing.length; i += 200) {
     const rows = await db.select({ key: channelSets.key, channels: channelSets.channels }).from(channelSets).where(inArray(channelSets.key, missing.slice(i, i + 200)))
-    for (const r of rows) { out.set(r.key, r.channels); if (keep) remember(r.key, r.channels) }
+    for (const r of rows) { out.set(r.key, r.channels); if (keep) cache.set(r.key, r.channels) }
   }
   return out
 }

@@ -22,7 +22,6 @@ export interface ImportLimits {
   maxRows: number
 }
 export const IMPORT_LIMITS: ImportLimits = { maxExpandedBytes: ZIP_LIMITS.maxBytes, maxParts: ZIP_LIMITS.maxEntries, maxRows: 100_000 }
-export const MAX_ROWS = IMPORT_LIMITS.maxRows
 const NOT_XLSX = 'This is not an Excel .xlsx file'
 
 export type CellOut = string | number | null
