@@ -78,17 +78,24 @@ async function cases(pool: mysql.Pool): Promise<Case[]> {
   ]
 }
 
-export interface ApiBenchOptions { baseUrl: string; databaseUrl: string; email: string; password: string; seconds?: number; connections?: number; log?: (m: string) => void }
+export interface ApiBenchOptions { baseUrl: string; databaseUrl: string; email: string; password: string; seconds?: number; connections?: number; only?: string; log?: (m: string) => void }
 
 export async function runApiBench(o: ApiBenchOptions): Promise<BenchRow[]> {
   const seconds = o.seconds ?? 5, connections = o.connections ?? 16, log = o.log ?? (() => {})
   const pool = mysql.createPool({ uri: o.databaseUrl, connectionLimit: connections, timezone: 'Z', supportBigNumbers: true })
+  // Capture every statement a route's service sends through the pool (Drizzle's and plainRows' alike).
   const captured: Captured = []
-  const db = drizzle({ client: pool, schema, mode: 'planetscale', logger: { logQuery: (text, params) => { captured.push([text, params]) } } }) as unknown as Db
+  const capturing = Object.create(pool) as mysql.Pool
+  capturing.query = ((q: string | { sql: string }, params?: unknown[]) => {
+    captured.push([typeof q === 'string' ? q : q.sql, params ?? []])
+    return pool.query(q as string, params)
+  }) as typeof pool.query
+  const db = drizzle({ client: capturing, schema, mode: 'planetscale' }) as unknown as Db
   const cookie = await signIn(o.baseUrl, o.email, o.password)
   const rows: BenchRow[] = []
   try {
-    for (const c of await cases(pool)) {
+    const only = o.only?.toLowerCase()
+    for (const c of (await cases(pool)).filter((x) => !only || x.name.toLowerCase().includes(only))) {
       captured.length = 0
       await c.run(db)
       const queries = [...captured]

@@ -4,6 +4,7 @@
  *   BENCH_BASE_URL  the running server (API suite)      DATABASE_URL  its database (API bare SQL, export)
  *   BENCH_CLIENT_DIR  the built client (bundle sizes)   BENCH_EMAIL / BENCH_PASSWORD  a demo admin
  *   BENCH_SEED_JSON   the large seed's result line      BENCH_SECONDS  autocannon duration per route (5)
+ *   BENCH_ONLY  run only the API cases whose name contains this text (and no other suite)
  * Without them only the engine suite runs (`npx tsx bench/index.ts`). Each bench module returns rows
  * { name, value, unit, target?, better?, note? }; ONE table is printed, with the ratio to each target.
  */
@@ -54,12 +55,12 @@ async function main() {
     const seed = JSON.parse(env.BENCH_SEED_JSON) as { seconds: number; counts: Record<string, number> }
     sections.push({ title: 'seed', rows: [{ name: 'large seed (batched multi-row INSERTs)', value: seed.seconds, unit: 's', target: 60, better: 'lower', note: Object.entries(seed.counts).map(([k, v]) => `${v} ${k}`).join(', ') }] })
   }
-  await add('engine', () => runEngineBench())
+  if (!env.BENCH_ONLY) await add('engine', () => runEngineBench())
   if (env.BENCH_BASE_URL && env.DATABASE_URL) {
     await add('API, concurrency 16, autocannon on loopback', () => runApiBench({
-      baseUrl: env.BENCH_BASE_URL!, databaseUrl: env.DATABASE_URL!, email: env.BENCH_EMAIL!, password: env.BENCH_PASSWORD!, seconds: Number(env.BENCH_SECONDS ?? 5), log,
+      baseUrl: env.BENCH_BASE_URL!, databaseUrl: env.DATABASE_URL!, email: env.BENCH_EMAIL!, password: env.BENCH_PASSWORD!, seconds: Number(env.BENCH_SECONDS ?? 5), only: env.BENCH_ONLY, log,
     }))
-    await add('Excel export (own process)', () => {
+    if (!env.BENCH_ONLY) await add('Excel export (own process)', () => {
       const child = spawnSync(process.execPath, ['--expose-gc', '--import', 'tsx', path.join(here, 'export.ts')], { env, encoding: 'utf8', timeout: 30 * 60_000, maxBuffer: 1 << 20 })
       if (child.status !== 0) throw new Error(`export child exited ${child.status}: ${child.stderr.slice(-400)}`)
       const f = JSON.parse(child.stdout.trim().split('\n').pop()!) as ExportFigures
@@ -67,7 +68,7 @@ async function main() {
       return exportRows(f, seed)
     })
   }
-  if (env.BENCH_CLIENT_DIR) await add('client bundle (gzip)', () => runClientSizeBench(env.BENCH_CLIENT_DIR!))
+  if (env.BENCH_CLIENT_DIR && !env.BENCH_ONLY) await add('client bundle (gzip)', () => runClientSizeBench(env.BENCH_CLIENT_DIR!))
   printTable(sections)
 }
 

@@ -7,6 +7,7 @@ import fs from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import type { AppContext } from './context'
 import { configurePassport } from './auth/passport'
+import { rememberSessionReads, type CallbackStore } from './auth/signed-in-cache'
 import { requestId } from './middleware/request-id'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
@@ -59,6 +60,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
 
   const store = new MySQLStore({ createDatabaseTable: false, clearExpired: true, checkExpirationInterval: 15 * 60 * 1000 }, ctx.pool as never)
   throttleTouch(store as unknown as TouchingStore)
+  rememberSessionReads(store as unknown as CallbackStore)
   const pp = configurePassport(ctx.db)
 
   app.use(helmet({

@@ -9,6 +9,7 @@ import { ConflictError, fieldError } from '../errors'
 import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './codes'
 import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
 import { loadChannelSets, saveChannelSets } from './channel-sets'
+import { plainRows } from '../db/plain-rows'
 import { cachedCount, idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
@@ -44,12 +45,39 @@ function toArrayRow(r: Joined): ArrayRow {
   }
 }
 
+type ListJoined = Omit<Row, 'channelSetKey' | 'channelsInputHash'> & { chipCode: string; chipRotationDeg: number; isStale: number }
+/** A list row from LIST_COLUMNS; the symmetry's order and mirrors come from the (memoised) engine. */
+function toListRow(r: ListJoined): ArrayRow {
+  let symmetry: ArrayRecord['symmetry'] = { name: r.symmetryName ?? '?', rotationOrder: 1, mirrors: [] }
+  try {
+    const s = arraySymmetry({ ...r, chipRotationDeg: r.chipRotationDeg })
+    symmetry = { name: r.symmetryName ?? '?', rotationOrder: s.rotationOrder, mirrors: s.mirrors }
+  } catch { /* shown as stored */ }
+  return {
+    id: r.id, code: r.code, chip: { id: r.chipId, code: r.chipCode }, position: r.position, shape: r.shape, dimensionsNm: r.dimensionsNm,
+    shapeAzimuthDeg: r.shapeAzimuthDeg, lattice: r.lattice, periodXNm: r.periodXNm, periodYNm: r.periodYNm, azimuthDeg: r.azimuthDeg,
+    count: r.count, customRotationOrder: r.customRotationOrder, customMirrors: r.customMirrors, symmetry,
+    engineVersion: r.engineVersion, channelsComputedAt: iso(r.channelsComputedAt), isStale: Number(r.isStale) === 1, notes: r.notes,
+    retiredAt: iso(r.retiredAt), createdAt: r.createdAt.toISOString(), updatedAt: r.updatedAt.toISOString(),
+  }
+}
+
 function toArrayRecord(r: Joined, sets: Map<string, StoredChannel[]>): ArrayRecord {
   return { ...toArrayRow(r), channels: (r.a.channelSetKey && sets.get(r.a.channelSetKey)) || [] }
 }
 
 /** Stale in SQL: another engine version, or an input hash cleared when the wafer/chip/material changed. */
 const staleSql = sql`(${arrays.engineVersion} IS NULL OR ${arrays.engineVersion} <> ${ENGINE_VERSION} OR ${arrays.channelsInputHash} IS NULL)`
+/** The columns of a list row: no channel key or input hash, staleness decided in SQL (as the `stale` filter and the export do). */
+const LIST_COLUMNS = {
+  id: arrays.id, code: arrays.code, chipId: arrays.chipId, chipCode: chips.code, chipRotationDeg: chips.rotationDeg, position: arrays.position,
+  shape: arrays.shape, dimensionsNm: arrays.dimensionsNm, shapeAzimuthDeg: arrays.shapeAzimuthDeg, lattice: arrays.lattice,
+  periodXNm: arrays.periodXNm, periodYNm: arrays.periodYNm, azimuthDeg: arrays.azimuthDeg, count: arrays.count,
+  customRotationOrder: arrays.customRotationOrder, customMirrors: arrays.customMirrors, symmetryName: arrays.symmetryName,
+  engineVersion: arrays.engineVersion, channelsComputedAt: arrays.channelsComputedAt, isStale: sql<number>`${staleSql}`, notes: arrays.notes,
+  retiredAt: arrays.retiredAt, createdAt: arrays.createdAt, updatedAt: arrays.updatedAt,
+}
+
 const SORTS = { code: arrays.code, position: arrays.position, shape: arrays.shape, lattice: arrays.lattice, createdAt: arrays.createdAt, periodXNm: arrays.periodXNm }
 
 export type ArrayListQuery = ListQuery & { chipId?: number; shape?: string; lattice?: string; stale?: boolean }
@@ -68,18 +96,17 @@ export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayR
     q.stale === true ? staleSql : q.stale === false ? sql`NOT ${staleSql}` : undefined,
     q.q ? idCondition(arrays.id, await textHitIds(db, ARRAY_TEXT, q.q), or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q)))) : undefined,
   )
-  // Two steps so the page is cut from `arrays` alone (its indexes), not from a join over every row:
-  // first the ids of the page, then the joined rows of just those ids, kept in page order.
-  const [pageIds, [{ n }]] = await Promise.all([
-    // Ties broken by id in the same direction, so a (filter…, sort column) index is read backwards, not filesorted.
-    db.select({ id: arrays.id }).from(arrays).where(where)
-      .orderBy(orderBy(SORTS, q.sort, q.dir, 'code'), q.dir === 'desc' ? desc(arrays.id) : asc(arrays.id)).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
-    db.select({ n: cachedCount() }).from(arrays).where(where),
+  // The page is cut from `arrays` alone (its indexes) in a derived table, and only its rows are
+  // joined to chip, wafer and material: one round trip, no join over every matching row.
+  // Ties are broken by id in the same direction, so a (filter…, sort column) index is read backwards, not filesorted.
+  // (Inside the derived table `arrays` names its own FROM, outside the joined row: one ORDER BY serves both.)
+  const order = [orderBy(SORTS, q.sort, q.dir, 'code'), q.dir === 'desc' ? desc(arrays.id) : asc(arrays.id)]
+  const page = db.select({ id: arrays.id }).from(arrays).where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize).as('page')
+  const [rows, [{ n }]] = await Promise.all([
+    plainRows(db, LIST_COLUMNS, (f) => db.select(f).from(page).innerJoin(arrays, eq(arrays.id, page.id)).innerJoin(chips, eq(chips.id, arrays.chipId)).orderBy(...order), { cache: true }),
+    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(arrays).where(where)),
   ])
-  const ids = pageIds.map((r) => r.id)
-  const rows = ids.length ? await selectArrays(db).where(inArray(arrays.id, ids)) : []
-  const byId = new Map(rows.map((r) => [r.a.id, r]))
-  return { rows: ids.map((id) => toArrayRow(byId.get(id)!)), total: Number(n), page: q.page, pageSize: q.pageSize }
+  return { rows: rows.map(toListRow), total: Number(n), page: q.page, pageSize: q.pageSize }
 }
 
 export async function listArraysOfChip(db: Db, chipId: number): Promise<ArrayRow[]> {
