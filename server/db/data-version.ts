@@ -1,0 +1,117 @@
+import type { Pool, PoolConnection } from 'mysql2/promise'
+
+/**
+ * The data version: a counter in MariaDB (table data_version, one row) that goes up after every
+ * committed write the app makes, whichever app server makes it. A response cache (server/middleware/
+ * response-cache.ts) keeps a GET answer under the version it read BEFORE reading the data, and
+ * serves it again only while the version is unchanged. Why that is never stale:
+ * - a write bumps the version only after it has committed (a transaction: right after COMMIT, on
+ *   the same connection; a single statement: right after it), and the writer's own request waits
+ *   for the bump before it answers, so whoever sees the old version cannot yet depend on the write;
+ * - a cached answer was read after its version was read, so it holds every write bumped before.
+ * A server that dies between a commit and its bump leaves answers cached elsewhere up to the cache's
+ * time limit (RESPONSE_CACHE_TTL_MS). Writes made outside the app (hand-written SQL) are not counted
+ * either: restart the app or wait for that limit.
+ *
+ * Writes to tables no cached answer reads (the session store, the sign-in throttle) do not count,
+ * or every sign-in and session refresh would empty every cache.
+ */
+const UNCOUNTED_TABLES = new Set(['sessions', 'throttle_hits', 'data_version'])
+
+const BUMP = 'UPDATE `data_version` SET `n` = `n` + 1 WHERE `id` = 1'
+const READ = 'SELECT SQL_CACHE `n` FROM `data_version` WHERE `id` = 1'
+
+type Kind = 'read' | 'write' | 'begin' | 'end' | 'commit'
+
+/**
+ * What a statement does to the data version: reads, writes (with the table), or controls a
+ * transaction. `params` fill a `??` table placeholder (the session store writes `INSERT INTO ??`).
+ */
+export function statementKind(text: string, params?: unknown): Kind {
+  const m = /^\s*(?:\/\*.*?\*\/\s*)*([a-z]+)(?:\s+(?:ignore\s+|low_priority\s+|into\s+|from\s+)*`?(\?\?|[\w$]+)`?)?/i.exec(text)
+  const table = m?.[2] === '??' && Array.isArray(params) ? String(params[0]) : (m?.[2] ?? '')
+  const verb = (m?.[1] ?? '').toLowerCase()
+  switch (verb) {
+    case 'select': case 'show': case 'explain': case 'describe': case 'set': case 'with': case 'do': case 'help': case 'savepoint': case 'release':
+      return 'read'
+    case 'begin': case 'start':
+      return 'begin'
+    case 'commit':
+      return 'commit'
+    case 'rollback':
+      return /^\s*rollback\s+to\b/i.test(text) ? 'read' : 'end'
+    case 'insert': case 'update': case 'delete': case 'replace':
+      return UNCOUNTED_TABLES.has(table.toLowerCase()) ? 'read' : 'write'
+    default:
+      return 'write' // DDL, LOAD DATA, CALL, anything unknown: count it
+  }
+}
+
+const textOf = (q: unknown) => (typeof q === 'string' ? q : ((q as { sql?: string })?.sql ?? ''))
+
+async function bump(on: Pick<Pool, 'query'>): Promise<void> {
+  try {
+    await on.query(BUMP)
+  } catch (e) {
+    // Before migration 0010 (migrate.ts itself, old test databases) there is nothing to count in.
+    if ((e as { errno?: number }).errno !== 1146) throw e
+  }
+}
+
+const WATCHED = Symbol('data-version watched')
+type Watchable = { query: (...a: never[]) => Promise<unknown>; execute: (...a: never[]) => Promise<unknown>; [WATCHED]?: true }
+
+/** A connection taken from the pool (a transaction): count its writes at COMMIT, forget them at ROLLBACK. */
+function watchConnection(conn: PoolConnection): PoolConnection {
+  const c = conn as unknown as Watchable
+  if (c[WATCHED]) return conn
+  c[WATCHED] = true
+  let inTx = false, wrote = false
+  for (const method of ['query', 'execute'] as const) {
+    const original = c[method].bind(conn) as (...a: unknown[]) => Promise<unknown>
+    ;(c as unknown as Record<string, unknown>)[method] = async (...args: unknown[]) => {
+      const kind = statementKind(textOf(args[0]), args[1])
+      const result = await original(...args)
+      if (kind === 'begin') { inTx = true; wrote = false } else if (kind === 'end') { inTx = false; wrote = false } else if (kind === 'commit') {
+        const counted = wrote
+        inTx = false; wrote = false
+        if (counted) await bump(conn)
+      } else if (kind === 'write') {
+        if (inTx) wrote = true
+        else await bump(conn)
+      }
+      return result
+    }
+  }
+  return conn
+}
+
+/** Make every write through `pool` (single statements and transactions) bump the data version once it has committed. */
+export function countWrites(pool: Pool): Pool {
+  const p = pool as unknown as Watchable & { getConnection: () => Promise<PoolConnection> }
+  if (p[WATCHED]) return pool
+  p[WATCHED] = true
+  for (const method of ['query', 'execute'] as const) {
+    const original = p[method].bind(pool) as (...a: unknown[]) => Promise<unknown>
+    ;(p as unknown as Record<string, unknown>)[method] = async (...args: unknown[]) => {
+      const result = await original(...args)
+      // A lone statement on the pool runs in autocommit mode: it has committed when it answers.
+      if (statementKind(textOf(args[0]), args[1]) === 'write') await bump(pool)
+      return result
+    }
+  }
+  const getConnection = p.getConnection.bind(pool)
+  p.getConnection = async () => watchConnection(await getConnection())
+  return pool
+}
+
+/** The current data version (usually an answer from MariaDB's query cache); null before migration 0010. */
+export async function readDataVersion(pool: Pick<Pool, 'query'>): Promise<number | null> {
+  try {
+    const [rows] = (await pool.query(READ)) as unknown as [{ n: number | string }[]]
+    return rows[0] ? Number(rows[0].n) : null
+  } catch (e) {
+    if ((e as { errno?: number }).errno === 1146) return null
+    throw e
+  }
+}

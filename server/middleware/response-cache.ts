@@ -1,0 +1,61 @@
+import type { RequestHandler } from 'express'
+import { createHash } from 'node:crypto'
+import { LRUCache } from 'lru-cache'
+import type { AppContext } from '../context'
+import { readDataVersion } from '../db/data-version'
+
+/**
+ * Response cache for read-heavy GET routes (the big lists, the global search, an array's page):
+ * a JSON answer is kept per person and URL under the data version read BEFORE the route read its
+ * data, and sent again while the version is unchanged. Any committed write through any app server
+ * bumps the version (server/db/data-version.ts), so an answer is never older than the newest write
+ * a request could know of. Each hit still asks MariaDB for the version (one primary-key row,
+ * usually from its query cache).
+ *
+ * `X-Response-Cache: hit | miss | bypass` says what happened. A request with `Cache-Control:
+ * no-cache` (a hard reload, or the bench's uncached runs) skips the cache. Only 200 answers are
+ * kept. Per person, because what a person may read depends on their roles.
+ */
+/** The answer as sent (bytes) with its weak ETag (computed once, in the form Express gives its own). */
+interface Entry { version: number; body: Buffer; etag: string }
+
+const weakEtag = (body: Buffer) => `W/"${body.length.toString(16)}-${createHash('sha1').update(body).digest('base64').slice(0, 27)}"`
+
+const caches = new WeakMap<AppContext, LRUCache<string, Entry> | null>()
+
+function cacheOf(ctx: AppContext): LRUCache<string, Entry> | null {
+  if (!caches.has(ctx)) {
+    const mb = ctx.env.RESPONSE_CACHE_MB
+    caches.set(ctx, mb > 0 ? new LRUCache<string, Entry>({ maxSize: mb * 1024 * 1024, sizeCalculation: (e) => e.body.length + 128, ttl: ctx.env.RESPONSE_CACHE_TTL_MS }) : null)
+  }
+  return caches.get(ctx)!
+}
+
+export const CACHE_HEADER = 'X-Response-Cache'
+
+/** Put after the route's permission check: `r.get('/arrays', requireAbility(…), cachedJson(ctx), handler)`. */
+export function cachedJson(ctx: AppContext): RequestHandler {
+  return (req, res, next) => {
+    const cache = cacheOf(ctx)
+    if (!cache || /no-cache|no-store/i.test(req.get('cache-control') ?? '')) { res.set(CACHE_HEADER, 'bypass'); return next() }
+    const key = `${(req.user as { id?: number } | undefined)?.id ?? 0}|${req.originalUrl}`
+    readDataVersion(ctx.pool).then((version) => {
+      if (version === null) { res.set(CACHE_HEADER, 'bypass'); return next() }
+      const hit = cache.get(key)
+      if (hit && hit.version === version) {
+        res.set(CACHE_HEADER, 'hit').set('ETag', hit.etag).type('json').send(hit.body)
+        return
+      }
+      res.set(CACHE_HEADER, 'miss')
+      const json = res.json.bind(res)
+      res.json = (body: unknown) => {
+        if (res.statusCode !== 200) return json(body)
+        const bytes = Buffer.from(JSON.stringify(body))
+        const etag = weakEtag(bytes)
+        cache.set(key, { version, body: bytes, etag })
+        return res.set('ETag', etag).type('json').send(bytes)
+      }
+      next()
+    }, next)
+  }
+}

@@ -1,0 +1,177 @@
+import { describe, it, expect, beforeAll, afterAll } from 'vitest'
+import request from 'supertest'
+import type TestAgent from 'supertest/lib/agent'
+import { startTestApp, signedInAs } from './helpers'
+import { disk, makeChip, uid } from './inventory-helpers'
+import { readDataVersion, statementKind } from '../../server/db/data-version'
+import { rememberSessionReads } from '../../server/auth/signed-in-cache'
+import { plainRows } from '../../server/db/plain-rows'
+import { arrays, chips } from '../../server/db/schema/index'
+import { eq, sql } from 'drizzle-orm'
+
+/**
+ * The response cache (server/middleware/response-cache.ts) and the data version behind it
+ * (server/db/data-version.ts): a cached answer must never hide a committed write, on this app
+ * server or on another one sharing the database.
+ */
+let a: Awaited<ReturnType<typeof startTestApp>>
+let b: Awaited<ReturnType<typeof startTestApp>>
+let fabA: TestAgent, fabB: TestAgent
+beforeAll(async () => {
+  a = await startTestApp(); b = await startTestApp()
+  fabA = await signedInAs(a.app, 'fab_technician'); fabB = await signedInAs(b.app, 'fab_technician')
+})
+afterAll(async () => { await a.stop(); await b.stop() })
+
+const cacheOf = (res: request.Response) => res.headers['x-response-cache']
+
+describe('statements and the data version', () => {
+  it('sorts statements into reads, counted writes and transaction control', () => {
+    expect(statementKind('select * from `arrays`')).toBe('read')
+    expect(statementKind('  SELECT id FROM chips FOR UPDATE')).toBe('read')
+    expect(statementKind('insert into `arrays` (`code`) values (?)')).toBe('write')
+    expect(statementKind('INSERT IGNORE INTO audit_log VALUES (1)')).toBe('write')
+    expect(statementKind('update `chips` set `status` = ?')).toBe('write')
+    expect(statementKind('delete from `files` where id = 1')).toBe('write')
+    expect(statementKind('CREATE TABLE x (id int)')).toBe('write')
+    expect(statementKind('/* note */ update `wafers` set notes = 1')).toBe('write')
+    // the session store and the sign-in throttle are not data any cached answer shows
+    expect(statementKind('INSERT INTO ?? (??, ??, ??) VALUES (?, ?, ?)', ['sessions', 'session_id', 'expires', 'data'])).toBe('read')
+    expect(statementKind('UPDATE ?? SET ?? = ? WHERE ?? = ?', ['sessions'])).toBe('read')
+    expect(statementKind('INSERT INTO ?? (??) VALUES (?)', ['chips'])).toBe('write')
+    expect(statementKind('insert into `throttle_hits` values (1)')).toBe('read')
+    expect(statementKind('begin')).toBe('begin')
+    expect(statementKind('START TRANSACTION')).toBe('begin')
+    expect(statementKind('commit')).toBe('commit')
+    expect(statementKind('rollback')).toBe('end')
+    expect(statementKind('rollback to savepoint sp1')).toBe('read')
+    expect(statementKind('savepoint sp1')).toBe('read')
+  })
+
+  it('goes up after a lone write, once at the commit of a transaction, and not for a rollback', async () => {
+    const v0 = (await readDataVersion(a.pool))!
+    expect(v0).toBeGreaterThanOrEqual(0)
+    await a.db.update(arrays).set({ notes: sql`${arrays.notes}` }).where(eq(arrays.id, -1))
+    const v1 = (await readDataVersion(a.pool))!
+    expect(v1).toBe(v0 + 1)
+
+    let inside = -1
+    await a.db.transaction(async (tx) => {
+      await tx.update(arrays).set({ notes: sql`${arrays.notes}` }).where(eq(arrays.id, -1))
+      await tx.update(chips).set({ notes: sql`${chips.notes}` }).where(eq(chips.id, -1))
+      inside = (await readDataVersion(b.pool))! // another server, before the commit
+    })
+    expect(inside).toBe(v1)
+    expect(await readDataVersion(b.pool)).toBe(v1 + 1)
+
+    await expect(a.db.transaction(async (tx) => {
+      await tx.update(arrays).set({ notes: sql`${arrays.notes}` }).where(eq(arrays.id, -1))
+      throw new Error('changed my mind')
+    })).rejects.toThrow('changed my mind')
+    expect(await readDataVersion(a.pool)).toBe(v1 + 1)
+  })
+})
+
+describe('response cache', () => {
+  it('answers a repeated list from the cache, with the same body and ETag', async () => {
+    const url = '/api/arrays?page=1&pageSize=5&sort=code&dir=desc'
+    const first = await fabA.get(url)
+    const second = await fabA.get(url)
+    expect(first.status).toBe(200)
+    expect([cacheOf(first), cacheOf(second)]).toEqual(['miss', 'hit'])
+    expect(second.text).toBe(first.text)
+    expect(second.headers.etag).toBe(first.headers.etag)
+    expect(second.headers['content-type']).toMatch(/^application\/json/)
+    expect((await fabA.get(url).set('If-None-Match', first.headers.etag)).status).toBe(304)
+  })
+
+  it('never hides a write made through another app server', async () => {
+    const { chip } = await makeChip(fabA)
+    const url = `/api/arrays?chipId=${chip.id}`
+    expect((await fabB.get(url)).body.rows).toHaveLength(0)
+    expect(cacheOf(await fabB.get(url))).toBe('hit')
+    // written through server A; server B must show it on the very next request
+    const created = await fabA.post('/api/arrays').send({ ...disk(chip.id, 'B2'), notes: `cache ${uid()}` })
+    expect(created.status).toBe(201)
+    const after = await fabB.get(url)
+    expect(cacheOf(after)).toBe('miss')
+    expect(after.body.rows.map((r: { id: number }) => r.id)).toEqual([created.body.id])
+    // and an edit through A is seen by B's cached detail page
+    const detail = `/api/arrays/${created.body.id}`
+    await fabB.get(detail)
+    expect(cacheOf(await fabB.get(detail))).toBe('hit')
+    const notes = `edited ${uid()}`
+    expect((await fabA.patch(detail).send({ ...disk(chip.id, 'B2'), notes })).status).toBe(200)
+    expect((await fabB.get(detail)).body.notes).toBe(notes)
+  })
+
+  it('keeps answers per person, skips on Cache-Control: no-cache, and keeps no error answers', async () => {
+    const url = '/api/chips?page=1&pageSize=3'
+    await fabA.get(url)
+    expect(cacheOf(await fabA.get(url))).toBe('hit')
+    const lead = await signedInAs(a.app, 'group_lead')
+    expect(cacheOf(await lead.get(url))).toBe('miss')
+    expect(cacheOf(await fabA.get(url).set('Cache-Control', 'no-cache'))).toBe('bypass')
+    const bad = '/api/arrays?shape=not-a-shape'
+    expect((await fabA.get(bad)).status).toBe(400)
+    const again = await fabA.get(bad)
+    expect(again.status).toBe(400)
+    expect(cacheOf(again)).toBe('miss')
+    // nobody signed in: refused before the cache is asked
+    expect((await request(a.app).get(url)).status).toBe(401)
+  })
+
+  it('can be turned off (RESPONSE_CACHE_MB=0)', async () => {
+    const off = await startTestApp({ RESPONSE_CACHE_MB: '0' })
+    try {
+      const fab = await signedInAs(off.app, 'fab_technician')
+      await fab.get('/api/wafers')
+      expect(cacheOf(await fab.get('/api/wafers'))).toBe('bypass')
+    } finally { await off.stop() }
+  })
+})
+
+describe('signed-in cache', () => {
+  it('reads a session once per moment, hands out copies, and forgets what this server wrote or destroyed', () => {
+    const rows = new Map<string, string>([['s1', JSON.stringify({ passport: { user: 7 } })]])
+    let reads = 0
+    const store = {
+      get: (sid: string, cb: (e?: unknown, v?: unknown) => void) => { reads++; const r = rows.get(sid); cb(undefined, r ? JSON.parse(r) : null) },
+      set: (sid: string, data: unknown, cb?: (e?: unknown) => void) => { rows.set(sid, JSON.stringify(data)); cb?.() },
+      destroy: (sid: string, cb?: (e?: unknown) => void) => { rows.delete(sid); cb?.() },
+    }
+    rememberSessionReads(store, 60_000)
+    const got: Record<string, unknown>[] = []
+    store.get('s1', (_e, v) => got.push(v as Record<string, unknown>))
+    store.get('s1', (_e, v) => got.push(v as Record<string, unknown>))
+    expect(reads).toBe(1)
+    expect(got[1]).toEqual(got[0])
+    got[0].passport = { user: 99 } // a request changing its copy must not change the next request's
+    store.get('s1', (_e, v) => expect(v).toEqual({ passport: { user: 7 } }))
+    store.set('s1', { passport: { user: 8 } })
+    store.get('s1', (_e, v) => expect(v).toEqual({ passport: { user: 8 } }))
+    store.destroy('s1')
+    store.get('s1', (_e, v) => expect(v).toBeNull())
+    expect(reads).toBe(2)
+    store.get('missing', () => {})
+    store.get('missing', () => {})
+    expect(reads).toBe(4) // a miss is never remembered
+  })
+})
+
+describe('plainRows', () => {
+  it('gives keyed rows like Drizzle: JSON decoded, dates as Date, same-named columns of two tables apart', async () => {
+    const { chip } = await makeChip(fabA)
+    const made = await fabA.post('/api/arrays').send(disk(chip.id, 'C3'))
+    expect(made.status).toBe(201)
+    const fields = { id: arrays.id, code: arrays.code, chipCode: chips.code, dims: arrays.dimensionsNm, mirrors: arrays.customMirrors, createdAt: arrays.createdAt, one: sql<number>`1` }
+    const build = (f: Record<keyof typeof fields, unknown>) => a.db.select(f as typeof fields).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).where(eq(arrays.id, made.body.id))
+    const [plain] = await plainRows(a.db, fields, build as never)
+    const [drizzled] = await a.db.select(fields).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).where(eq(arrays.id, made.body.id))
+    expect(plain.code).toBe(made.body.code)
+    expect(plain.chipCode).toBe(chip.code)
+    expect(plain.dims).toEqual(made.body.dimensionsNm)
+    expect(plain.createdAt).toBeInstanceOf(Date)
+    expect({ ...plain, one: Number(plain.one) }).toEqual({ ...drizzled, one: Number(drizzled.one) })
+  })
+})
