@@ -115,3 +115,24 @@ export async function readDataVersion(pool: Pick<Pool, 'query'>): Promise<number
     throw e
   }
 }
+
+/**
+ * `readDataVersion` for many concurrent callers with fewer queries: a caller never gets the answer
+ * of a read that was sent before it asked (it could predate a write the caller knows of); it waits
+ * for the next read instead, which is sent as soon as the one in flight answers and serves every
+ * caller that arrived meanwhile. Under load one query answers a whole batch of requests.
+ */
+export function sharedVersionReader(pool: Pick<Pool, 'query'>): () => Promise<number | null> {
+  let inFlight: Promise<number | null> | null = null
+  let following: Promise<number | null> | null = null
+  const start = () => {
+    const p: Promise<number | null> = readDataVersion(pool).finally(() => { if (inFlight === p) inFlight = null })
+    inFlight = p
+    return p
+  }
+  return () => {
+    if (!inFlight) return start()
+    following ??= inFlight.then(() => undefined, () => undefined).then(() => { following = null; return start() })
+    return following
+  }
+}

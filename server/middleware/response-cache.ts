@@ -2,7 +2,7 @@ import type { RequestHandler } from 'express'
 import { createHash } from 'node:crypto'
 import { LRUCache } from 'lru-cache'
 import type { AppContext } from '../context'
-import { readDataVersion } from '../db/data-version'
+import { sharedVersionReader } from '../db/data-version'
 
 /**
  * Response cache for read-heavy GET routes (the big lists, the global search, an array's page):
@@ -10,7 +10,7 @@ import { readDataVersion } from '../db/data-version'
  * data, and sent again while the version is unchanged. Any committed write through any app server
  * bumps the version (server/db/data-version.ts), so an answer is never older than the newest write
  * a request could know of. Each hit still asks MariaDB for the version (one primary-key row,
- * usually from its query cache).
+ * usually from its query cache; concurrent requests share a read sent after they arrived).
  *
  * `X-Response-Cache: hit | miss | bypass` says what happened. A request with `Cache-Control:
  * no-cache` (a hard reload, or the bench's uncached runs) skips the cache. Only 200 answers are
@@ -21,12 +21,17 @@ interface Entry { version: number; body: Buffer; etag: string }
 
 const weakEtag = (body: Buffer) => `W/"${body.length.toString(16)}-${createHash('sha1').update(body).digest('base64').slice(0, 27)}"`
 
-const caches = new WeakMap<AppContext, LRUCache<string, Entry> | null>()
+interface Cache { entries: LRUCache<string, Entry>; version: () => Promise<number | null> }
+const caches = new WeakMap<AppContext, Cache | null>()
 
-function cacheOf(ctx: AppContext): LRUCache<string, Entry> | null {
+/** One cache and one version reader per app (a test's second app is a second server). */
+function cacheOf(ctx: AppContext): Cache | null {
   if (!caches.has(ctx)) {
     const mb = ctx.env.RESPONSE_CACHE_MB
-    caches.set(ctx, mb > 0 ? new LRUCache<string, Entry>({ maxSize: mb * 1024 * 1024, sizeCalculation: (e) => e.body.length + 128, ttl: ctx.env.RESPONSE_CACHE_TTL_MS }) : null)
+    caches.set(ctx, mb > 0 ? {
+      entries: new LRUCache<string, Entry>({ maxSize: mb * 1024 * 1024, sizeCalculation: (e) => e.body.length + 128, ttl: ctx.env.RESPONSE_CACHE_TTL_MS }),
+      version: sharedVersionReader(ctx.pool),
+    } : null)
   }
   return caches.get(ctx)!
 }
@@ -39,9 +44,9 @@ export function cachedJson(ctx: AppContext): RequestHandler {
     const cache = cacheOf(ctx)
     if (!cache || /no-cache|no-store/i.test(req.get('cache-control') ?? '')) { res.set(CACHE_HEADER, 'bypass'); return next() }
     const key = `${(req.user as { id?: number } | undefined)?.id ?? 0}|${req.originalUrl}`
-    readDataVersion(ctx.pool).then((version) => {
+    cache.version().then((version) => {
       if (version === null) { res.set(CACHE_HEADER, 'bypass'); return next() }
-      const hit = cache.get(key)
+      const hit = cache.entries.get(key)
       if (hit && hit.version === version) {
         res.set(CACHE_HEADER, 'hit').set('ETag', hit.etag).type('json').send(hit.body)
         return
@@ -52,7 +57,7 @@ export function cachedJson(ctx: AppContext): RequestHandler {
         if (res.statusCode !== 200) return json(body)
         const bytes = Buffer.from(JSON.stringify(body))
         const etag = weakEtag(bytes)
-        cache.set(key, { version, body: bytes, etag })
+        cache.entries.set(key, { version, body: bytes, etag })
         return res.set('ETag', etag).type('json').send(bytes)
       }
       next()

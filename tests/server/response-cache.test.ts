@@ -3,7 +3,7 @@ import request from 'supertest'
 import type TestAgent from 'supertest/lib/agent'
 import { startTestApp, signedInAs } from './helpers'
 import { disk, makeChip, uid } from './inventory-helpers'
-import { readDataVersion, statementKind } from '../../server/db/data-version'
+import { readDataVersion, sharedVersionReader, statementKind } from '../../server/db/data-version'
 import { rememberSessionReads } from '../../server/auth/signed-in-cache'
 import { plainRows } from '../../server/db/plain-rows'
 import { arrays, chips } from '../../server/db/schema/index'
@@ -69,6 +69,29 @@ describe('statements and the data version', () => {
       throw new Error('changed my mind')
     })).rejects.toThrow('changed my mind')
     expect(await readDataVersion(a.pool)).toBe(v1 + 1)
+  })
+})
+
+describe('shared version reader', () => {
+  it('never answers a caller with a read sent before it asked, and serves a batch with one read', async () => {
+    let version = 10
+    const sent: ((v: number) => void)[] = []
+    const fakePool = { query: () => new Promise((resolve) => { const v = version; sent.push(() => resolve([[{ n: v }]])) }) }
+    const read = sharedVersionReader(fakePool as never)
+    const first = read() // sends read #1 (sees 10)
+    version = 11 // a write commits while read #1 is on its way
+    const late = [read(), read(), read()] // asked after read #1 was sent: must wait for read #2
+    expect(sent).toHaveLength(1)
+    sent[0](0)
+    expect(await first).toBe(10)
+    await new Promise((r) => setTimeout(r, 0))
+    expect(sent).toHaveLength(2) // one read for the three late callers
+    sent[1](0)
+    expect(await Promise.all(late)).toEqual([11, 11, 11])
+    const alone = read() // nothing in flight: a read of its own
+    expect(sent).toHaveLength(3)
+    sent[2](0)
+    expect(await alone).toBe(11)
   })
 })
 
