@@ -1,5 +1,6 @@
-import { and, asc, desc, eq, inArray, like, or, sql } from 'drizzle-orm'
+import { and, asc, desc, eq, like, or, sql } from 'drizzle-orm'
 import { chips, wafers, materials, users, locations, arrays, type User } from '../db/schema/index'
+import type { SelectResultFields } from 'drizzle-orm/query-builders/select.types'
 import type { Db } from '../db/client'
 import type { ArrayRow, Chip, FabStep, Page } from '../../shared/records'
 import type { DiceInput, ListQuery } from '../../shared/schemas/records'
@@ -13,30 +14,35 @@ import { markArraysStale } from './materials'
 import { cutLabel } from './wafers'
 import { listArraysOfChip } from './arrays'
 import { listFabSteps } from './fab-steps'
+import { plainRows } from '../db/plain-rows'
 import { cachedCount, idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Parsed update; `notes` undefined = leave as is (the route drops it when the body omits it). */
 type ChipUpdate = Omit<z.infer<typeof chipUpdateSchema>, 'notes'> & { notes?: string | null }
 
-const base = () => ({
-  c: chips, waferCode: wafers.code, cutNormal: wafers.cutNormal, materialName: materials.name, pointGroup: materials.pointGroup, holderName: users.name,
+/** The columns of a chip as the API shows it (flat: read by Drizzle for one chip, by plainRows for a list page). */
+const CHIP_COLUMNS = {
+  id: chips.id, code: chips.code, waferId: chips.waferId, waferCode: wafers.code, cutNormal: wafers.cutNormal, materialName: materials.name,
+  pointGroup: materials.pointGroup, index: chips.index, rotationDeg: chips.rotationDeg, widthMm: chips.widthMm, heightMm: chips.heightMm,
+  locationId: chips.locationId, holderId: chips.holderId, holderName: users.name, status: chips.status, notes: chips.notes,
   arrayCount: sql<number>`(SELECT count(*) FROM arrays a WHERE a.chip_id = chips.id AND a.retired_at IS NULL)`,
-})
-type Joined = { c: typeof chips.$inferSelect; waferCode: string; cutNormal: [number, number, number]; materialName: string; pointGroup: string; holderName: string | null; arrayCount: number }
+  createdAt: chips.createdAt, updatedAt: chips.updatedAt,
+}
+/** A row of CHIP_COLUMNS; the holder is left-joined. */
+type ChipColumns = Omit<SelectResultFields<typeof CHIP_COLUMNS>, 'holderName'> & { holderName: string | null }
 
 function selectChips(db: Db) {
-  return db.select(base()).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId))
+  return db.select(CHIP_COLUMNS).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId))
     .innerJoin(materials, eq(materials.id, wafers.materialId)).leftJoin(users, eq(users.id, chips.holderId))
 }
 
-function toChip(r: Joined, refs: Awaited<ReturnType<typeof locationRefs>>): Chip {
-  const c = r.c
-  const loc = c.locationId ? refs.get(c.locationId) : undefined
+function toChip(r: ChipColumns, refs: Awaited<ReturnType<typeof locationRefs>>): Chip {
+  const loc = r.locationId ? refs.get(r.locationId) : undefined
   return {
-    id: c.id, code: c.code, wafer: { id: c.waferId, code: r.waferCode, cutLabel: cutLabel(r.pointGroup, r.cutNormal), materialName: r.materialName },
-    index: c.index, rotationDeg: c.rotationDeg, widthMm: c.widthMm, heightMm: c.heightMm,
-    location: loc ? { id: loc.id, code: loc.code, path: loc.path } : null, holder: c.holderId ? { id: c.holderId, name: r.holderName ?? '?' } : null,
-    status: c.status, notes: c.notes, arrayCount: Number(r.arrayCount), createdAt: c.createdAt.toISOString(), updatedAt: c.updatedAt.toISOString(),
+    id: r.id, code: r.code, wafer: { id: r.waferId, code: r.waferCode, cutLabel: cutLabel(r.pointGroup, r.cutNormal), materialName: r.materialName },
+    index: r.index, rotationDeg: r.rotationDeg, widthMm: r.widthMm, heightMm: r.heightMm,
+    location: loc ? { id: loc.id, code: loc.code, path: loc.path } : null, holder: r.holderId ? { id: r.holderId, name: r.holderName ?? '?' } : null,
+    status: r.status, notes: r.notes, arrayCount: Number(r.arrayCount), createdAt: r.createdAt.toISOString(), updatedAt: r.updatedAt.toISOString(),
   }
 }
 
@@ -56,18 +62,19 @@ export async function listChips(db: Db, q: ListQuery): Promise<Page<Chip>> {
     q.status ? sql`${chips.status} = ${q.status}` : q.includeRetired ? undefined : sql`${chips.status} <> 'retired'`,
     q.q ? idCondition(chips.id, await textHitIds(db, CHIP_TEXT, q.q), or(like(chips.code, likePattern(q.q)), like(chips.notes, likePattern(q.q)), lotOf(q.q))) : undefined,
   )
-  // The page is cut from `chips` alone (its indexes; the wafer only when sorting by wafer code),
-  // then the joined rows of just those ids are read, kept in page order.
+  // The page is cut from `chips` alone (its indexes; the wafer only when sorting by wafer code) in a
+  // derived table, and only its rows are joined to wafer, material and holder: one round trip.
+  // (Inside the derived table `chips` and `wafers` name its own FROM, outside the joined row: one ORDER BY serves both.)
   const order = [orderBy(SORTS, q.sort, q.dir, 'code'), q.dir === 'desc' ? desc(chips.id) : asc(chips.id)]
-  const offset = (q.page - 1) * q.pageSize
-  const pageIds = q.sort === 'wafer'
-    ? db.select({ id: chips.id }).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)).where(where).orderBy(...order).limit(q.pageSize).offset(offset)
-    : db.select({ id: chips.id }).from(chips).where(where).orderBy(...order).limit(q.pageSize).offset(offset)
-  const [idRows, [{ n }], refs] = await Promise.all([pageIds, db.select({ n: cachedCount() }).from(chips).where(where), locationRefs(db)])
-  const ids = idRows.map((r) => r.id)
-  const rows = ids.length ? await selectChips(db).where(inArray(chips.id, ids)) : []
-  const byId = new Map(rows.map((r) => [r.c.id, r]))
-  return { rows: ids.map((id) => toChip(byId.get(id)!, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }
+  const ids = q.sort === 'wafer' ? db.select({ id: chips.id }).from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)) : db.select({ id: chips.id }).from(chips)
+  const page = ids.where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize).as('page')
+  const [rows, [{ n }], refs] = await Promise.all([
+    plainRows(db, CHIP_COLUMNS, (f) => db.select(f).from(page).innerJoin(chips, eq(chips.id, page.id)).innerJoin(wafers, eq(wafers.id, chips.waferId))
+      .innerJoin(materials, eq(materials.id, wafers.materialId)).leftJoin(users, eq(users.id, chips.holderId)).orderBy(...order), { cache: true }),
+    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(chips).where(where)),
+    locationRefs(db),
+  ])
+  return { rows: rows.map((r) => toChip(r, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }
 }
 
 export async function listChipsOfWafer(db: Db, waferId: number): Promise<Chip[]> {
