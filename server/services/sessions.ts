@@ -1,6 +1,6 @@
-import { and, asc, count, desc, eq, gte, inArray, isNull, like, lt, or, sql, type SQL } from 'drizzle-orm'
+import { and, asc, count, desc, eq, gte, isNull, like, lt, or, sql, type SQL } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/mysql-core'
-import { arrays, files, laserSetups, measurementSessions as ms, sessionResults, users, type User } from '../db/schema/index'
+import { files, laserSetups, measurementSessions as ms, sessionResults, users, type User } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { MeasurementSession, MeasurementSessionRow, Page } from '../../shared/records'
 import type { SessionInput } from '../../shared/schemas/records'
@@ -12,6 +12,7 @@ import { compareResult, deriveEfficiency, loadArrayContexts, type Reader } from 
 import { NotFoundError, fieldError } from '../errors'
 import { cachedCount, codePrefixes, idCondition, prefixPattern, textHitIds, type TextTarget } from './text-search'
 import { likePattern } from './codes'
+import { plainRows } from '../db/plain-rows'
 
 /**
  * Measurement sessions: one session (pump, detection) on one or more arrays, with the observed
@@ -158,29 +159,38 @@ async function listWhere(db: Db, q: SessionListQuery): Promise<SQL | undefined> 
   return w.length ? and(...w) : undefined
 }
 
+/**
+ * The columns of a list row; the measured arrays' codes come as one JSON array per session (at most
+ * 200, in code order; NULL for none). mysql2 decodes it itself when MariaDB marks it as JSON.
+ */
+const LIST_COLUMNS = {
+  id: ms.id, code: ms.code, setupId: laserSetups.id, setupCode: laserSetups.code, setupName: laserSetups.name, operatorId: operators.id, operatorName: operators.name,
+  performedAt: ms.performedAt, wavelengthNm: ms.wavelengthNm, harmonicOrder: ms.harmonicOrder, pump: ms.pump, avgPowerMw: ms.avgPowerMw, createdAt: ms.createdAt,
+  arrayCodes: sql<string[] | string | null>`(SELECT JSON_ARRAYAGG(a.code ORDER BY a.code) FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE sr.session_id = ${ms.id})`,
+}
+
+const jsonList = (v: string[] | string | null): string[] => (typeof v === 'string' ? (JSON.parse(v) as string[]) : v ?? [])
+
 export async function listSessions(db: Db, q: SessionListQuery): Promise<Page<MeasurementSessionRow>> {
   const where = await listWhere(db, q)
   const col = SORTABLE[(q.sort ?? 'performedAt') as keyof typeof SORTABLE] ?? ms.performedAt
   const dir = q.sort ? q.dir : 'desc'
   // The page is cut from measurement_sessions alone (newest first reads sessions_performed_idx
-  // backwards; ties by id in the same direction), then only those sessions are joined.
-  const [pageIds, [{ n }]] = await Promise.all([
-    db.select({ id: ms.id }).from(ms).where(where).orderBy(dir === 'desc' ? desc(col) : asc(col), dir === 'desc' ? desc(ms.id) : asc(ms.id))
-      .limit(q.pageSize).offset((q.page - 1) * q.pageSize),
-    db.select({ n: cachedCount() }).from(ms).where(where),
+  // backwards; ties by id in the same direction) in a derived table, and only its rows are joined
+  // to setup, operator and array codes: one round trip. (Inside the derived table
+  // `measurement_sessions` names its own FROM, outside the joined row: one ORDER BY serves both.)
+  const order = [dir === 'desc' ? desc(col) : asc(col), dir === 'desc' ? desc(ms.id) : asc(ms.id)]
+  const page = db.select({ id: ms.id }).from(ms).where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize).as('page')
+  const [rows, [{ n }]] = await Promise.all([
+    plainRows(db, LIST_COLUMNS, (f) => db.select(f).from(page).innerJoin(ms, eq(ms.id, page.id)).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId))
+      .innerJoin(operators, eq(operators.id, ms.operatorId)).orderBy(...order), { cache: true }),
+    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(ms).where(where)),
   ])
-  const ids = pageIds.map((r) => r.id)
-  const joined = ids.length ? await db.select({ s: ms, setup: { id: laserSetups.id, code: laserSetups.code, name: laserSetups.name }, operator: { id: operators.id, name: operators.name } })
-    .from(ms).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId)).innerJoin(operators, eq(operators.id, ms.operatorId)).where(inArray(ms.id, ids)) : []
-  const byId = new Map(joined.map((r) => [r.s.id, r]))
-  const rows = ids.map((id) => byId.get(id)!)
-  const codes = ids.length ? await db.select({ sessionId: sessionResults.sessionId, code: arrays.code }).from(sessionResults)
-    .innerJoin(arrays, eq(arrays.id, sessionResults.arrayId)).where(inArray(sessionResults.sessionId, ids)).orderBy(asc(arrays.code)) : []
   return {
-    rows: rows.map(({ s, setup, operator }) => ({
-      id: s.id, code: s.code, laserSetup: setup, operator, performedAt: s.performedAt.toISOString(), wavelengthNm: s.wavelengthNm,
-      harmonicOrder: s.harmonicOrder, pump: s.pump, avgPowerMw: s.avgPowerMw, createdAt: s.createdAt.toISOString(),
-      arrayCodes: codes.filter((c) => c.sessionId === s.id).map((c) => c.code), isBackdated: isBackdated(s.performedAt, s.createdAt),
+    rows: rows.map((r) => ({
+      id: r.id, code: r.code, laserSetup: { id: r.setupId, code: r.setupCode, name: r.setupName }, operator: { id: r.operatorId, name: r.operatorName },
+      performedAt: r.performedAt.toISOString(), wavelengthNm: r.wavelengthNm, harmonicOrder: r.harmonicOrder, pump: r.pump, avgPowerMw: r.avgPowerMw,
+      createdAt: r.createdAt.toISOString(), arrayCodes: jsonList(r.arrayCodes), isBackdated: isBackdated(r.performedAt, r.createdAt),
     })),
     total: Number(n), page: q.page, pageSize: q.pageSize,
   }
