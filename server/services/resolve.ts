@@ -7,6 +7,7 @@ import { NotFoundError } from '../errors'
 import { likePattern } from './codes'
 import { cutLabel } from './wafers'
 import { locationRefs } from './locations'
+import { plainRows } from '../db/plain-rows'
 import { codePrefixes, fulltextQuery, matchWords, prefixPattern } from './text-search'
 
 /**
@@ -66,22 +67,32 @@ export async function searchRecords(db: Db, q: string, perKind = 8): Promise<Sea
   const any = likePattern(q), prefix = likePattern(q, true)
   // The big tables (chips, arrays, sessions): codes by prefix and notes by FULLTEXT words, each an
   // index lookup (an OR of both, or LIKE '%…%', scans 100 000 rows); see text-search.ts.
+  // Each query reads only the columns of its hit, through plainRows (no per-field mapping).
   const ft = await fulltextQuery(db, q)
+  const cache = { cache: true }
   const [ws, cs, as, ls, ms, ss, lss, refs] = await Promise.all([
-    db.select({ w: wafers, m: materials.name, pg: materials.pointGroup }).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId))
-      .where(or(like(wafers.code, prefix), like(wafers.lot, any), like(wafers.supplier, any), like(wafers.notes, any), like(materials.name, any))).orderBy(wafers.code).limit(perKind),
-    byCodeOrWords(codePrefixes(q, 'C', false), ft, perKind, (w) => db.select().from(chips).where(w === 'ft' ? matchWords(['notes'], ft!) : like(chips.code, prefixPattern(w))).orderBy(chips.code).limit(perKind), (r) => r.code),
-    byCodeOrWords(codePrefixes(q, 'A', false), ft, perKind, (w) => db.select().from(arrays).where(w === 'ft' ? matchWords(['notes'], ft!) : like(arrays.code, prefixPattern(w))).orderBy(arrays.code).limit(perKind), (r) => r.code),
-    db.select().from(locations).where(or(like(locations.code, prefix), like(locations.name, any))).orderBy(locations.code).limit(perKind),
-    db.select().from(materials).where(or(like(materials.name, any), like(materials.formula, any))).orderBy(materials.name).limit(perKind),
-    byCodeOrWords(codePrefixes(q, 'S', false), ft, perKind, (w) => db.select().from(measurementSessions)
+    plainRows(db, { id: wafers.id, code: wafers.code, cutNormal: wafers.cutNormal, lot: wafers.lot, supplier: wafers.supplier, m: materials.name, pg: materials.pointGroup },
+      (f) => db.select(f).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId))
+        .where(or(like(wafers.code, prefix), like(wafers.lot, any), like(wafers.supplier, any), like(wafers.notes, any), like(materials.name, any))).orderBy(wafers.code).limit(perKind), cache),
+    byCodeOrWords(codePrefixes(q, 'C', false), ft, perKind, (w) => plainRows(db, { id: chips.id, code: chips.code, index: chips.index, rotationDeg: chips.rotationDeg, status: chips.status },
+      (f) => db.select(f).from(chips).where(w === 'ft' ? matchWords(['notes'], ft!) : like(chips.code, prefixPattern(w))).orderBy(chips.code).limit(perKind), cache), (r) => r.code),
+    byCodeOrWords(codePrefixes(q, 'A', false), ft, perKind, (w) => plainRows(db, { id: arrays.id, code: arrays.code, shape: arrays.shape, lattice: arrays.lattice, symmetryName: arrays.symmetryName },
+      (f) => db.select(f).from(arrays).where(w === 'ft' ? matchWords(['notes'], ft!) : like(arrays.code, prefixPattern(w))).orderBy(arrays.code).limit(perKind), cache), (r) => r.code),
+    plainRows(db, { id: locations.id, code: locations.code, name: locations.name },
+      (f) => db.select(f).from(locations).where(or(like(locations.code, prefix), like(locations.name, any))).orderBy(locations.code).limit(perKind), cache),
+    plainRows(db, { id: materials.id, name: materials.name, formula: materials.formula, pointGroup: materials.pointGroup },
+      (f) => db.select(f).from(materials).where(or(like(materials.name, any), like(materials.formula, any))).orderBy(materials.name).limit(perKind), cache),
+    byCodeOrWords(codePrefixes(q, 'S', false), ft, perKind, (w) => plainRows(db, {
+      id: measurementSessions.id, code: measurementSessions.code, wavelengthNm: measurementSessions.wavelengthNm, harmonicOrder: measurementSessions.harmonicOrder, performedAt: measurementSessions.performedAt,
+    }, (f) => db.select(f).from(measurementSessions)
       .where(w === 'ft' ? matchWords(['notes', 'detector'], ft!) : like(measurementSessions.code, prefixPattern(w)))
-      .orderBy(desc(measurementSessions.performedAt)).limit(perKind), (r) => r.performedAt.toISOString(), 'desc'),
-    db.select().from(laserSetups).where(or(like(laserSetups.code, prefix), like(laserSetups.name, any))).orderBy(laserSetups.code).limit(perKind),
+      .orderBy(desc(measurementSessions.performedAt)).limit(perKind), cache), (r) => r.performedAt.toISOString(), 'desc'),
+    plainRows(db, { id: laserSetups.id, code: laserSetups.code, name: laserSetups.name },
+      (f) => db.select(f).from(laserSetups).where(or(like(laserSetups.code, prefix), like(laserSetups.name, any))).orderBy(laserSetups.code).limit(perKind), cache),
     locationRefs(db),
   ])
   const hits: Ranked[] = [
-    ...ws.map(({ w, m, pg }) => ({ kind: 'wafer' as const, id: w.id, label: w.code, detail: `${m} ${cutLabel(pg, w.cutNormal)} · lot ${w.lot}${w.supplier ? ` · ${w.supplier}` : ''}`, to: `/wafers/${w.id}`, rank: rankOf(w.code, q) })),
+    ...ws.map((w) => ({ kind: 'wafer' as const, id: w.id, label: w.code, detail: `${w.m} ${cutLabel(w.pg, w.cutNormal)} · lot ${w.lot}${w.supplier ? ` · ${w.supplier}` : ''}`, to: `/wafers/${w.id}`, rank: rankOf(w.code, q) })),
     ...cs.map((c) => ({ kind: 'chip' as const, id: c.id, label: c.code, detail: `chip ${c.index} · ${c.rotationDeg}° from the flat · ${c.status}`, to: `/chips/${c.id}`, rank: rankOf(c.code, q) })),
     ...as.map((a) => ({ kind: 'array' as const, id: a.id, label: a.code, detail: `${a.shape} · ${a.lattice} lattice${a.symmetryName ? ` · ${a.symmetryName}` : ''}`, to: `/arrays/${a.id}`, rank: rankOf(a.code, q) })),
     ...ls.map((l) => ({ kind: 'location' as const, id: l.id, label: l.code, detail: refs.get(l.id)?.path ?? l.name, to: `/locations/${l.id}`, rank: rankOf(l.code, q) })),
@@ -91,4 +102,3 @@ export async function searchRecords(db: Db, q: string, perKind = 8): Promise<Sea
   ]
   return hits.sort((a, b) => a.rank - b.rank || a.label.localeCompare(b.label)).map(({ rank: _r, ...h }) => h)
 }
-

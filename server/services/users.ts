@@ -11,6 +11,7 @@ import { queueMail } from './mail'
 import { ConflictError, ForbiddenError, NotFoundError, fieldError } from '../errors'
 import { inviteMail } from './mail-templates'
 import { forgetUser } from '../auth/signed-in-cache'
+import { plainRows } from '../db/plain-rows'
 
 /** How long an invitation link stays valid. */
 export const INVITE_TTL_MS = 7 * 24 * 3600 * 1000
@@ -42,8 +43,10 @@ export async function listUsers(db: Db): Promise<PublicUser[]> {
 /** People whose name or e-mail contains the text (case-insensitive under the utf8mb4 collation). */
 export async function searchUsers(db: Db, q: string, limit = 10): Promise<PublicUser[]> {
   const pattern = `%${q.replace(/[\\%_]/g, (c) => '\\' + c)}%`
-  const rows = await db.select().from(users).where(or(like(users.name, pattern), like(users.email, pattern))).orderBy(asc(users.name)).limit(limit)
-  return rows.map(toPublicUser)
+  // Only the public columns (not the password hash: whether one is set is decided in SQL), through plainRows.
+  const rows = await plainRows(db, { id: users.id, email: users.email, name: users.name, roles: users.roles, active: users.active, invitePending: sql<number>`(${users.passwordHash} IS NULL)`, createdAt: users.createdAt },
+    (f) => db.select(f).from(users).where(or(like(users.name, pattern), like(users.email, pattern))).orderBy(asc(users.name)).limit(limit), { cache: true })
+  return rows.map((u) => ({ id: u.id, email: u.email, name: u.name, roles: [...u.roles], active: u.active, invitePending: Number(u.invitePending) === 1, createdAt: u.createdAt.toISOString() }))
 }
 
 /** Create a person with a pending invitation and queue the invitation mail, all in one transaction. */
