@@ -1,6 +1,8 @@
-import { and, eq, like, or, sql } from 'drizzle-orm'
+import { and, asc, eq, like, or, sql } from 'drizzle-orm'
 import { wafers, materials, users, chips, locations, type User } from '../db/schema/index'
+import type { SelectResultFields } from 'drizzle-orm/query-builders/select.types'
 import type { Db } from '../db/client'
+import { plainRows } from '../db/plain-rows'
 import type { Chip, Page, Wafer } from '../../shared/records'
 import type { ListQuery, WaferInput } from '../../shared/schemas/records'
 import { formatDirection, getPointGroup, type Vec3 } from '../../shared/engine'
@@ -10,6 +12,7 @@ import { found, likePattern, nextCodeNumber, orderBy, requireReason, waferCode }
 import { locationRefs } from './locations'
 import { markArraysStale } from './materials'
 import { listChipsOfWafer } from './chips'
+import { cachedCount } from './text-search'
 
 /**
  * Name of a wafer cut: Miller plane "(001)", "(1-10)" for cubic classes (a bar is written as a
@@ -24,22 +27,24 @@ export function cutLabel(pointGroup: string, normal: Vec3): string {
   return i >= 0 ? `${'XYZ'[i]}-cut` : formatDirection(normal)
 }
 
-const base = () => ({
-  w: wafers, materialName: materials.name, pointGroup: materials.pointGroup, createdByName: users.name,
-  chipCount: sql<number>`(SELECT count(*) FROM chips c WHERE c.wafer_id = wafers.id)`,
-})
-type Joined = { w: typeof wafers.$inferSelect; materialName: string; pointGroup: string; createdByName: string; chipCount: number }
+/** The columns of a wafer as the API shows it (flat: read by Drizzle for one wafer, by plainRows for a list page). */
+const WAFER_COLUMNS = {
+  id: wafers.id, code: wafers.code, materialId: wafers.materialId, materialName: materials.name, pointGroup: materials.pointGroup,
+  cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, diameterMm: wafers.diameterMm, thicknessUm: wafers.thicknessUm, lot: wafers.lot,
+  supplier: wafers.supplier, receivedOn: sql<string | null>`DATE_FORMAT(${wafers.receivedOn}, '%Y-%m-%d')`, locationId: wafers.locationId,
+  status: wafers.status, notes: wafers.notes, chipCount: sql<number>`(SELECT count(*) FROM chips c WHERE c.wafer_id = wafers.id)`,
+  createdBy: wafers.createdBy, createdByName: users.name, createdAt: wafers.createdAt, updatedAt: wafers.updatedAt,
+}
 
-function toWafer(r: Joined, refs: Awaited<ReturnType<typeof locationRefs>>): Wafer {
-  const w = r.w
-  const loc = w.locationId ? refs.get(w.locationId) : undefined
+function toWafer(r: SelectResultFields<typeof WAFER_COLUMNS>, refs: Awaited<ReturnType<typeof locationRefs>>): Wafer {
+  const loc = r.locationId ? refs.get(r.locationId) : undefined
   return {
-    id: w.id, code: w.code, material: { id: w.materialId, name: r.materialName, pointGroup: r.pointGroup },
-    cutNormal: w.cutNormal, flatDirection: w.flatDirection, cutLabel: cutLabel(r.pointGroup, w.cutNormal),
-    diameterMm: w.diameterMm, thicknessUm: w.thicknessUm, lot: w.lot, supplier: w.supplier, receivedOn: w.receivedOn,
-    location: loc ? { id: loc.id, code: loc.code, path: loc.path } : null, status: w.status, notes: w.notes,
-    chipCount: Number(r.chipCount), createdBy: { id: w.createdBy, name: r.createdByName },
-    createdAt: w.createdAt.toISOString(), updatedAt: w.updatedAt.toISOString(),
+    id: r.id, code: r.code, material: { id: r.materialId, name: r.materialName, pointGroup: r.pointGroup },
+    cutNormal: r.cutNormal, flatDirection: r.flatDirection, cutLabel: cutLabel(r.pointGroup, r.cutNormal),
+    diameterMm: r.diameterMm, thicknessUm: r.thicknessUm, lot: r.lot, supplier: r.supplier, receivedOn: r.receivedOn,
+    location: loc ? { id: loc.id, code: loc.code, path: loc.path } : null, status: r.status, notes: r.notes,
+    chipCount: Number(r.chipCount), createdBy: { id: r.createdBy, name: r.createdByName },
+    createdAt: r.createdAt.toISOString(), updatedAt: r.updatedAt.toISOString(),
   }
 }
 
@@ -53,17 +58,21 @@ export async function listWafers(db: Db, q: ListQuery & { materialId?: number })
     materialId ? eq(wafers.materialId, materialId) : undefined,
     q.q ? or(like(wafers.code, likePattern(q.q)), like(wafers.lot, likePattern(q.q)), like(wafers.supplier, likePattern(q.q)), like(wafers.notes, likePattern(q.q)), like(materials.name, likePattern(q.q))) : undefined,
   )
+  // Rows and count through plainRows (no per-field mapping); the page may come from the query cache.
+  // Ties (same lot, status, material…) are broken by id, so pages neither overlap nor leave a gap;
+  // ascending in both directions, the order the list showed ties in before (a small table: sorted, not read from an index).
+  const order = [orderBy(SORTS, q.sort, q.dir, 'code'), asc(wafers.id)]
   const [rows, [{ n }], refs] = await Promise.all([
-    db.select(base()).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).innerJoin(users, eq(users.id, wafers.createdBy))
-      .where(where).orderBy(orderBy(SORTS, q.sort, q.dir, 'code')).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
-    db.select({ n: sql<number>`count(*)` }).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).where(where),
+    plainRows(db, WAFER_COLUMNS, (f) => db.select(f).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).innerJoin(users, eq(users.id, wafers.createdBy))
+      .where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize), { cache: true }),
+    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).where(where)),
     locationRefs(db),
   ])
   return { rows: rows.map((r) => toWafer(r, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }
 }
 
 export async function getWafer(db: Db, id: number): Promise<Wafer> {
-  const [row] = await db.select(base()).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).innerJoin(users, eq(users.id, wafers.createdBy)).where(eq(wafers.id, id))
+  const [row] = await db.select(WAFER_COLUMNS).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).innerJoin(users, eq(users.id, wafers.createdBy)).where(eq(wafers.id, id))
   return toWafer(found(row, 'wafer'), await locationRefs(db))
 }
 
