@@ -4,13 +4,15 @@ import type { Db } from './client'
 
 type Field = Column | SQL | SQL.Aliased
 type Built = { toSQL(): { sql: string; params: unknown[] } }
+type ColumnMeta = { name: string; columnType?: number; extendedFormat?: string }
 
 /**
  * Rows of a hot read (a big list page) built with Drizzle's query builder but run straight through
  * mysql2, without Drizzle's per-field result mapping (a type-cast callback per value, then a decoder
  * per field), which was a third of the server's CPU on a 25-row page. Every field is aliased to its
- * key so mysql2 hands back keyed rows; mysql2 already gives numbers and (timezone 'Z') Dates, so
- * only JSON columns (text on MariaDB) and booleans are decoded here. The row type is Drizzle's own.
+ * key so mysql2 hands back keyed rows; mysql2 already gives numbers, (timezone 'Z') Dates and, where
+ * the server marks them, decoded JSON, so only JSON left as text and booleans are decoded here. The
+ * row type is Drizzle's own.
  *
  *   const rows = await plainRows(db, { id: arrays.id, code: arrays.code }, (f) => db.select(f).from(arrays).limit(25))
  *
@@ -24,8 +26,11 @@ export async function plainRows<F extends Record<string, Field>>(db: Db, fields:
   const built = build(aliased).toSQL()
   const text = opts.cache ? built.sql.replace(/^select /, 'select SQL_CACHE ') : built.sql
   const params = built.params
-  const [rows] = (await db.$client.query(text, params)) as unknown as [Record<string, unknown>[]]
-  const json = keys.filter((k) => is(fields[k], Column) && (fields[k] as Column).columnType === 'MySqlJson')
+  const [rows, meta] = (await db.$client.query(text, params)) as unknown as [Record<string, unknown>[], ColumnMeta[]]
+  // mysql2 decodes JSON itself where the server says a value is JSON (MySQL's JSON type, MariaDB's
+  // extended metadata); only a JSON column that still arrives as text is parsed here.
+  const decoded = new Set(meta.filter((f) => f.columnType === 245 || f.extendedFormat === 'json').map((f) => f.name))
+  const json = keys.filter((k) => is(fields[k], Column) && (fields[k] as Column).columnType === 'MySqlJson' && !decoded.has(k))
   const bool = keys.filter((k) => is(fields[k], Column) && (fields[k] as Column).columnType === 'MySqlBoolean')
   if (json.length || bool.length) {
     for (const r of rows) {
