@@ -106,6 +106,7 @@ export async function runApiBench(o: ApiBenchOptions): Promise<BenchRow[]> {
       await c.run(db)
       const queries = [...captured]
       log(`[bench] ${c.name}: ${queries.length} queries`)
+      await hammer(o.baseUrl + c.path, cookie, connections, 1) // warm-up (JIT, pools, caches), not counted
       // As served (repeated reads answered from the response cache after one data-version check),
       // then every request computed (Cache-Control: no-cache), then the bare SQL.
       const api = await hammer(o.baseUrl + c.path, cookie, connections, seconds)
