@@ -1,7 +1,8 @@
 /**
  * The SQL each benchmarked API route sends, timed one at a time (mean of 5) with its EXPLAIN:
  * `DATABASE_URL=… npx tsx bench/query-plans.ts [case-name-part]` on a database with the large
- * seed (bench/seed-large.ts). Used to choose the indexes listed in DEVELOPERS.md.
+ * seed (bench/seed-large.ts). Used to choose the indexes listed in DEVELOPERS.md. Statements sent with
+ * SQL_CACHE are timed with SQL_NO_CACHE: the time is what MariaDB spends when the cache cannot answer.
  */
 import mysql from 'mysql2/promise'
 import { drizzle } from 'drizzle-orm/mysql2'
@@ -15,8 +16,14 @@ import { listSessions } from '../server/services/sessions'
 import { searchRecords } from '../server/services/resolve'
 const url = process.env.DATABASE_URL!
 const pool = mysql.createPool({ uri: url, timezone: 'Z', connectionLimit: 2 })
+// Every statement the services send through the pool (Drizzle's and plainRows' alike).
 const caught: [string, unknown[]][] = []
-const db = drizzle(pool, { schema, mode: 'default', logger: { logQuery: (q, p) => caught.push([q, p]) } }) as unknown as Db
+const capturing = Object.create(pool) as mysql.Pool
+capturing.query = ((text: string | { sql: string }, params?: unknown[]) => {
+  caught.push([typeof text === 'string' ? text : text.sql, params ?? []])
+  return pool.query(text as string, params)
+}) as typeof pool.query
+const db = drizzle({ client: capturing, schema, mode: 'planetscale' }) as unknown as Db
 const q = (s: string) => Object.fromEntries(new URLSearchParams(s))
 const [[mid]] = (await pool.query('SELECT a.id, a.code, c.code AS chip FROM arrays a JOIN chips c ON c.id = a.chip_id ORDER BY a.id LIMIT 1 OFFSET 50000')) as unknown as [[{ id: number; code: string; chip: string }]]
 const cases: [string, () => Promise<unknown>][] = [
@@ -35,7 +42,8 @@ for (const [name, run] of cases) {
   caught.length = 0
   await run()
   console.log(`\n=== ${name}`)
-  for (const [text, params] of caught) {
+  for (const [sent, params] of caught) {
+    const text = sent.replace(/\bSQL_CACHE\b/g, 'SQL_NO_CACHE')
     const t0 = performance.now(); for (let i = 0; i < 5; i++) await pool.query(text, params); const ms = (performance.now() - t0) / 5
     console.log(`${ms.toFixed(2)} ms  ${mysql.format(text, params as never).slice(0, 400)}`)
     { const [rows] = (await pool.query('EXPLAIN ' + text, params)) as unknown as [Record<string, unknown>[]]; for (const r of rows) console.log('   ', r.table, r.type, r.key, r.rows, r.Extra) }
