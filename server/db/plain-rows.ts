@@ -5,6 +5,8 @@ import type { Db } from './client'
 type Field = Column | SQL | SQL.Aliased
 type Built = { toSQL(): { sql: string; params: unknown[] } }
 type ColumnMeta = { name: string; columnType?: number; extendedFormat?: string }
+/** The aliased fields of a field list made once (list pages pass the same module-level object every time). */
+const aliasedOf = new WeakMap<object, Record<string, SQL.Aliased>>()
 
 /**
  * Rows of a hot read (a big list page) built with Drizzle's query builder but run straight through
@@ -22,7 +24,11 @@ type ColumnMeta = { name: string; columnType?: number; extendedFormat?: string }
  */
 export async function plainRows<F extends Record<string, Field>>(db: Db, fields: F, build: (aliased: Record<keyof F, SQL.Aliased>) => Built, opts: { cache?: boolean } = {}): Promise<SelectResultFields<F>[]> {
   const keys = Object.keys(fields) as (keyof F & string)[]
-  const aliased = Object.fromEntries(keys.map((k) => [k, sql`${fields[k]}`.as(k)])) as Record<keyof F, SQL.Aliased>
+  let aliased = aliasedOf.get(fields) as Record<keyof F, SQL.Aliased> | undefined
+  if (!aliased) {
+    aliased = Object.fromEntries(keys.map((k) => [k, sql`${fields[k]}`.as(k)])) as Record<keyof F, SQL.Aliased>
+    aliasedOf.set(fields, aliased)
+  }
   const built = build(aliased).toSQL()
   const text = opts.cache ? built.sql.replace(/^select /, 'select SQL_CACHE ') : built.sql
   const params = built.params
