@@ -3,7 +3,8 @@
  */
 
 /** Where an export job is: counting rows, writing one sheet, done (file ready) or failed. */
-export type ExportPhase = 'queued' | 'counting' | 'About' | 'Materials' | 'Wafers' | 'Chips' | 'Arrays' | 'Sessions' | 'Locations' | 'done' | 'failed'
+export const EXPORT_PHASES = ['queued', 'counting', 'About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'done', 'failed'] as const
+export type ExportPhase = (typeof EXPORT_PHASES)[number]
 
 export interface ExportJob {
   id: string
