@@ -13,10 +13,12 @@ import type { Pool, PoolConnection } from 'mysql2/promise'
  * time limit (RESPONSE_CACHE_TTL_MS). Writes made outside the app (hand-written SQL) are not counted
  * either: restart the app or wait for that limit.
  *
- * Writes to tables no cached answer reads (the session store, the sign-in throttle) do not count,
- * or every sign-in and session refresh would empty every cache.
+ * Writes to tables no cached answer reads (the session store, the sign-in throttle, the Excel
+ * export jobs) do not count, or every sign-in, session refresh and export progress update would
+ * empty every cache. A route that caches its answer must not read one of these tables (the export
+ * job routes are not cached: a job's progress changes without any write that counts).
  */
-const UNCOUNTED_TABLES = new Set(['sessions', 'throttle_hits', 'data_version'])
+const UNCOUNTED_TABLES = new Set(['sessions', 'throttle_hits', 'export_jobs', 'data_version'])
 
 const BUMP = 'UPDATE `data_version` SET `n` = `n` + 1 WHERE `id` = 1'
 const READ = 'SELECT SQL_CACHE `n` FROM `data_version` WHERE `id` = 1'
