@@ -10,6 +10,7 @@ import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './co
 import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
 import { loadChannelSets, saveChannelSets } from './channel-sets'
 import { plainRows } from '../db/plain-rows'
+import { LRUCache } from 'lru-cache'
 import { cachedCount, idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
@@ -47,12 +48,27 @@ function toArrayRow(r: Joined): ArrayRow {
 
 type ListJoined = Omit<Row, 'channelSetKey' | 'channelsInputHash'> & { chipCode: string; chipRotationDeg: number; isStale: number }
 /** A list row from LIST_COLUMNS; the symmetry's order and mirrors come from the (memoised) engine. */
+/**
+ * The rotation order and mirrors of a list row's structure, remembered by the few inputs they
+ * depend on (most rows of a page share them); null when the engine refuses the inputs.
+ */
+const rowSymmetries = new LRUCache<string, { rotationOrder: number; mirrors: number[] | 'all' } | { none: true }>({ max: 10_000 })
+function rowSymmetry(r: ListJoined): { rotationOrder: number; mirrors: number[] | 'all' } | null {
+  const key = `${r.shape}|${r.shapeAzimuthDeg}|${r.lattice}|${r.customRotationOrder}|${JSON.stringify(r.customMirrors)}|${r.chipRotationDeg}|${r.azimuthDeg}`
+  let hit = rowSymmetries.get(key)
+  if (!hit) {
+    try {
+      const s = arraySymmetry(r)
+      hit = { rotationOrder: s.rotationOrder, mirrors: s.mirrors }
+    } catch { hit = { none: true } }
+    rowSymmetries.set(key, hit)
+  }
+  return 'none' in hit ? null : hit
+}
+
 function toListRow(r: ListJoined): ArrayRow {
-  let symmetry: ArrayRecord['symmetry'] = { name: r.symmetryName ?? '?', rotationOrder: 1, mirrors: [] }
-  try {
-    const s = arraySymmetry({ ...r, chipRotationDeg: r.chipRotationDeg })
-    symmetry = { name: r.symmetryName ?? '?', rotationOrder: s.rotationOrder, mirrors: s.mirrors }
-  } catch { /* shown as stored */ }
+  const s = rowSymmetry(r)
+  const symmetry: ArrayRecord['symmetry'] = s ? { name: r.symmetryName ?? '?', ...s } : { name: r.symmetryName ?? '?', rotationOrder: 1, mirrors: [] }
   return {
     id: r.id, code: r.code, chip: { id: r.chipId, code: r.chipCode }, position: r.position, shape: r.shape, dimensionsNm: r.dimensionsNm,
     shapeAzimuthDeg: r.shapeAzimuthDeg, lattice: r.lattice, periodXNm: r.periodXNm, periodYNm: r.periodYNm, azimuthDeg: r.azimuthDeg,
