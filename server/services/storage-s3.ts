@@ -18,7 +18,8 @@ export interface S3StorageOptions {
 /**
  * Content-addressed blobs in an S3-compatible bucket, under `${prefix}ab/cd/<sha256>` (the same
  * layout as the local disk). put hashes in memory, asks HeadObject first and only then sends
- * PutObject, so the same bytes are stored once; a stored object is never overwritten.
+ * PutObject, so the same bytes are stored once; a stored object is never overwritten. remove sends
+ * DeleteObject.
  *
  * The SDK is loaded and the client made on first use, so choosing this storage costs no start-up
  * time and no network call. Path-style addressing (`/<bucket>/<key>`) because most S3-compatible
@@ -102,6 +103,17 @@ export class S3Storage implements FileStorage {
     } catch (err) {
       if (isNotFound(err)) return false
       throw err
+    }
+  }
+
+  async remove(sha256: string): Promise<void> {
+    const Key = this.keyOf(sha256)
+    const { sdk, client } = await this.s3()
+    try {
+      await client.send(new sdk.DeleteObjectCommand({ Bucket: this.bucket, Key }))
+    } catch (err) {
+      // S3 answers 204 for a missing key; some compatible stores answer 404 NoSuchKey.
+      if (!isNotFound(err)) throw err
     }
   }
 

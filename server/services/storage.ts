@@ -6,9 +6,10 @@ import type { FileStorageEnv } from '../env'
 import { S3Storage } from './storage-s3'
 
 /**
- * Content-addressed blob storage for uploaded files. A blob is named by the SHA-256 of its bytes,
- * so the same content uploaded twice is stored once and a stored blob never changes (originals are
- * kept unchanged with their checksum: FACTS.md §3.2 behaviour 7).
+ * Content-addressed blob storage for uploaded files and finished Excel exports. A blob is named by
+ * the SHA-256 of its bytes, so the same content uploaded twice is stored once and a stored blob
+ * never changes (originals are kept unchanged with their checksum: FACTS.md §3.2 behaviour 7).
+ * Only expired export workbooks are ever removed (excel-export.ts, never one a `files` row names).
  *
  * Only this interface is used by the services. `LocalDiskStorage` keeps blobs under
  * `${DATA_DIR}/uploads/ab/cd/<sha256>`; `S3Storage` (storage-s3.ts) keeps them in an
@@ -24,6 +25,11 @@ export interface FileStorage {
   /** The stored bytes in memory (for previews of small files). */
   read(sha256: string): Promise<Buffer>
   has(sha256: string): Promise<boolean>
+  /**
+   * Delete a blob (nothing happens when it is absent). Blobs are shared by identical content: the
+   * caller must know that nothing else refers to it (a `files` row, an export job).
+   */
+  remove(sha256: string): Promise<void>
 }
 
 const SHA = /^[0-9a-f]{64}$/
@@ -81,6 +87,10 @@ export class LocalDiskStorage implements FileStorage {
       if (code === 'ENOENT' || code === 'ENOTDIR') return false
       throw err
     }
+  }
+
+  async remove(sha256: string): Promise<void> {
+    await fs.rm(this.pathOf(sha256), { force: true })
   }
 }
 

@@ -1,58 +1,21 @@
 import { createHash, randomBytes } from 'node:crypto'
 import fs from 'node:fs/promises'
-import http from 'node:http'
-import type { AddressInfo } from 'node:net'
 import os from 'node:os'
 import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { loadEnv, loadFileStorageEnv } from '../../server/env'
 import { createFileStorage, LocalDiskStorage, type FileStorage } from '../../server/services/storage'
 import { S3Storage } from '../../server/services/storage-s3'
+import { fakeS3 } from './fake-s3'
 
 /**
  * Both FileStorage implementations held to one contract: local disk in a temp dir, and S3Storage
- * against an in-process fake S3 endpoint (path-style PUT/GET/HEAD in a Map, no signature check).
- * No database needed.
+ * against an in-process fake S3 endpoint (fake-s3.ts: path-style PUT/GET/HEAD/DELETE in a Map, no
+ * signature check). No database needed.
  */
-
-interface Seen { method: string; path: string; authorization: string; headers: http.IncomingHttpHeaders }
 
 const BUCKET = 'lab-files'
 const PREFIX = 'overtone/'
-
-function fakeS3() {
-  const objects = new Map<string, { body: Buffer; meta: Record<string, string> }>()
-  const seen: Seen[] = []
-  const server = http.createServer(async (req, res) => {
-    const chunks: Buffer[] = []
-    for await (const c of req) chunks.push(c as Buffer)
-    const url = new URL(req.url ?? '/', 'http://fake')
-    seen.push({ method: req.method ?? '', path: url.pathname, authorization: String(req.headers.authorization ?? ''), headers: req.headers })
-    const [, bucket, ...rest] = url.pathname.split('/')
-    const key = decodeURIComponent(rest.join('/'))
-    const xml = (status: number, code: string) => {
-      res.writeHead(status, { 'content-type': 'application/xml' })
-      res.end(req.method === 'HEAD' ? undefined : `<?xml version="1.0" encoding="UTF-8"?>\n<Error><Code>${code}</Code><Message>${code}</Message><Key>${key}</Key><RequestId>fake</RequestId></Error>`)
-    }
-    if (bucket !== BUCKET) return xml(404, 'NoSuchBucket')
-    if (req.method === 'PUT') {
-      const meta: Record<string, string> = {}
-      for (const [h, v] of Object.entries(req.headers)) if (h.startsWith('x-amz-meta-')) meta[h] = String(v)
-      meta['content-type'] = String(req.headers['content-type'] ?? '')
-      objects.set(key, { body: Buffer.concat(chunks), meta })
-      res.writeHead(200, { etag: '"fake"' })
-      return res.end()
-    }
-    const obj = objects.get(key)
-    if (req.method === 'GET' || req.method === 'HEAD') {
-      if (!obj) return xml(404, 'NoSuchKey')
-      res.writeHead(200, { 'content-length': String(obj.body.length), 'content-type': obj.meta['content-type'], etag: '"fake"' })
-      return res.end(req.method === 'HEAD' ? undefined : obj.body)
-    }
-    xml(405, 'MethodNotAllowed')
-  })
-  return { server, objects, seen }
-}
 
 async function filesUnder(root: string): Promise<string[]> {
   const out: string[] = []
@@ -76,18 +39,17 @@ async function streamBytes(s: NodeJS.ReadableStream): Promise<Buffer> {
   return Buffer.concat(chunks)
 }
 
-const fake = fakeS3()
+const fake = fakeS3(BUCKET)
 let endpoint = ''
 let tmp = ''
 
 beforeAll(async () => {
-  await new Promise<void>((resolve) => fake.server.listen(0, '127.0.0.1', resolve))
-  endpoint = `http://127.0.0.1:${(fake.server.address() as AddressInfo).port}`
+  endpoint = await fake.start()
   tmp = await fs.mkdtemp(path.join(os.tmpdir(), 'overtone-storage-'))
 })
 
 afterAll(async () => {
-  await new Promise<void>((resolve) => fake.server.close(() => resolve()))
+  await fake.stop()
   if (tmp) await fs.rm(tmp, { recursive: true, force: true })
 })
 
@@ -180,6 +142,25 @@ describe.each(harnesses)('FileStorage contract: %s', (_name, h) => {
     await expect(storage.read(missing)).rejects.toMatchObject({ code: 'ENOENT' })
   })
 
+  it('remove deletes one blob and leaves the others; removing an absent blob is no error', async () => {
+    const storage = h.make()
+    const keep = await storage.put(Buffer.from('kept: a spectrum someone uploaded\n'))
+    const goneBytes = randomBytes(5_000)
+    const gone = await storage.put(goneBytes)
+    expect(await h.stored()).toHaveLength(2)
+    await storage.remove(gone.sha256)
+    expect(await storage.has(gone.sha256)).toBe(false)
+    await expect(storage.get(gone.sha256)).rejects.toMatchObject({ code: 'ENOENT' })
+    await expect(storage.read(gone.sha256)).rejects.toMatchObject({ code: 'ENOENT' })
+    expect(await h.stored()).toEqual([`${h.prefix}${keep.sha256.slice(0, 2)}/${keep.sha256.slice(2, 4)}/${keep.sha256}`])
+    expect((await storage.read(keep.sha256)).toString()).toBe('kept: a spectrum someone uploaded\n')
+    await expect(storage.remove(gone.sha256)).resolves.toBeUndefined()
+    await expect(storage.remove(sha(Buffer.from('never stored')))).resolves.toBeUndefined()
+    // The same bytes can be stored again afterwards, as new.
+    expect(await storage.put(goneBytes)).toEqual({ sha256: gone.sha256, sizeBytes: goneBytes.length, isNew: true })
+    expect((await storage.read(gone.sha256)).equals(goneBytes)).toBe(true)
+  })
+
   it('refuses anything that is not 64 lower-case hex digits before touching the back end', async () => {
     const storage = h.make()
     const before = h.requests()
@@ -188,6 +169,7 @@ describe.each(harnesses)('FileStorage contract: %s', (_name, h) => {
       await expect(storage.has(bad)).rejects.toThrow(/not a sha256/)
       await expect(storage.get(bad)).rejects.toThrow(/not a sha256/)
       await expect(storage.read(bad)).rejects.toThrow(/not a sha256/)
+      await expect(storage.remove(bad)).rejects.toThrow(/not a sha256/)
     }
     expect(h.requests()).toBe(before)
     expect(await h.stored()).toEqual([])
@@ -210,6 +192,11 @@ describe('S3Storage on the wire', () => {
     expect(obj.body.equals(data)).toBe(true)
     expect(obj.meta['content-type']).toBe('application/octet-stream')
     expect(obj.meta['x-amz-meta-sha256']).toBe(sha256)
+    fake.seen.length = 0
+    await storage.remove(sha256)
+    expect(fake.seen.map((r) => [r.method, r.path])).toEqual([['DELETE', `/${BUCKET}/${PREFIX}${sha256.slice(0, 2)}/${sha256.slice(2, 4)}/${sha256}`]])
+    expect(fake.seen[0].authorization.startsWith('AWS4-HMAC-SHA256')).toBe(true)
+    expect(fake.objects.size).toBe(0)
   })
 
   it('makes no request until first used', async () => {
