@@ -51,12 +51,25 @@ export function statementKind(text: string, params?: unknown): Kind {
 
 const textOf = (q: unknown) => (typeof q === 'string' ? q : ((q as { sql?: string })?.sql ?? ''))
 
+const bumpFailedListeners = new Set<(err: unknown) => void>()
+/**
+ * Called when a bump fails after its write has committed (the connection dropped, a lock wait timed
+ * out). The write is NOT failed for that — it has committed, and answering an error would invite a
+ * second, duplicate attempt — so each response cache empties itself instead (others' caches keep
+ * their answers up to RESPONSE_CACHE_TTL_MS). Answers a function that removes the listener.
+ */
+export function onBumpFailed(listener: (err: unknown) => void): () => void {
+  bumpFailedListeners.add(listener)
+  return () => bumpFailedListeners.delete(listener)
+}
+
 async function bump(on: Pick<Pool, 'query'>): Promise<void> {
   try {
     await on.query(BUMP)
   } catch (e) {
     // Before migration 0010 (migrate.ts itself, old test databases) there is nothing to count in.
-    if ((e as { errno?: number }).errno !== 1146) throw e
+    if ((e as { errno?: number }).errno === 1146) return
+    for (const listener of bumpFailedListeners) listener(e)
   }
 }
 

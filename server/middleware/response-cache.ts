@@ -2,7 +2,7 @@ import type { RequestHandler } from 'express'
 import { createHash } from 'node:crypto'
 import { LRUCache } from 'lru-cache'
 import type { AppContext } from '../context'
-import { sharedVersionReader } from '../db/data-version'
+import { onBumpFailed, sharedVersionReader } from '../db/data-version'
 
 /**
  * Response cache for read-heavy GET routes (the big lists, the global search, an array's page):
@@ -28,10 +28,18 @@ const caches = new WeakMap<AppContext, Cache | null>()
 function cacheOf(ctx: AppContext): Cache | null {
   if (!caches.has(ctx)) {
     const mb = ctx.env.RESPONSE_CACHE_MB
-    caches.set(ctx, mb > 0 ? {
-      entries: new LRUCache<string, Entry>({ maxSize: mb * 1024 * 1024, sizeCalculation: (e) => e.body.length + 128, ttl: ctx.env.RESPONSE_CACHE_TTL_MS }),
-      version: sharedVersionReader(ctx.pool),
-    } : null)
+    const entries = mb > 0 ? new LRUCache<string, Entry>({ maxSize: mb * 1024 * 1024, sizeCalculation: (e) => e.body.length + 128, ttl: ctx.env.RESPONSE_CACHE_TTL_MS }) : null
+    if (entries) {
+      // Held weakly: an app that is gone (tests make many) must not be kept alive by the listener.
+      const ref = new WeakRef(entries), log = ctx.log
+      const stop = onBumpFailed((err) => {
+        const live = ref.deref()
+        if (!live) return stop()
+        live.clear()
+        log(`data version not bumped after a write (${(err as Error).message}); response cache emptied`)
+      })
+    }
+    caches.set(ctx, entries ? { entries, version: sharedVersionReader(ctx.pool) } : null)
   }
   return caches.get(ctx)!
 }

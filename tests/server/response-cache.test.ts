@@ -3,7 +3,7 @@ import request from 'supertest'
 import type TestAgent from 'supertest/lib/agent'
 import { startTestApp, signedInAs } from './helpers'
 import { disk, makeChip, uid } from './inventory-helpers'
-import { readDataVersion, sharedVersionReader, statementKind } from '../../server/db/data-version'
+import { countWrites, onBumpFailed, readDataVersion, sharedVersionReader, statementKind } from '../../server/db/data-version'
 import { rememberSessionReads } from '../../server/auth/signed-in-cache'
 import { plainRows } from '../../server/db/plain-rows'
 import { arrays, chips } from '../../server/db/schema/index'
@@ -72,6 +72,31 @@ describe('statements and the data version', () => {
       throw new Error('changed my mind')
     })).rejects.toThrow('changed my mind')
     expect(await readDataVersion(a.pool)).toBe(v1 + 1)
+  })
+})
+
+describe('a failed bump', () => {
+  it('does not fail the committed write; the response caches are told instead', async () => {
+    const sent: string[] = []
+    const fakePool = {
+      query: async (text: string) => {
+        sent.push(text)
+        if (/data_version/.test(text)) throw Object.assign(new Error('Lock wait timeout exceeded'), { errno: 1205 })
+        return [{ affectedRows: 1 }]
+      },
+      execute: async () => [[]],
+      getConnection: async () => { throw new Error('not used') },
+    }
+    const heard: unknown[] = []
+    const stop = onBumpFailed((e) => heard.push(e))
+    try {
+      countWrites(fakePool as never)
+      await expect(fakePool.query('update `chips` set notes = 1')).resolves.toEqual([{ affectedRows: 1 }])
+      expect(sent).toHaveLength(2) // the write, then the bump
+      expect(heard).toHaveLength(1)
+      await fakePool.query('select 1')
+      expect(heard).toHaveLength(1) // a read bumps nothing
+    } finally { stop() }
   })
 })
 
