@@ -98,6 +98,17 @@ function watchConnection(conn: PoolConnection): PoolConnection {
       return result
     }
   }
+  // mysql2's own transaction calls (they do not go through query())
+  const tx = conn as unknown as Record<'beginTransaction' | 'commit' | 'rollback', () => Promise<void>>
+  const begin = tx.beginTransaction.bind(conn), commit = tx.commit.bind(conn), rollback = tx.rollback.bind(conn)
+  tx.beginTransaction = async () => { await begin(); inTx = true; wrote = false }
+  tx.rollback = async () => { await rollback(); inTx = false; wrote = false }
+  tx.commit = async () => {
+    await commit()
+    const counted = wrote
+    inTx = false; wrote = false
+    if (counted) await bump(conn)
+  }
   return conn
 }
 

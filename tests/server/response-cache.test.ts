@@ -72,6 +72,16 @@ describe('statements and the data version', () => {
       throw new Error('changed my mind')
     })).rejects.toThrow('changed my mind')
     expect(await readDataVersion(a.pool)).toBe(v1 + 1)
+
+    // mysql2's own transaction calls count the same way
+    const conn = await a.pool.getConnection()
+    try {
+      await conn.beginTransaction()
+      await conn.query('UPDATE `chips` SET `notes` = `notes` WHERE `id` = -1')
+      expect(await readDataVersion(b.pool)).toBe(v1 + 1)
+      await conn.commit()
+      expect(await readDataVersion(b.pool)).toBe(v1 + 2)
+    } finally { conn.release() }
   })
 })
 
