@@ -11,6 +11,8 @@ import { eq } from 'drizzle-orm'
 import { createDb } from '../server/db/client'
 import { users } from '../server/db/schema/index'
 import { startExport, waitForExport } from '../server/services/excel-export'
+import { createFileStorage } from '../server/services/storage'
+import { loadFileStorageEnv } from '../server/env'
 import type { BenchRow } from './engine'
 
 export interface ExportFigures { seconds: number; peakRssMb: number; baselineRssMb: number; sizeMb: number; rows: number; phase: string; error: string | null }
@@ -30,8 +32,8 @@ export async function measureExport(url: string, dataDir: string, email: string)
     let peak = 0
     const timer = setInterval(() => { peak = Math.max(peak, process.memoryUsage().rss) }, 25)
     const t0 = performance.now()
-    const job = await startExport(db, dataDir, actor)
-    const done = await waitForExport(job.id, 30 * 60_000)
+    const job = await startExport(db, createFileStorage(dataDir, loadFileStorageEnv()), dataDir, actor)
+    const done = await waitForExport(db, job.id, 30 * 60_000)
     const seconds = (performance.now() - t0) / 1000
     clearInterval(timer)
     const peakRssMb = Math.max(peak / 1048576, vmHwmMb())

@@ -7,6 +7,7 @@ import { currentUser, requireAbility } from '../auth/guards'
 import { BadRequestError, fieldError } from '../errors'
 import { XLSX_MIME } from '../services/excel-style'
 import { getExport, openExport, startExport } from '../services/excel-export'
+import { createFileStorage } from '../services/storage'
 import { buildTemplate } from '../services/excel-template'
 import { importWorkbook } from '../services/excel-import'
 
@@ -30,14 +31,15 @@ const importQuery = z.object({ dryRun: z.enum(['true', 'false']).default('true')
 /** Mounted under /api/excel: inventory export (jobs with progress), import template, legacy import. */
 export function excelRoutes(ctx: AppContext): Router {
   const r = Router()
+  const storage = createFileStorage(ctx.env.DATA_DIR, ctx.env)
   r.post('/exports', requireAbility('export', 'Inventory'), async (req, res) => {
-    res.status(202).json(await startExport(ctx.db, ctx.env.DATA_DIR, currentUser(req)))
+    res.status(202).json(await startExport(ctx.db, storage, ctx.env.DATA_DIR, currentUser(req)))
   })
-  r.get('/exports/:id', requireAbility('export', 'Inventory'), (req, res) => {
-    res.json(getExport(parse(jobParams, req.params).id, currentUser(req)))
+  r.get('/exports/:id', requireAbility('export', 'Inventory'), async (req, res) => {
+    res.json(await getExport(ctx.db, parse(jobParams, req.params).id, currentUser(req)))
   })
   r.get('/exports/:id/download', requireAbility('export', 'Inventory'), async (req, res) => {
-    const { job, stream } = await openExport(parse(jobParams, req.params).id, currentUser(req))
+    const { job, stream } = await openExport(ctx.db, storage, parse(jobParams, req.params).id, currentUser(req))
     res.attachment(job.fileName)
     res.set({ 'Content-Type': XLSX_MIME, 'Cache-Control': 'private, no-store', ...(job.sizeBytes ? { 'Content-Length': String(job.sizeBytes) } : {}) })
     stream.pipe(res)

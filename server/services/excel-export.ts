@@ -1,37 +1,82 @@
 import ExcelJS from 'exceljs'
 import { randomUUID } from 'node:crypto'
-import { createReadStream, type ReadStream } from 'node:fs'
 import fs from 'node:fs/promises'
 import path from 'node:path'
-import { sql } from 'drizzle-orm'
+import { and, eq, gte, lt, notInArray, sql } from 'drizzle-orm'
 import type { Db } from '../db/client'
-import type { User } from '../db/schema/index'
+import { exportJobs, files, type ExportJobRow, type User } from '../db/schema/index'
 import type { ExportJob, ExportPhase } from '../../shared/excel'
 import { ENGINE_VERSION } from '../../shared/engine'
 import { NotFoundError, ConflictError } from '../errors'
+import type { FileStorage } from './storage'
 import { addStyledSheet, rememberPlainStyles } from './excel-style'
 import { writeArrays, writeChips, writeLocations, writeMaterials, writeSessions, writeWafers, type SheetContext } from './excel-export-sheets'
 
 /**
  * Inventory export jobs. A job streams one workbook (exceljs WorkbookWriter, rows committed as they
- * are written) to a temp file `${DATA_DIR}/exports/<id>.xlsx`, updating its progress as it goes.
+ * are written) to a temp file `${DATA_DIR}/exports/<id>.xlsx` on the disk of the app server that
+ * runs it; when it is complete the workbook goes into the shared FileStorage (content-addressed,
+ * like uploads) and the temp file is removed.
  *
- * Job state lives IN MEMORY of the app server that started the job: with several app servers
- * behind a balancer, the progress and download requests must reach the same server (sticky
- * sessions), or the client sees 404 "no such export". Files and jobs expire after an hour; a
- * restarted server forgets its jobs (the files are removed by the next sweep).
+ * Job state is a row of `export_jobs` in MariaDB, so any app server answers the progress poll and
+ * the download (which streams from the FileStorage): app servers keep no export state. The running
+ * job writes its row at every phase change, its progress at most every PROGRESS_MS, and at least
+ * every HEARTBEAT_MS (updated_at is its heartbeat). A job not done or failed whose row has not
+ * been written for STALE_MS is shown as failed (its server stopped) and no longer blocks its
+ * owner's next export; the next sweep marks it failed in the table, so a late write of that server
+ * cannot revive it (its writes only touch rows not yet done or failed, and it gives up when its row
+ * is gone or failed). Jobs and their workbooks expire an hour after they started: swept when an
+ * export starts, never removing a blob that a `files` row (an upload of the same bytes) or another
+ * job still names. App servers' clocks must agree to well within STALE_MS.
  */
 const TTL_MS = 60 * 60 * 1000
-interface Job extends ExportJob { userId: number; file: string; createdMs: number }
-const jobs = new Map<string, Job>()
+/** A job whose server has not written its row for this long is shown as failed. */
+export const STALE_MS = 2 * 60 * 1000
+/** The running job writes its row at least this often, even when a step makes no progress. */
+const HEARTBEAT_MS = 15_000
+/** And its progress at most this often (rows are counted in memory in between). */
+const PROGRESS_MS = 500
+const STALE_ERROR = 'The export stopped: the app server writing it stopped; start a new export.'
+const FINISHED: ExportPhase[] = ['done', 'failed']
 
 const exportDir = (dataDir: string) => path.resolve(dataDir, 'exports')
-const publicJob = ({ userId: _u, file: _f, createdMs: _c, ...job }: Job): ExportJob => job
 const stamp = (d: Date) => d.toISOString().slice(0, 16).replace(/[-:]/g, '').replace('T', '-')
+const isStale = (row: ExportJobRow, now: number) => !FINISHED.includes(row.phase) && now - row.updatedAt.getTime() > STALE_MS
 
-/** Drop jobs and temp files older than an hour (also files left by a previous run of the server). */
-export async function sweepExports(dataDir: string, now = Date.now()): Promise<void> {
-  for (const [id, job] of jobs) if (now - job.createdMs > TTL_MS) { jobs.delete(id); await fs.rm(job.file, { force: true }) }
+/** The API shape of a job row; a stale running job is reported failed. */
+function publicJob(row: ExportJobRow, now = Date.now()): ExportJob {
+  const stale = isStale(row, now)
+  return {
+    id: row.id, phase: stale ? 'failed' : row.phase, done: row.done, total: row.total,
+    startedAt: row.startedAt.toISOString(),
+    finishedAt: stale ? row.updatedAt.toISOString() : (row.finishedAt?.toISOString() ?? null),
+    fileName: row.fileName, sizeBytes: row.sizeBytes, error: stale ? STALE_ERROR : row.error,
+  }
+}
+
+/** Are these bytes still named by an uploaded file (a `files` row, retired or not) or by an export job younger than an hour? */
+async function blobInUse(db: Db, sha256: string, now: number): Promise<boolean> {
+  const [rows] = (await db.execute(sql`SELECT EXISTS (SELECT 1 FROM ${files} WHERE ${files.sha256} = ${sha256})
+    OR EXISTS (SELECT 1 FROM ${exportJobs} WHERE ${exportJobs.blobSha256} = ${sha256} AND ${exportJobs.startedAt} >= ${new Date(now - TTL_MS)}) AS used`)) as unknown as [{ used: number | string }[]]
+  return Number(rows[0].used) === 1
+}
+
+/**
+ * Expire exports: mark jobs whose server stopped as failed; remove jobs older than an hour with
+ * their workbooks (unless the same bytes are still named elsewhere); remove temp files older than
+ * an hour (left by a server that stopped mid-export). A job whose workbook cannot be removed now
+ * (storage unreachable) keeps its row and is tried again by the next sweep.
+ */
+export async function sweepExports(db: Db, storage: FileStorage, dataDir: string, now = Date.now()): Promise<void> {
+  await db.update(exportJobs).set({ phase: 'failed', error: STALE_ERROR, finishedAt: sql`${exportJobs.updatedAt}` })
+    .where(and(notInArray(exportJobs.phase, FINISHED), lt(exportJobs.updatedAt, new Date(now - STALE_MS))))
+  const expired = await db.select({ id: exportJobs.id, blob: exportJobs.blobSha256 }).from(exportJobs).where(lt(exportJobs.startedAt, new Date(now - TTL_MS)))
+  for (const job of expired) {
+    try {
+      if (job.blob && !(await blobInUse(db, job.blob, now))) await storage.remove(job.blob)
+      await db.delete(exportJobs).where(eq(exportJobs.id, job.id))
+    } catch { /* kept for the next sweep */ }
+  }
   const dir = exportDir(dataDir)
   const names = await fs.readdir(dir).catch(() => [] as string[])
   for (const name of names) {
@@ -64,78 +109,140 @@ function writeAbout(book: Pick<ExcelJS.Workbook, 'addWorksheet'>, actor: User, a
   ;(ws as ExcelJS.Worksheet & { commit?: () => void }).commit?.()
 }
 
-async function run(db: Db, actor: User, job: Job) {
-  const set = (phase: ExportPhase) => { job.phase = phase }
+/**
+ * The running side of a job: its progress in memory, written to its row one write after another
+ * (each write sends the latest state). Writes touch the row only while it is not done or failed;
+ * once a write finds no such row (marked failed as stale, or swept) the job is `gone` and stops.
+ */
+function jobWriter(db: Db, id: string) {
+  const state = { phase: 'queued' as ExportPhase, done: 0, total: 0 }
+  let chain: Promise<unknown> = Promise.resolve()
+  let lastWrite = Date.now()
+  const w = {
+    state,
+    gone: false,
+    /** Write the state (and `extra` columns) after any write already queued; answers whether the row was still running. */
+    write(extra: Partial<Pick<ExportJobRow, 'finishedAt' | 'sizeBytes' | 'error' | 'blobSha256'>> = {}): Promise<boolean> {
+      lastWrite = Date.now()
+      const next = chain.then(async () => {
+        if (w.gone) return false
+        const [res] = await db.update(exportJobs).set({ phase: state.phase, done: state.done, total: state.total, ...extra, updatedAt: new Date() })
+          .where(and(eq(exportJobs.id, id), notInArray(exportJobs.phase, FINISHED)))
+        // affectedRows counts matched rows (mysql2 connects with FOUND_ROWS), changed or not.
+        if ((res as { affectedRows: number }).affectedRows !== 1) w.gone = true
+        return !w.gone
+      })
+      chain = next.catch(() => undefined)
+      return next
+    },
+    /** A new phase, written at once; throws when the job is gone. */
+    async phase(phase: ExportPhase) {
+      state.phase = phase
+      if (!(await w.write())) throw new Error('the job was stopped')
+    },
+    /** Rows written: counted in memory, written at most every PROGRESS_MS (a failed write is retried by the next). */
+    tick(rows: number) {
+      state.done = Math.min(state.total, state.done + rows)
+      if (Date.now() - lastWrite >= PROGRESS_MS) void w.write().catch(() => undefined)
+    },
+    heartbeat: () => void w.write().catch(() => undefined),
+  }
+  return w
+}
+
+async function run(db: Db, storage: FileStorage, actor: User, id: string, file: string) {
+  const job = jobWriter(db, id)
+  const heartbeat = setInterval(job.heartbeat, HEARTBEAT_MS)
+  heartbeat.unref()
+  let stored: string | null = null
   try {
-    set('counting')
-    job.total = await countRows(db)
-    await fs.mkdir(path.dirname(job.file), { recursive: true })
-    const book = new ExcelJS.stream.xlsx.WorkbookWriter({ filename: job.file, useStyles: true, useSharedStrings: false })
+    await job.phase('counting')
+    job.state.total = await countRows(db)
+    await fs.mkdir(path.dirname(file), { recursive: true })
+    const book = new ExcelJS.stream.xlsx.WorkbookWriter({ filename: file, useStyles: true, useSharedStrings: false })
     rememberPlainStyles(book)
     book.creator = actor.name
     book.created = new Date()
-    set('About')
+    await job.phase('About')
     writeAbout(book, actor, new Date())
-    const ctx: SheetContext = { db, book, tick: (n) => { job.done = Math.min(job.total, job.done + n) } }
+    const ctx: SheetContext = { db, book, tick: job.tick }
     const sheets: [ExportPhase, (c: SheetContext) => Promise<void>][] = [
       ['Materials', writeMaterials], ['Wafers', writeWafers], ['Chips', writeChips], ['Arrays', writeArrays], ['Sessions', writeSessions], ['Locations', writeLocations],
     ]
-    for (const [phase, write] of sheets) { set(phase); await write(ctx) }
+    for (const [phase, write] of sheets) { await job.phase(phase); await write(ctx) }
     await book.commit()
-    job.sizeBytes = (await fs.stat(job.file)).size
-    job.done = job.total
-    job.finishedAt = new Date().toISOString()
-    set('done')
+    // The finished workbook (tens of MB at most) into the shared storage, then off the local disk.
+    const { sha256, sizeBytes } = await storage.put(await fs.readFile(file))
+    stored = sha256
+    await fs.rm(file, { force: true })
+    job.state.done = job.state.total
+    job.state.phase = 'done'
+    if (!(await job.write({ finishedAt: new Date(), sizeBytes, blobSha256: sha256 }))) throw new Error('the job was stopped')
   } catch (err) {
-    job.error = `The export failed: ${(err as Error).message}`
-    job.finishedAt = new Date().toISOString()
-    set('failed')
-    await fs.rm(job.file, { force: true })
+    await fs.rm(file, { force: true }).catch(() => undefined)
+    if (stored) await removeUnlessInUse(db, storage, stored)
+    if (!job.gone) {
+      job.state.phase = 'failed'
+      await job.write({ error: `The export failed: ${(err as Error).message}`.slice(0, 1000), finishedAt: new Date() }).catch(() => undefined)
+    }
+  } finally {
+    clearInterval(heartbeat)
   }
+}
+
+/** Remove a workbook this job stored but could not record, unless the same bytes are named elsewhere. */
+async function removeUnlessInUse(db: Db, storage: FileStorage, sha256: string) {
+  try {
+    if (!(await blobInUse(db, sha256, Date.now()))) await storage.remove(sha256)
+  } catch { /* nothing names it: at worst an unreferenced blob stays */ }
 }
 
 /** Start an export job for `actor`; answers at once, the workbook is written in the background. */
-export async function startExport(db: Db, dataDir: string, actor: User): Promise<ExportJob> {
-  await sweepExports(dataDir)
-  const running = [...jobs.values()].find((j) => j.userId === actor.id && !['done', 'failed'].includes(j.phase))
-  if (running) throw new ConflictError('Your previous export is still running; wait for it to finish.')
-  const id = randomUUID()
+export async function startExport(db: Db, storage: FileStorage, dataDir: string, actor: User): Promise<ExportJob> {
   const now = new Date()
-  const job: Job = {
-    id, phase: 'queued', done: 0, total: 0, startedAt: now.toISOString(), finishedAt: null, fileName: `overtone-inventory-${stamp(now)}.xlsx`,
-    sizeBytes: null, error: null, userId: actor.id, file: path.join(exportDir(dataDir), `${id}.xlsx`), createdMs: now.getTime(),
+  const [running] = await db.select({ id: exportJobs.id }).from(exportJobs)
+    .where(and(eq(exportJobs.userId, actor.id), notInArray(exportJobs.phase, FINISHED), gte(exportJobs.updatedAt, new Date(now.getTime() - STALE_MS)))).limit(1)
+  if (running) throw new ConflictError('Your previous export is still running; wait for it to finish.')
+  await sweepExports(db, storage, dataDir, now.getTime())
+  const row: ExportJobRow = {
+    id: randomUUID(), userId: actor.id, phase: 'queued', done: 0, total: 0, startedAt: now, finishedAt: null,
+    fileName: `overtone-inventory-${stamp(now)}.xlsx`, sizeBytes: null, error: null, blobSha256: null, updatedAt: now,
   }
-  jobs.set(id, job)
-  void run(db, actor, job)
-  return publicJob(job)
+  await db.insert(exportJobs).values(row)
+  void run(db, storage, actor, row.id, path.join(exportDir(dataDir), `${row.id}.xlsx`))
+  return publicJob(row, now.getTime())
 }
 
-/** A job of `actor` (another person's job is a 404: jobs belong to whoever started them). */
-function ownJob(id: string, actor: User): Job {
-  const job = jobs.get(id)
-  if (!job || job.userId !== actor.id) throw new NotFoundError('No such export (exports are kept for an hour, on the server that made them).')
-  return job
+/** A job of `actor` younger than an hour (another person's job is a 404: jobs belong to whoever started them). */
+async function ownJob(db: Db, id: string, actor: User): Promise<ExportJobRow> {
+  const [row] = await db.select().from(exportJobs).where(eq(exportJobs.id, id))
+  if (!row || row.userId !== actor.id || Date.now() - row.startedAt.getTime() > TTL_MS) throw new NotFoundError('No such export (exports are kept for an hour).')
+  return row
 }
 
-export function getExport(id: string, actor: User): ExportJob {
-  return publicJob(ownJob(id, actor))
+export async function getExport(db: Db, id: string, actor: User): Promise<ExportJob> {
+  return publicJob(await ownJob(db, id, actor))
 }
 
-/** The finished workbook as a stream (409 while it is still being written). */
-export async function openExport(id: string, actor: User): Promise<{ job: ExportJob; stream: ReadStream }> {
-  const job = ownJob(id, actor)
+/** The finished workbook as a stream from the FileStorage (409 while it is still being written or when it failed). */
+export async function openExport(db: Db, storage: FileStorage, id: string, actor: User): Promise<{ job: ExportJob; stream: NodeJS.ReadableStream }> {
+  const row = await ownJob(db, id, actor)
+  const job = publicJob(row)
   if (job.phase !== 'done') throw new ConflictError(job.phase === 'failed' ? (job.error ?? 'The export failed.') : 'The export is not finished yet.')
-  await fs.access(job.file).catch(() => { throw new NotFoundError('The export file has expired; start a new export.') })
-  return { job: publicJob(job), stream: createReadStream(job.file) }
+  const expired = () => new NotFoundError('The export file has expired; start a new export.')
+  if (!row.blobSha256) throw expired()
+  const stream = await storage.get(row.blobSha256).catch((err: NodeJS.ErrnoException) => { throw err.code === 'ENOENT' ? expired() : err })
+  return { job, stream }
 }
 
-/** For tests: wait until a job is done or failed. */
-export async function waitForExport(id: string, timeoutMs = 60_000): Promise<ExportJob> {
+/** For tests and the bench: wait until a job is done or failed (read from the database, whichever server runs it). */
+export async function waitForExport(db: Db, id: string, timeoutMs = 60_000): Promise<ExportJob> {
   const t0 = Date.now()
   for (;;) {
-    const job = jobs.get(id)
-    if (!job) throw new NotFoundError()
-    if (job.phase === 'done' || job.phase === 'failed') return publicJob(job)
+    const [row] = await db.select().from(exportJobs).where(eq(exportJobs.id, id))
+    if (!row) throw new NotFoundError()
+    const job = publicJob(row)
+    if (job.phase === 'done' || job.phase === 'failed') return job
     if (Date.now() - t0 > timeoutMs) throw new Error('export timed out')
     await new Promise((r) => setTimeout(r, 50))
   }
