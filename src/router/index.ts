@@ -43,10 +43,11 @@ router.afterEach((to) => {
 })
 
 // The one place where an expired session (401 from any API call but /auth/me and /auth/login)
-// sends the person back to sign in, and then back to where they were.
+// sends the person back to sign in, and then back to where they were: the history's location,
+// which also has a query a page mirrored there (mirrorQuery) after it was opened.
 setUnauthorizedHandler(() => {
   useAuthStore().setUser(null)
   const current = router.currentRoute.value
   if (current.meta.isPublic) return
-  void router.push({ name: 'sign-in', query: { redirect: current.fullPath } })
+  void router.push({ name: 'sign-in', query: { redirect: router.options.history.location } })
 })
