@@ -44,6 +44,8 @@ for (const viewport of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800,
     // A bad direction comes back as a red hint under its field.
     await page.getByLabel('Cut normal').fill('(1x1)')
     await expect(page.getByText(/cannot read direction/).first()).toBeVisible()
+    await expect(page.getByTestId('result-needs-fix')).toBeVisible()
+    await expect(page.getByText(/crystal\.normal:/)).toHaveCount(0)
     await screen(page, `channels-field-error-${viewport.tag}`)
 
     // Planner: rank options for co-rotating emission.
