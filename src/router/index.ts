@@ -6,7 +6,8 @@ import { routes, type RouteName } from './routes'
 export const router = createRouter({
   history: createWebHistory(),
   routes,
-  scrollBehavior: () => ({ top: 0 }),
+  // Back/forward restore the position; a change of query only (a tab, a filter) keeps it; a new page starts at the top.
+  scrollBehavior: (to, from, saved) => saved ?? (to.path === from.path ? false : { top: 0 }),
 })
 
 /** A route location that can only be built from a known route name. */
