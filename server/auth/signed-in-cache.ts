@@ -15,17 +15,31 @@ export const SIGNED_IN_TTL_MS = 2000
 
 const people = new LRUCache<number, User>({ max: 5000, ttl: SIGNED_IN_TTL_MS })
 
+/**
+ * Write generations: a read that was on its way while this server wrote the same row (a sign-out,
+ * a role change) must not put the old row back when it lands. Each write raises the key's number; a
+ * read keeps its answer only if the number is the same as when it started.
+ */
+class Generations<K extends string | number> {
+  private readonly n = new LRUCache<K, number>({ max: 50_000, ttl: 10 * 60_000 })
+  of(key: K): number { return this.n.get(key) ?? 0 }
+  raise(key: K): void { this.n.set(key, this.of(key) + 1) }
+}
+const userWrites = new Generations<number>()
+
 /** The person `id`, from this server's memory if read in the last moment, else from `load`. */
 export async function rememberedUser(id: number, load: (id: number) => Promise<User | undefined>): Promise<User | undefined> {
   const hit = people.get(id)
   if (hit) return hit
+  const gen = userWrites.of(id)
   const u = await load(id)
-  if (u) people.set(id, u)
+  if (u && userWrites.of(id) === gen) people.set(id, u)
   return u
 }
 
 /** Drop the remembered row of a person whose row this server has just written. */
 export function forgetUser(id: number): void {
+  userWrites.raise(id)
   people.delete(id)
 }
 
@@ -44,23 +58,28 @@ export interface CallbackStore {
  */
 export function rememberSessionReads(store: CallbackStore, ttlMs = SIGNED_IN_TTL_MS): void {
   const seen = new LRUCache<string, string>({ max: 20_000, ttl: ttlMs })
+  const writes = new Generations<string>()
   const get = store.get.bind(store), set = store.set.bind(store), destroy = store.destroy.bind(store)
   store.get = (sid, cb) => {
     const hit = seen.get(sid)
     if (hit !== undefined) { cb(undefined, JSON.parse(hit)); return }
+    const gen = writes.of(sid)
     get(sid, (err, data) => {
-      if (!err && data) seen.set(sid, JSON.stringify(data))
+      if (!err && data && writes.of(sid) === gen) seen.set(sid, JSON.stringify(data))
       cb(err, data)
     })
   }
   store.set = (sid, data, cb) => {
+    writes.raise(sid)
     seen.delete(sid)
+    const gen = writes.of(sid)
     set(sid, data, (err) => {
-      if (!err) seen.set(sid, JSON.stringify(data))
+      if (!err && writes.of(sid) === gen) seen.set(sid, JSON.stringify(data))
       cb?.(err)
     })
   }
   store.destroy = (sid, cb) => {
+    writes.raise(sid)
     seen.delete(sid)
     destroy(sid, cb)
   }

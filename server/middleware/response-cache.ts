@@ -13,8 +13,8 @@ import { onBumpFailed, sharedVersionReader } from '../db/data-version'
  * usually from its query cache; concurrent requests share a read sent after they arrived).
  *
  * `X-Response-Cache: hit | miss | bypass` says what happened. A request with `Cache-Control:
- * no-cache` (a hard reload, or the bench's uncached runs) skips the cache. Only 200 answers are
- * kept. Per person, because what a person may read depends on their roles.
+ * no-cache` (a hard reload, or the bench's uncached runs) or a URL over MAX_URL skips the cache.
+ * Only 200 answers are kept. Per person, because what a person may read depends on their roles.
  */
 /** The answer as sent (bytes) with its weak ETag (computed once, in the form Express gives its own). */
 interface Entry { version: number; body: Buffer; etag: string }
@@ -28,7 +28,11 @@ const caches = new WeakMap<AppContext, Cache | null>()
 function cacheOf(ctx: AppContext): Cache | null {
   if (!caches.has(ctx)) {
     const mb = ctx.env.RESPONSE_CACHE_MB
-    const entries = mb > 0 ? new LRUCache<string, Entry>({ maxSize: mb * 1024 * 1024, sizeCalculation: (e) => e.body.length + 128, ttl: ctx.env.RESPONSE_CACHE_TTL_MS }) : null
+    // Sized by what an entry really holds (its key too: a URL can be long), and at most MAX_ENTRIES.
+    const entries = mb > 0 ? new LRUCache<string, Entry>({
+      max: MAX_ENTRIES, maxSize: mb * 1024 * 1024, sizeCalculation: (e, key) => e.body.length + e.etag.length + key.length * 2 + 160,
+      ttl: ctx.env.RESPONSE_CACHE_TTL_MS,
+    }) : null
     if (entries) {
       // Held weakly: an app that is gone (tests make many) must not be kept alive by the listener.
       const ref = new WeakRef(entries), log = ctx.log
@@ -45,12 +49,15 @@ function cacheOf(ctx: AppContext): Cache | null {
 }
 
 export const CACHE_HEADER = 'X-Response-Cache'
+const MAX_ENTRIES = 50_000
+/** Longer URLs are answered but not kept (no list or search needs one; junk parameters should not fill the cache). */
+const MAX_URL = 2048
 
 /** Put after the route's permission check: `r.get('/arrays', requireAbility(…), cachedJson(ctx), handler)`. */
 export function cachedJson(ctx: AppContext): RequestHandler {
   return (req, res, next) => {
     const cache = cacheOf(ctx)
-    if (!cache || /no-cache|no-store/i.test(req.get('cache-control') ?? '')) { res.set(CACHE_HEADER, 'bypass'); return next() }
+    if (!cache || req.originalUrl.length > MAX_URL || /no-cache|no-store/i.test(req.get('cache-control') ?? '')) { res.set(CACHE_HEADER, 'bypass'); return next() }
     const key = `${(req.user as { id?: number } | undefined)?.id ?? 0}|${req.originalUrl}`
     cache.version().then((version) => {
       if (version === null) { res.set(CACHE_HEADER, 'bypass'); return next() }
@@ -63,7 +70,10 @@ export function cachedJson(ctx: AppContext): RequestHandler {
       const json = res.json.bind(res)
       res.json = (body: unknown) => {
         if (res.statusCode !== 200) return json(body)
-        const bytes = Buffer.from(JSON.stringify(body))
+        // Its own memory (a small Buffer.from would be a slice of Node's shared 8 kB pool, kept whole).
+        const text = JSON.stringify(body)
+        const bytes = Buffer.allocUnsafeSlow(Buffer.byteLength(text))
+        bytes.write(text)
         const etag = weakEtag(bytes)
         cache.entries.set(key, { version, body: bytes, etag })
         return res.set('ETag', etag).type('json').send(bytes)

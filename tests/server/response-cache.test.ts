@@ -4,7 +4,7 @@ import type TestAgent from 'supertest/lib/agent'
 import { startTestApp, signedInAs } from './helpers'
 import { disk, makeChip, uid } from './inventory-helpers'
 import { countWrites, onBumpFailed, readDataVersion, sharedVersionReader, statementKind } from '../../server/db/data-version'
-import { rememberSessionReads } from '../../server/auth/signed-in-cache'
+import { forgetUser, rememberedUser, rememberSessionReads } from '../../server/auth/signed-in-cache'
 import { plainRows } from '../../server/db/plain-rows'
 import { arrays, chips } from '../../server/db/schema/index'
 import { eq, sql } from 'drizzle-orm'
@@ -173,6 +173,9 @@ describe('response cache', () => {
     const lead = await signedInAs(a.app, 'group_lead')
     expect(cacheOf(await lead.get(url))).toBe('miss')
     expect(cacheOf(await fabA.get(url).set('Cache-Control', 'no-cache'))).toBe('bypass')
+    // junk parameters long enough to fill the cache are answered, not kept
+    const long = await fabA.get(`${url}&junk=${'x'.repeat(3000)}`)
+    expect([long.status, cacheOf(long)]).toEqual([200, 'bypass'])
     const bad = '/api/arrays?shape=not-a-shape'
     expect((await fabA.get(bad)).status).toBe(400)
     const again = await fabA.get(bad)
@@ -217,6 +220,43 @@ describe('signed-in cache', () => {
     store.get('missing', () => {})
     store.get('missing', () => {})
     expect(reads).toBe(4) // a miss is never remembered
+  })
+})
+
+describe('signed-in cache races', () => {
+  it('a read on its way while this server signs the session out does not bring it back', () => {
+    const rows = new Map<string, string>([['s2', JSON.stringify({ passport: { user: 7 } })]])
+    const pending: (() => void)[] = []
+    let reads = 0
+    const store = {
+      get: (sid: string, cb: (e?: unknown, v?: unknown) => void) => { reads++; const r = rows.get(sid); pending.push(() => cb(undefined, r ? JSON.parse(r) : null)) },
+      set: (sid: string, data: unknown, cb?: (e?: unknown) => void) => { rows.set(sid, JSON.stringify(data)); cb?.() },
+      destroy: (sid: string, cb?: (e?: unknown) => void) => { rows.delete(sid); cb?.() },
+    }
+    rememberSessionReads(store, 60_000)
+    store.get('s2', () => {}) // read sent: sees the signed-in row
+    store.destroy('s2') // sign-out on this server
+    pending.shift()!() // the old answer lands after the sign-out
+    let after: unknown = 'unset'
+    store.get('s2', (_e, v) => { after = v })
+    expect(reads).toBe(2) // asked the store again instead of trusting the late answer
+    pending.shift()!()
+    expect(after).toBeNull()
+  })
+
+  it('a person read on its way while this server changes the person is not remembered', async () => {
+    const id = 900_000 + Math.floor(Math.random() * 1000)
+    let release: (u: unknown) => void = () => {}
+    let loads = 0
+    const load = (active: boolean) => () => { loads++; return new Promise((r) => { release = r }).then(() => ({ id, active }) as never) }
+    const first = rememberedUser(id, load(true))
+    forgetUser(id) // e.g. deactivated by an admin on this server
+    release(undefined)
+    expect((await first as unknown as { active: boolean }).active).toBe(true) // that request already had it
+    const second = rememberedUser(id, load(false))
+    release(undefined)
+    expect((await second as unknown as { active: boolean }).active).toBe(false)
+    expect(loads).toBe(2)
   })
 })
 
