@@ -4,7 +4,7 @@ import fs from 'node:fs/promises'
 import path from 'node:path'
 import { and, eq, gte, lt, notInArray, sql } from 'drizzle-orm'
 import type { Db } from '../db/client'
-import { exportJobs, files, type ExportJobRow, type User } from '../db/schema/index'
+import { exportJobs, files, users, type ExportJobRow, type User } from '../db/schema/index'
 import type { ExportJob, ExportPhase } from '../../shared/excel'
 import { ENGINE_VERSION } from '../../shared/engine'
 import { NotFoundError, ConflictError } from '../errors'
@@ -200,15 +200,21 @@ async function removeUnlessInUse(db: Db, storage: FileStorage, sha256: string) {
 /** Start an export job for `actor`; answers at once, the workbook is written in the background. */
 export async function startExport(db: Db, storage: FileStorage, dataDir: string, actor: User): Promise<ExportJob> {
   const now = new Date()
-  const [running] = await db.select({ id: exportJobs.id }).from(exportJobs)
+  const runningOf = (on: Pick<Db, 'select'>) => on.select({ id: exportJobs.id }).from(exportJobs)
     .where(and(eq(exportJobs.userId, actor.id), notInArray(exportJobs.phase, FINISHED), gte(exportJobs.updatedAt, new Date(now.getTime() - STALE_MS)))).limit(1)
-  if (running) throw new ConflictError('Your previous export is still running; wait for it to finish.')
+  const refuse = () => new ConflictError('Your previous export is still running; wait for it to finish.')
+  if ((await runningOf(db)).length) throw refuse() // before the sweep: a refused request writes nothing
   await sweepExports(db, storage, dataDir, now.getTime())
   const row: ExportJobRow = {
     id: randomUUID(), userId: actor.id, phase: 'queued', done: 0, total: 0, startedAt: now, finishedAt: null,
     fileName: `overtone-inventory-${stamp(now)}.xlsx`, sizeBytes: null, error: null, blobSha256: null, updatedAt: now,
   }
-  await db.insert(exportJobs).values(row)
+  // Checked again with the person's row locked: a double click, or two app servers, start one job.
+  await db.transaction(async (tx) => {
+    await tx.select({ id: users.id }).from(users).where(eq(users.id, actor.id)).for('update')
+    if ((await runningOf(tx)).length) throw refuse()
+    await tx.insert(exportJobs).values(row)
+  })
   void run(db, storage, actor, row.id, path.join(exportDir(dataDir), `${row.id}.xlsx`))
   return publicJob(row, now.getTime())
 }

@@ -14,6 +14,7 @@ import { binary, runExport } from './excel-helpers'
 import { makePerson, retirePeople, NOTICE_PASSWORD } from './notices-helpers'
 import { makeSample } from './fixtures-measurements'
 import { fakeS3 } from './fake-s3'
+import { waitForExport } from '../../server/services/excel-export'
 
 /**
  * Export jobs live in MariaDB (export_jobs) and finished workbooks in the shared FileStorage, so
@@ -95,6 +96,20 @@ describe('two app servers, each with its own disk, sharing MariaDB and an S3 buc
     } finally {
       await first.stop()
     }
+  })
+})
+
+describe('starting twice at once', () => {
+  it('starts one job: a double click or two app servers cannot run two exports of one person', async () => {
+    const lead = await newLead()
+    const other = await startTestApp()
+    try {
+      const onOther = await signedInAs(other.app, lead.email, NOTICE_PASSWORD)
+      const answers = await Promise.all([lead.agent.post('/api/excel/exports').send({}), onOther.post('/api/excel/exports').send({}), lead.agent.post('/api/excel/exports').send({})])
+      expect(answers.map((a) => a.status).sort()).toEqual([202, 409, 409])
+      const started = answers.find((a) => a.status === 202)!.body as ExportJob
+      expect((await waitForExport(t.db, started.id)).phase).toBe('done')
+    } finally { await other.stop() }
   })
 })
 
