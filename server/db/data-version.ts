@@ -34,7 +34,8 @@ export function statementKind(text: string, params?: unknown): Kind {
   const table = m?.[2] === '??' && Array.isArray(params) ? String(params[0]) : (m?.[2] ?? '')
   const verb = (m?.[1] ?? '').toLowerCase()
   switch (verb) {
-    case 'select': case 'show': case 'explain': case 'describe': case 'set': case 'with': case 'do': case 'help': case 'savepoint': case 'release':
+    // (WITH is counted below: MySQL allows `WITH … UPDATE`; MariaDB reads seldom start with it here.)
+    case 'select': case 'show': case 'explain': case 'describe': case 'set': case 'do': case 'help': case 'savepoint': case 'release':
       return 'read'
     case 'begin': case 'start':
       return 'begin'
@@ -69,7 +70,9 @@ async function bump(on: Pick<Pool, 'query'>): Promise<void> {
   } catch (e) {
     // Before migration 0010 (migrate.ts itself, old test databases) there is nothing to count in.
     if ((e as { errno?: number }).errno === 1146) return
-    for (const listener of bumpFailedListeners) listener(e)
+    for (const listener of bumpFailedListeners) {
+      try { listener(e) } catch { /* a listener must never fail a write that has committed */ }
+    }
   }
 }
 
@@ -86,7 +89,16 @@ function watchConnection(conn: PoolConnection): PoolConnection {
     const original = c[method].bind(conn) as (...a: unknown[]) => Promise<unknown>
     ;(c as unknown as Record<string, unknown>)[method] = async (...args: unknown[]) => {
       const kind = statementKind(textOf(args[0]), args[1])
-      const result = await original(...args)
+      let result: unknown
+      try {
+        result = await original(...args)
+      } catch (e) {
+        // A COMMIT or a lone write whose answer was lost may still have committed: counting once
+        // too often is harmless, missing one is not.
+        if ((kind === 'commit' && wrote) || (kind === 'write' && !inTx)) await bump(conn)
+        if (kind === 'commit') { inTx = false; wrote = false }
+        throw e
+      }
       if (kind === 'begin') { inTx = true; wrote = false } else if (kind === 'end') { inTx = false; wrote = false } else if (kind === 'commit') {
         const counted = wrote
         inTx = false; wrote = false
@@ -104,7 +116,11 @@ function watchConnection(conn: PoolConnection): PoolConnection {
   tx.beginTransaction = async () => { await begin(); inTx = true; wrote = false }
   tx.rollback = async () => { await rollback(); inTx = false; wrote = false }
   tx.commit = async () => {
-    await commit()
+    try { await commit() } catch (e) {
+      if (wrote) await bump(conn) // it may have committed (see above)
+      inTx = false; wrote = false
+      throw e
+    }
     const counted = wrote
     inTx = false; wrote = false
     if (counted) await bump(conn)
@@ -120,10 +136,14 @@ export function countWrites(pool: Pool): Pool {
   for (const method of ['query', 'execute'] as const) {
     const original = p[method].bind(pool) as (...a: unknown[]) => Promise<unknown>
     ;(p as unknown as Record<string, unknown>)[method] = async (...args: unknown[]) => {
-      const result = await original(...args)
-      // A lone statement on the pool runs in autocommit mode: it has committed when it answers.
-      if (statementKind(textOf(args[0]), args[1]) === 'write') await bump(pool)
-      return result
+      // A lone statement on the pool runs in autocommit mode: it has committed when it answers
+      // (and may have when its answer was lost: counted then too).
+      const isWrite = statementKind(textOf(args[0]), args[1]) === 'write'
+      try {
+        return await original(...args)
+      } finally {
+        if (isWrite) await bump(pool)
+      }
     }
   }
   const getConnection = p.getConnection.bind(pool)

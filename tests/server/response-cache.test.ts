@@ -49,6 +49,7 @@ describe('statements and the data version', () => {
     expect(statementKind('rollback')).toBe('end')
     expect(statementKind('rollback to savepoint sp1')).toBe('read')
     expect(statementKind('savepoint sp1')).toBe('read')
+    expect(statementKind('WITH t AS (SELECT 1) UPDATE chips SET notes = 1')).toBe('write')
   })
 
   it('goes up after a lone write, once at the commit of a transaction, and not for a rollback', async () => {
@@ -99,6 +100,7 @@ describe('a failed bump', () => {
     }
     const heard: unknown[] = []
     const stop = onBumpFailed((e) => heard.push(e))
+    const stopThrowing = onBumpFailed(() => { throw new Error('a listener that fails') })
     try {
       countWrites(fakePool as never)
       await expect(fakePool.query('update `chips` set notes = 1')).resolves.toEqual([{ affectedRows: 1 }])
@@ -106,7 +108,23 @@ describe('a failed bump', () => {
       expect(heard).toHaveLength(1)
       await fakePool.query('select 1')
       expect(heard).toHaveLength(1) // a read bumps nothing
-    } finally { stop() }
+    } finally { stop(); stopThrowing() }
+  })
+
+  it('counts a lone write whose answer was lost (it may have committed)', async () => {
+    const sent: string[] = []
+    const fakePool = {
+      query: async (text: string) => {
+        sent.push(text)
+        if (/^update `chips`/.test(text)) throw Object.assign(new Error('Connection lost'), { code: 'PROTOCOL_CONNECTION_LOST' })
+        return [{ affectedRows: 1 }]
+      },
+      execute: async () => [[]],
+      getConnection: async () => { throw new Error('not used') },
+    }
+    countWrites(fakePool as never)
+    await expect(fakePool.query('update `chips` set notes = 1')).rejects.toThrow('Connection lost')
+    expect(sent[1]).toMatch(/data_version/)
   })
 })
 
