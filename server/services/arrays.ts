@@ -30,24 +30,18 @@ function inputsOf(r: Joined, a: Pick<Row, keyof Omit<ChannelInputs, 'pointGroup'
   }
 }
 
-/** A list row: everything but the channels (a list shows only whether they are stale). */
+/**
+ * The row of one array read with its chip, wafer and material (an array's page, a chip's arrays):
+ * built like a list row, but stale also when the stored input hash differs from one computed from
+ * the current inputs (which catches a row changed outside the app; lists decide in SQL alone).
+ */
 function toArrayRow(r: Joined): ArrayRow {
   const a = r.a
-  const inputs = inputsOf(r)
-  let symmetry: ArrayRecord['symmetry'] = { name: a.symmetryName ?? '?', rotationOrder: 1, mirrors: [] }
-  try { const s = arraySymmetry(inputs); symmetry = { name: a.symmetryName ?? '?', rotationOrder: s.rotationOrder, mirrors: s.mirrors } } catch { /* shown as stored */ }
-  const isStale = a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash || a.channelsInputHash !== channelsInputHash(inputs)
-  return {
-    id: a.id, code: a.code, chip: { id: a.chipId, code: r.chipCode }, position: a.position, shape: a.shape, dimensionsNm: a.dimensionsNm,
-    shapeAzimuthDeg: a.shapeAzimuthDeg, lattice: a.lattice, periodXNm: a.periodXNm, periodYNm: a.periodYNm, azimuthDeg: a.azimuthDeg,
-    count: a.count, customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors, symmetry,
-    engineVersion: a.engineVersion, channelsComputedAt: iso(a.channelsComputedAt), isStale, notes: a.notes,
-    retiredAt: iso(a.retiredAt), createdAt: a.createdAt.toISOString(), updatedAt: a.updatedAt.toISOString(),
-  }
+  const stale = a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash || a.channelsInputHash !== channelsInputHash(inputsOf(r))
+  return toListRow({ ...a, chipCode: r.chipCode, chipRotationDeg: r.chipRotationDeg, isStale: stale ? 1 : 0 })
 }
 
 type ListJoined = Omit<Row, 'channelSetKey' | 'channelsInputHash'> & { chipCode: string; chipRotationDeg: number; isStale: number }
-/** A list row from LIST_COLUMNS; the symmetry's order and mirrors come from the (memoised) engine. */
 /**
  * The rotation order and mirrors of a list row's structure, remembered by the few inputs they
  * depend on (most rows of a page share them); null when the engine refuses the inputs.
@@ -66,6 +60,7 @@ function rowSymmetry(r: ListJoined): { rotationOrder: number; mirrors: number[] 
   return 'none' in hit ? null : hit
 }
 
+/** A list row from LIST_COLUMNS (everything but the channels); order and mirrors from rowSymmetry. */
 function toListRow(r: ListJoined): ArrayRow {
   const s = rowSymmetry(r)
   const symmetry: ArrayRecord['symmetry'] = s ? { name: r.symmetryName ?? '?', ...s } : { name: r.symmetryName ?? '?', rotationOrder: 1, mirrors: [] }

@@ -20,7 +20,9 @@ import type { Db } from '../db/client'
 export function codePrefixes(q: string, letter: 'A' | 'C' | 'W' | 'S' | 'L', nested = true): string[] {
   const t = q.trim().toUpperCase()
   if (!t) return []
-  if (/^[A-Z]-/.test(t)) return t.startsWith(`${letter}-`) || !nested ? [t] : [`${letter}-${t.slice(2)}`, t]
+  // Only a parent's code nests (W-0059 → its chips and arrays, C-0059-25 → its arrays): a session
+  // or location code shares digits with array codes by chance, not by descent.
+  if (/^[A-Z]-/.test(t)) return t.startsWith(`${letter}-`) || !nested || !/^[WC]-/.test(t) ? [t] : [`${letter}-${t.slice(2)}`, t]
   if (/^\d/.test(t)) return [`${letter}-${t}`]
   return [t]
 }

@@ -27,6 +27,10 @@ describe('code prefixes', () => {
     expect(codePrefixes('A-0012', 'A')).toEqual(['A-0012'])
     expect(codePrefixes('C-0012', 'A', false)).toEqual(['C-0012'])
     expect(codePrefixes('  ', 'A')).toEqual([])
+    // a session or location code is not a parent of arrays, whatever its digits
+    expect(codePrefixes('S-0086', 'A')).toEqual(['S-0086'])
+    expect(codePrefixes('L-0012', 'C')).toEqual(['L-0012'])
+    expect(codePrefixes('W-0012', 'C')).toEqual(['C-0012', 'W-0012'])
   })
 
   it('turn typed words into a boolean FULLTEXT query without operators, short words or stop words', async () => {
