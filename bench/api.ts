@@ -2,10 +2,12 @@
  * API bench: list, filter, search and detail routes of a running server (BENCH_BASE_URL) on the
  * large data set, under concurrency 16 with autocannon on loopback, each beside the SAME SQL sent
  * straight through mysql2 at the same concurrency. The SQL is captured by calling the route's
- * service once through a Drizzle instance with a query logger, so the bare figure is exactly what
+ * service once through a Drizzle instance over a pool that records every statement (capture.ts),
+ * so the bare figure is exactly what
  * the route asks of MariaDB; the queries of one request are replayed one after another.
  * Overhead = bare requests/s ÷ API requests/s (= ratio of mean latencies at equal concurrency).
- * Each route is measured twice: as served (a repeated read comes from the response cache after one
+ * Each route is measured twice: as served (a best case: the same URL again and again, so every read
+ * after the first comes from the response cache after one
  * data-version check, server/middleware/response-cache.ts) and with `Cache-Control: no-cache`, so
  * every request runs the route's queries. The first case (auth/me) reads no data at all: it is the
  * floor that HTTP, the session and the load generator set on this machine.
@@ -23,9 +25,9 @@ import { listSessions } from '../server/services/sessions'
 import { searchRecords } from '../server/services/resolve'
 import { searchUsers } from '../server/services/users'
 import type { BenchRow } from './engine'
+import { capturingPool, type Captured } from './capture'
 
 interface Case { name: string; path: string; target?: number; run: (db: Db) => Promise<unknown> }
-type Captured = [string, unknown[]][]
 
 const pct = (xs: number[], p: number) => xs[Math.min(xs.length - 1, Math.floor((p / 100) * xs.length))] ?? NaN
 const fmtMs = (x: number) => `${x.toFixed(1)} ms`
@@ -89,14 +91,8 @@ export interface ApiBenchOptions { baseUrl: string; databaseUrl: string; email: 
 export async function runApiBench(o: ApiBenchOptions): Promise<BenchRow[]> {
   const seconds = o.seconds ?? 5, connections = o.connections ?? 16, log = o.log ?? (() => {})
   const pool = mysql.createPool({ uri: o.databaseUrl, connectionLimit: connections, timezone: 'Z', supportBigNumbers: true })
-  // Capture every statement a route's service sends through the pool (Drizzle's and plainRows' alike).
   const captured: Captured = []
-  const capturing = Object.create(pool) as mysql.Pool
-  capturing.query = ((q: string | { sql: string }, params?: unknown[]) => {
-    captured.push([typeof q === 'string' ? q : q.sql, params ?? []])
-    return pool.query(q as string, params)
-  }) as typeof pool.query
-  const db = drizzle({ client: capturing, schema, mode: 'planetscale' }) as unknown as Db
+  const db = drizzle({ client: capturingPool(pool, captured), schema, mode: 'planetscale' }) as unknown as Db
   const cookie = await signIn(o.baseUrl, o.email, o.password)
   const rows: BenchRow[] = []
   try {

@@ -14,16 +14,11 @@ import { listArrays, getArray } from '../server/services/arrays'
 import { listChips } from '../server/services/chips'
 import { listSessions } from '../server/services/sessions'
 import { searchRecords } from '../server/services/resolve'
+import { capturingPool, type Captured } from './capture'
 const url = process.env.DATABASE_URL!
 const pool = mysql.createPool({ uri: url, timezone: 'Z', connectionLimit: 2 })
-// Every statement the services send through the pool (Drizzle's and plainRows' alike).
-const caught: [string, unknown[]][] = []
-const capturing = Object.create(pool) as mysql.Pool
-capturing.query = ((text: string | { sql: string }, params?: unknown[]) => {
-  caught.push([typeof text === 'string' ? text : text.sql, params ?? []])
-  return pool.query(text as string, params)
-}) as typeof pool.query
-const db = drizzle({ client: capturing, schema, mode: 'planetscale' }) as unknown as Db
+const caught: Captured = []
+const db = drizzle({ client: capturingPool(pool, caught), schema, mode: 'planetscale' }) as unknown as Db
 const q = (s: string) => Object.fromEntries(new URLSearchParams(s))
 const [[mid]] = (await pool.query('SELECT a.id, a.code, c.code AS chip FROM arrays a JOIN chips c ON c.id = a.chip_id ORDER BY a.id LIMIT 1 OFFSET 50000')) as unknown as [[{ id: number; code: string; chip: string }]]
 const cases: [string, () => Promise<unknown>][] = [
