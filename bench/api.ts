@@ -3,8 +3,8 @@
  * large data set, under concurrency 16 with autocannon on loopback, each beside the SAME SQL sent
  * straight through mysql2 at the same concurrency. The SQL is captured by calling the route's
  * service once through a Drizzle instance over a pool that records every statement (capture.ts),
- * so the bare figure is exactly what
- * the route asks of MariaDB; the queries of one request are replayed one after another.
+ * so the bare figure is exactly what the route asks of MariaDB; the queries of one request are
+ * replayed one after another.
  * Overhead = bare requests/s ÷ API requests/s (= ratio of mean latencies at equal concurrency).
  * Each route is measured twice: as served (a best case: the same URL again and again, so every read
  * after the first comes from the response cache after one
