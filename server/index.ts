@@ -10,6 +10,8 @@ import { MailWorker } from './services/mail'
 import { NoticeScheduler } from './services/notice-scheduler'
 import { setNoticeBaseUrl } from './services/notices'
 import type { AppContext } from './context'
+import { sweepExports } from './services/excel-export'
+import { createFileStorage } from './services/storage'
 
 /** Keep one session secret per data dir so restarts keep people signed in. */
 function sessionSecret(dataDir: string): string {
@@ -54,6 +56,12 @@ async function main() {
   setNoticeBaseUrl(ctx.publicUrl)
   const notices = new NoticeScheduler(db, log, env.NOTICE_INTERVAL_S * 1000)
   notices.start()
+  // Expired export jobs and their workbooks also go when nobody starts a new export.
+  const exportStorage = createFileStorage(env.DATA_DIR, env)
+  const exportSweep = setInterval(() => {
+    sweepExports(db, exportStorage, env.DATA_DIR).catch((e) => log(`export sweep: ${(e as Error).message}`))
+  }, 10 * 60 * 1000)
+  exportSweep.unref()
   const { app, close } = createApp(ctx)
   const server = app.listen(env.PORT, env.HOST, () => {
     log(`Overtone is running at ${ctx.publicUrl}`)
@@ -66,6 +74,7 @@ async function main() {
     log(`${signal}: shutting down`)
     server.close()
     server.closeAllConnections?.()
+    clearInterval(exportSweep)
     await notices.stop()
     await worker.stop()
     await sink?.close()
