@@ -26,9 +26,9 @@ import { writeArrays, writeChips, writeLocations, writeMaterials, writeSessions,
  * owner's next export; the next sweep marks it failed in the table, so a late write of that server
  * cannot revive it (its writes only touch rows not yet done or failed, and it gives up when its row
  * is gone or failed). Jobs and their workbooks expire an hour after they started: swept when an
- * export starts, never removing a blob that a `files` row (an upload of the same bytes) or another
- * job still names; swept when an export starts and every ten minutes by each app server
- * (server/index.ts). App servers' clocks must agree to well within STALE_MS.
+ * export starts and every ten minutes by each app server (server/index.ts), never removing a blob
+ * that a `files` row (an upload of the same bytes) or another job still names. App servers'
+ * clocks must agree to well within STALE_MS.
  */
 const TTL_MS = 60 * 60 * 1000
 /** A job whose server has not written its row for this long is shown as failed. */
