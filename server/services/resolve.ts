@@ -86,7 +86,7 @@ export async function searchRecords(db: Db, q: string, perKind = 8): Promise<Sea
       id: measurementSessions.id, code: measurementSessions.code, wavelengthNm: measurementSessions.wavelengthNm, harmonicOrder: measurementSessions.harmonicOrder, performedAt: measurementSessions.performedAt,
     }, (f) => db.select(f).from(measurementSessions)
       .where(w === 'ft' ? matchWords(['notes', 'detector'], ft!) : like(measurementSessions.code, prefixPattern(w)))
-      .orderBy(desc(measurementSessions.performedAt)).limit(perKind), cache), (r) => r.performedAt.toISOString(), 'desc'),
+      .orderBy(desc(measurementSessions.performedAt), desc(measurementSessions.id)).limit(perKind), cache), (r) => r.performedAt.toISOString(), 'desc'),
     plainRows(db, { id: laserSetups.id, code: laserSetups.code, name: laserSetups.name },
       (f) => db.select(f).from(laserSetups).where(or(like(laserSetups.code, prefix), like(laserSetups.name, any))).orderBy(laserSetups.code).limit(perKind), cache),
     locationRefs(db),

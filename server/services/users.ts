@@ -36,7 +36,7 @@ export async function findUserById(db: Db, id: number): Promise<User | undefined
 }
 
 export async function listUsers(db: Db): Promise<PublicUser[]> {
-  const rows = await db.select().from(users).orderBy(asc(users.name))
+  const rows = await db.select().from(users).orderBy(asc(users.name), asc(users.id))
   return rows.map(toPublicUser)
 }
 
@@ -45,7 +45,7 @@ export async function searchUsers(db: Db, q: string, limit = 10): Promise<Public
   const pattern = `%${q.replace(/[\\%_]/g, (c) => '\\' + c)}%`
   // Only the public columns (not the password hash: whether one is set is decided in SQL), through plainRows.
   const rows = await plainRows(db, { id: users.id, email: users.email, name: users.name, roles: users.roles, active: users.active, invitePending: sql<number>`(${users.passwordHash} IS NULL)`, createdAt: users.createdAt },
-    (f) => db.select(f).from(users).where(or(like(users.name, pattern), like(users.email, pattern))).orderBy(asc(users.name)).limit(limit), { cache: true })
+    (f) => db.select(f).from(users).where(or(like(users.name, pattern), like(users.email, pattern))).orderBy(asc(users.name), asc(users.id)).limit(limit), { cache: true })
   return rows.map((u) => ({ id: u.id, email: u.email, name: u.name, roles: [...u.roles], active: u.active, invitePending: Number(u.invitePending) === 1, createdAt: u.createdAt.toISOString() }))
 }
 
