@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, gt, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm'
+import { and, asc, count, desc, eq, gt, inArray, isNull, like, or, sql, type SQL } from 'drizzle-orm'
 import { arrays, chips, wafers, materials, auditLog, type User } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { ArrayRecord, ArrayRow, Page, StoredChannel } from '../../shared/records'
@@ -11,7 +11,7 @@ import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } 
 import { loadChannelSets, saveChannelSets } from './channel-sets'
 import { plainRows } from '../db/plain-rows'
 import { LRUCache } from 'lru-cache'
-import { cachedCount, idCondition, textHitIds, type TextTarget } from './text-search'
+import { idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
 type Row = typeof arrays.$inferSelect
@@ -115,7 +115,7 @@ export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayR
   const page = db.select({ id: arrays.id }).from(arrays).where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize).as('page')
   const [rows, [{ n }]] = await Promise.all([
     plainRows(db, LIST_COLUMNS, (f) => db.select(f).from(page).innerJoin(arrays, eq(arrays.id, page.id)).innerJoin(chips, eq(chips.id, arrays.chipId)).orderBy(...order), { cache: true }),
-    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(arrays).where(where)),
+    plainRows(db, { n: count() }, (f) => db.select(f).from(arrays).where(where), { cache: true }),
   ])
   return { rows: rows.map(toListRow), total: Number(n), page: q.page, pageSize: q.pageSize }
 }

@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, like, or, sql } from 'drizzle-orm'
+import { and, asc, count, desc, eq, like, or, sql } from 'drizzle-orm'
 import { chips, wafers, materials, users, locations, arrays, type User } from '../db/schema/index'
 import type { SelectResultFields } from 'drizzle-orm/query-builders/select.types'
 import type { Db } from '../db/client'
@@ -15,7 +15,7 @@ import { cutLabel } from './wafers'
 import { listArraysOfChip } from './arrays'
 import { listFabSteps } from './fab-steps'
 import { plainRows } from '../db/plain-rows'
-import { cachedCount, idCondition, textHitIds, type TextTarget } from './text-search'
+import { idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Parsed update; `notes` undefined = leave as is (the route drops it when the body omits it). */
 type ChipUpdate = Omit<z.infer<typeof chipUpdateSchema>, 'notes'> & { notes?: string | null }
@@ -71,7 +71,7 @@ export async function listChips(db: Db, q: ListQuery): Promise<Page<Chip>> {
   const [rows, [{ n }], refs] = await Promise.all([
     plainRows(db, CHIP_COLUMNS, (f) => db.select(f).from(page).innerJoin(chips, eq(chips.id, page.id)).innerJoin(wafers, eq(wafers.id, chips.waferId))
       .innerJoin(materials, eq(materials.id, wafers.materialId)).leftJoin(users, eq(users.id, chips.holderId)).orderBy(...order), { cache: true }),
-    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(chips).where(where)),
+    plainRows(db, { n: count() }, (f) => db.select(f).from(chips).where(where), { cache: true }),
     locationRefs(db),
   ])
   return { rows: rows.map((r) => toChip(r, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }

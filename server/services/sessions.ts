@@ -10,7 +10,7 @@ import { requireValidSignoff } from './signoffs'
 import { nextCode, withCodeRetry } from './laser-setups'
 import { compareResult, deriveEfficiency, loadArrayContexts, type Reader } from './session-compare'
 import { NotFoundError, fieldError } from '../errors'
-import { cachedCount, codePrefixes, idCondition, prefixPattern, textHitIds, type TextTarget } from './text-search'
+import { codePrefixes, idCondition, prefixPattern, textHitIds, type TextTarget } from './text-search'
 import { likePattern } from './codes'
 import { plainRows } from '../db/plain-rows'
 
@@ -184,7 +184,7 @@ export async function listSessions(db: Db, q: SessionListQuery): Promise<Page<Me
   const [rows, [{ n }]] = await Promise.all([
     plainRows(db, LIST_COLUMNS, (f) => db.select(f).from(page).innerJoin(ms, eq(ms.id, page.id)).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId))
       .innerJoin(operators, eq(operators.id, ms.operatorId)).orderBy(...order), { cache: true }),
-    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(ms).where(where)),
+    plainRows(db, { n: count() }, (f) => db.select(f).from(ms).where(where), { cache: true }),
   ])
   return {
     rows: rows.map((r) => ({

@@ -59,10 +59,6 @@ export async function fulltextQuery(db: Pick<Db, 'execute'>, q: string): Promise
 /** More matching ids than this and the caller falls back to a plain (slower) condition. */
 export const MAX_TEXT_HITS = 20_000
 
-/** `count(*)` that MariaDB may answer from its query cache (started with query_cache_type=DEMAND by
- * scripts/lib.sh; invalidated by any write to the table, so never stale; ignored where the cache is off). */
-export const cachedCount = () => sql<number>`SQL_CACHE count(*)`
-
 /** The search-box condition of a big list: the ids of `textHitIds`, or `fallback` when there are too many. */
 export function idCondition(id: Column, ids: number[] | null, fallback: SQL | undefined): SQL | undefined {
   return ids === null ? fallback : inArray(id, ids)

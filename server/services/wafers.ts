@@ -1,4 +1,4 @@
-import { and, asc, eq, like, or, sql } from 'drizzle-orm'
+import { and, asc, count, eq, like, or, sql } from 'drizzle-orm'
 import { wafers, materials, users, chips, locations, type User } from '../db/schema/index'
 import type { SelectResultFields } from 'drizzle-orm/query-builders/select.types'
 import type { Db } from '../db/client'
@@ -12,7 +12,6 @@ import { found, likePattern, nextCodeNumber, orderBy, requireReason, waferCode }
 import { locationRefs } from './locations'
 import { markArraysStale } from './materials'
 import { listChipsOfWafer } from './chips'
-import { cachedCount } from './text-search'
 
 /**
  * Name of a wafer cut: Miller plane "(001)", "(1-10)" for cubic classes (a bar is written as a
@@ -65,7 +64,7 @@ export async function listWafers(db: Db, q: ListQuery & { materialId?: number })
   const [rows, [{ n }], refs] = await Promise.all([
     plainRows(db, WAFER_COLUMNS, (f) => db.select(f).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).innerJoin(users, eq(users.id, wafers.createdBy))
       .where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize), { cache: true }),
-    plainRows(db, { n: cachedCount() }, (f) => db.select(f).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).where(where)),
+    plainRows(db, { n: count() }, (f) => db.select(f).from(wafers).innerJoin(materials, eq(materials.id, wafers.materialId)).where(where), { cache: true }),
     locationRefs(db),
   ])
   return { rows: rows.map((r) => toWafer(r, refs)), total: Number(n), page: q.page, pageSize: q.pageSize }
