@@ -10,7 +10,7 @@ import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './co
 import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
 import { loadChannelSets, saveChannelSets } from './channel-sets'
 import { plainRows } from '../db/plain-rows'
-import { LRUCache } from 'lru-cache'
+import { BoundedCache } from '../../shared/engine/bounded-cache'
 import { idCondition, textHitIds, type TextTarget } from './text-search'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
@@ -46,7 +46,7 @@ type ListJoined = Omit<Row, 'channelSetKey' | 'channelsInputHash'> & { chipCode:
  * The rotation order and mirrors of a list row's structure, remembered by the few inputs they
  * depend on (most rows of a page share them); null when the engine refuses the inputs.
  */
-const rowSymmetries = new LRUCache<string, { rotationOrder: number; mirrors: number[] | 'all' } | { none: true }>({ max: 10_000 })
+const rowSymmetries = new BoundedCache<string, { rotationOrder: number; mirrors: number[] | 'all' } | { none: true }>(10_000)
 function rowSymmetry(r: ListJoined): { rotationOrder: number; mirrors: number[] | 'all' } | null {
   const key = `${r.shape}|${r.shapeAzimuthDeg}|${r.lattice}|${r.customRotationOrder}|${JSON.stringify(r.customMirrors)}|${r.chipRotationDeg}|${r.azimuthDeg}`
   let hit = rowSymmetries.get(key)
