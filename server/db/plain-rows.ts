@@ -5,8 +5,20 @@ import type { Db } from './client'
 type Field = Column | SQL | SQL.Aliased
 type Built = { toSQL(): { sql: string; params: unknown[] } }
 type ColumnMeta = { name: string; columnType?: number; extendedFormat?: string }
-/** The aliased fields of a field list made once (list pages pass the same module-level object every time). */
-const aliasedOf = new WeakMap<object, Record<string, SQL.Aliased>>()
+/** What plainRows needs of a field list, made once (list pages pass the same module-level object every time). */
+interface Prepared { aliased: Record<string, SQL.Aliased>; jsonKeys: string[]; boolKeys: string[] }
+const prepared = new WeakMap<object, Prepared>()
+
+function prepare(fields: Record<string, Field>): Prepared {
+  let p = prepared.get(fields)
+  if (!p) {
+    const keys = Object.keys(fields)
+    const ofType = (t: string) => keys.filter((k) => is(fields[k], Column) && (fields[k] as Column).columnType === t)
+    p = { aliased: Object.fromEntries(keys.map((k) => [k, sql`${fields[k]}`.as(k)])), jsonKeys: ofType('MySqlJson'), boolKeys: ofType('MySqlBoolean') }
+    prepared.set(fields, p)
+  }
+  return p
+}
 
 /**
  * Rows of a hot read (a big list page) built with Drizzle's query builder but run straight through
@@ -23,25 +35,19 @@ const aliasedOf = new WeakMap<object, Record<string, SQL.Aliased>>()
  * so an answer is never stale; where the cache is off the hint is ignored.
  */
 export async function plainRows<F extends Record<string, Field>>(db: Db, fields: F, build: (aliased: Record<keyof F, SQL.Aliased>) => Built, opts: { cache?: boolean } = {}): Promise<SelectResultFields<F>[]> {
-  const keys = Object.keys(fields) as (keyof F & string)[]
-  let aliased = aliasedOf.get(fields) as Record<keyof F, SQL.Aliased> | undefined
-  if (!aliased) {
-    aliased = Object.fromEntries(keys.map((k) => [k, sql`${fields[k]}`.as(k)])) as Record<keyof F, SQL.Aliased>
-    aliasedOf.set(fields, aliased)
-  }
-  const built = build(aliased).toSQL()
+  const { aliased, jsonKeys, boolKeys } = prepare(fields)
+  const built = build(aliased as Record<keyof F, SQL.Aliased>).toSQL()
   const text = opts.cache ? built.sql.replace(/^select /, 'select SQL_CACHE ') : built.sql
   const params = built.params
   const [rows, meta] = (await db.$client.query(text, params)) as unknown as [Record<string, unknown>[], ColumnMeta[]]
   // mysql2 decodes JSON itself where the server says a value is JSON (MySQL's JSON type, MariaDB's
   // extended metadata); only a JSON column that still arrives as text is parsed here.
-  const decoded = new Set(meta.filter((f) => f.columnType === 245 || f.extendedFormat === 'json').map((f) => f.name))
-  const json = keys.filter((k) => is(fields[k], Column) && (fields[k] as Column).columnType === 'MySqlJson' && !decoded.has(k))
-  const bool = keys.filter((k) => is(fields[k], Column) && (fields[k] as Column).columnType === 'MySqlBoolean')
-  if (json.length || bool.length) {
+  const decoded = jsonKeys.length ? new Set(meta.filter((f) => f.columnType === 245 || f.extendedFormat === 'json').map((f) => f.name)) : null
+  const json = decoded ? jsonKeys.filter((k) => !decoded.has(k)) : jsonKeys
+  if (json.length || boolKeys.length) {
     for (const r of rows) {
       for (const k of json) if (typeof r[k] === 'string') r[k] = JSON.parse(r[k] as string)
-      for (const k of bool) if (r[k] !== null) r[k] = Boolean(r[k])
+      for (const k of boolKeys) if (r[k] !== null) r[k] = Boolean(r[k])
     }
   }
   return rows as SelectResultFields<F>[]
