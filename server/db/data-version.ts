@@ -85,46 +85,34 @@ function watchConnection(conn: PoolConnection): PoolConnection {
   if (c[WATCHED]) return conn
   c[WATCHED] = true
   let inTx = false, wrote = false
+  /** The end of a transaction; a COMMIT counts when it wrote, even when its answer was lost (it may
+   * have committed: counting once too often is harmless, missing one is not). */
+  const endTx = async (committed: boolean) => {
+    const counted = committed && wrote
+    inTx = false; wrote = false
+    if (counted) await bump(conn)
+  }
   for (const method of ['query', 'execute'] as const) {
     const original = c[method].bind(conn) as (...a: unknown[]) => Promise<unknown>
     ;(c as unknown as Record<string, unknown>)[method] = async (...args: unknown[]) => {
       const kind = statementKind(textOf(args[0]), args[1])
-      let result: unknown
       try {
-        result = await original(...args)
-      } catch (e) {
-        // A COMMIT or a lone write whose answer was lost may still have committed: counting once
-        // too often is harmless, missing one is not.
-        if ((kind === 'commit' && wrote) || (kind === 'write' && !inTx)) await bump(conn)
-        if (kind === 'commit') { inTx = false; wrote = false }
-        throw e
+        const result = await original(...args)
+        if (kind === 'begin') { inTx = true; wrote = false } else if (kind === 'end') await endTx(false)
+        else if (kind === 'write' && inTx) wrote = true
+        return result
+      } finally {
+        if (kind === 'commit') await endTx(true)
+        else if (kind === 'write' && !inTx) await bump(conn) // autocommit: committed (or may have)
       }
-      if (kind === 'begin') { inTx = true; wrote = false } else if (kind === 'end') { inTx = false; wrote = false } else if (kind === 'commit') {
-        const counted = wrote
-        inTx = false; wrote = false
-        if (counted) await bump(conn)
-      } else if (kind === 'write') {
-        if (inTx) wrote = true
-        else await bump(conn)
-      }
-      return result
     }
   }
   // mysql2's own transaction calls (they do not go through query())
   const tx = conn as unknown as Record<'beginTransaction' | 'commit' | 'rollback', () => Promise<void>>
   const begin = tx.beginTransaction.bind(conn), commit = tx.commit.bind(conn), rollback = tx.rollback.bind(conn)
   tx.beginTransaction = async () => { await begin(); inTx = true; wrote = false }
-  tx.rollback = async () => { await rollback(); inTx = false; wrote = false }
-  tx.commit = async () => {
-    try { await commit() } catch (e) {
-      if (wrote) await bump(conn) // it may have committed (see above)
-      inTx = false; wrote = false
-      throw e
-    }
-    const counted = wrote
-    inTx = false; wrote = false
-    if (counted) await bump(conn)
-  }
+  tx.rollback = async () => { await rollback(); await endTx(false) }
+  tx.commit = async () => { try { await commit() } finally { await endTx(true) } }
   return conn
 }
 
