@@ -17,10 +17,12 @@ import { plainRows } from '../db/plain-rows'
 export const INVITE_TTL_MS = 7 * 24 * 3600 * 1000
 
 export function toPublicUser(u: User): PublicUser {
-  return {
-    id: u.id, email: u.email, name: u.name, roles: [...u.roles], active: u.active,
-    invitePending: u.passwordHash === null, createdAt: u.createdAt.toISOString(),
-  }
+  return publicUserOf(u, u.passwordHash === null)
+}
+
+/** The public face of a person's columns (no password hash: only whether one is set). */
+function publicUserOf(u: Pick<User, 'id' | 'email' | 'name' | 'roles' | 'active' | 'createdAt'>, invitePending: boolean): PublicUser {
+  return { id: u.id, email: u.email, name: u.name, roles: [...u.roles], active: u.active, invitePending, createdAt: u.createdAt.toISOString() }
 }
 
 const sha256 = (s: string) => createHash('sha256').update(s).digest('hex')
@@ -46,7 +48,7 @@ export async function searchUsers(db: Db, q: string, limit = 10): Promise<Public
   // Only the public columns (not the password hash: whether one is set is decided in SQL), through plainRows.
   const rows = await plainRows(db, { id: users.id, email: users.email, name: users.name, roles: users.roles, active: users.active, invitePending: sql<number>`(${users.passwordHash} IS NULL)`, createdAt: users.createdAt },
     (f) => db.select(f).from(users).where(or(like(users.name, pattern), like(users.email, pattern))).orderBy(asc(users.name), asc(users.id)).limit(limit), { cache: true })
-  return rows.map((u) => ({ id: u.id, email: u.email, name: u.name, roles: [...u.roles], active: u.active, invitePending: Number(u.invitePending) === 1, createdAt: u.createdAt.toISOString() }))
+  return rows.map((u) => publicUserOf(u, Number(u.invitePending) === 1))
 }
 
 /** Create a person with a pending invitation and queue the invitation mail, all in one transaction. */
