@@ -17,7 +17,7 @@ const LAB_RECORDS: Subject[] = ['Material', 'Wafer', 'Chip', 'Array', 'FabStep',
 
 /** Build the ability of a person from their roles (no roles, or no person: nothing at all). */
 export function defineAbilityFor(user: { roles: readonly Role[]; active?: boolean } | null | undefined): AppAbility {
-  const { can, build } = new AbilityBuilder<AppAbility>(createMongoAbility)
+  const { can, cannot, build } = new AbilityBuilder<AppAbility>(createMongoAbility)
   if (!user || user.active === false) return build()
   const roles = new Set(user.roles)
 
@@ -26,11 +26,15 @@ export function defineAbilityFor(user: { roles: readonly Role[]; active?: boolea
 
   if (roles.has('admin')) {
     can('manage', 'all')
+    // The administrator role alone never signs off a laser setup: only a safety officer does.
+    cannot('signoff', 'LaserSetup')
   }
   if (roles.has('group_lead')) {
     can(['read', 'invite', 'update'], 'User')
     can(['read'], 'Audit')
     can(['export', 'import', 'read'], 'Inventory')
+    // Group leads run lasers too: they describe setups and submit them for sign-off.
+    can(['create', 'update'], 'LaserSetup')
   }
   if (roles.has('fab_technician')) {
     can(['create', 'update', 'retire'], ['Material', 'Wafer', 'Chip', 'Array', 'FabStep', 'Location', 'Label'])
@@ -39,6 +43,8 @@ export function defineAbilityFor(user: { roles: readonly Role[]; active?: boolea
   if (roles.has('optics_staff')) {
     can(['create', 'update'], 'Session')
     can('create', 'File')
+    // The people who run a laser describe their setups and submit them; they never sign them off.
+    can(['create', 'update'], 'LaserSetup')
   }
   if (roles.has('safety_officer')) {
     can(['create', 'update', 'retire', 'signoff'], 'LaserSetup')

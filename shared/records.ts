@@ -85,7 +85,7 @@ export interface ArrayRecord extends ArrayRow { channels: StoredChannel[] }
 /** One eyewear entry of a laser setup: bands in nm as text (`720–850, 1064`), OD and/or an EN 207 marking. */
 export interface EyewearEntry { description: string; bandsNm: string; od: number | null; en207: string | null }
 export type LaserClass = '1' | '1M' | '2' | '2M' | '3R' | '3B' | '4'
-export type SignoffState = 'waiting' | 'approved' | 'expired' | 'rejected' | 'revoked' | 'voided'
+export type SignoffState = 'draft' | 'waiting' | 'approved' | 'expired' | 'rejected' | 'revoked' | 'voided'
 /** Sign-off summary of a setup (the latest decision; `history` only on the detail). */
 export interface SignoffSummary {
   state: SignoffState; expiresOn: string | null; by: PersonRef | null; at: string | null; note: string | null
@@ -100,7 +100,18 @@ export interface LaserSetup {
   beamDiameterMm: number | null; divergenceMrad: number | null; harmonicOrders: number[]; laserClass: LaserClass | null
   eyewear: EyewearEntry[]; interlocks: string | null; controlledAreaNotes: string | null
   submitter: PersonRef | null
+  /** When its author submitted it for sign-off; null while it is a draft (again after a rejection or revocation). */
+  submittedAt: string | null
   signoff: SignoffSummary
+}
+
+/** Whether the signed-in person may approve (or renew) a setup, and if not, why (detail only). */
+export interface ApprovalCheck {
+  canApprove: boolean
+  /** Plain-language reason when not; null when they may. */
+  reason: string | null
+  /** Active safety officers who could approve it (not its author, not a hazard editor since the last decision). */
+  eligibleOfficers: number
 }
 
 export interface SessionResult {

@@ -8,7 +8,7 @@ import { diffFields, writeAudit, type DbOrTx } from './audit'
 import { changedHazardFields, hazardHash } from './setup-hazards'
 import { addDays, loadDecisions, signoffSummary, todayUtc, voidSignoff, type DecisionRow } from './signoffs'
 import { noticeSetupChanged, noticeSetupSubmitted } from './notices'
-import { BadRequestError, NotFoundError, fieldError } from '../errors'
+import { BadRequestError, ConflictError, ForbiddenError, NotFoundError, fieldError } from '../errors'
 
 /**
  * The laser-safety register (issue 5): setups with their hazard fields and sign-off state. Codes
@@ -25,7 +25,8 @@ export function toLaserSetup(r: Row, decisions: DecisionRow[] = [], submitter: {
     pulseDurationFs: r.pulseDurationFs, repRateHz: r.repRateHz, maxAvgPowerMw: r.maxAvgPowerMw, pulseEnergyUj: r.pulseEnergyUj,
     beamDiameterMm: r.beamDiameterMm, divergenceMrad: r.divergenceMrad, harmonicOrders: r.harmonicOrders ?? [], laserClass: r.laserClass ?? null,
     eyewear: r.eyewear ?? [], interlocks: r.interlocks, controlledAreaNotes: r.controlledAreaNotes, submitter,
-    signoff: signoffSummary(decisions, hazardHash(r)),
+    submittedAt: r.submittedAt?.toISOString() ?? null,
+    signoff: signoffSummary(decisions, hazardHash(r), r.submittedAt),
   }
 }
 
@@ -86,21 +87,59 @@ export async function getLaserSetup(db: Db, id: number): Promise<LaserSetup> {
   return (await withSignoffs(db, [await findRow(db, id)]))[0]
 }
 
+/**
+ * Register a setup as a draft. Its author (the submitter of record) is the signed-in person, set
+ * here; nobody can name someone else. It enters the sign-off queue only when submitted.
+ */
 export async function createLaserSetup(db: Db, actor: User, input: LaserSetupInput): Promise<LaserSetup> {
-  const { submitterId, ...fields } = input
+  const { submitterId: _ignored, ...fields } = input
   const id = await withCodeRetry(() => db.transaction(async (tx) => {
-    const submittedById = submitterId ?? actor.id
-    if (submitterId) {
-      const [p] = await tx.select({ id: users.id }).from(users).where(eq(users.id, submitterId))
-      if (!p) throw fieldError('submitterId', 'No such person')
-    }
     const code = await nextCode(tx, 'laser_setups', 'LS', 3)
-    const values = { code, ...fields, submittedById }
+    const values = { code, ...fields, submittedById: actor.id }
     const [{ id }] = await tx.insert(laserSetups).values(values).$returningId()
     await writeAudit(tx, { userId: actor.id, entity: 'laser_setup', entityId: id, action: 'create', changes: diffFields({}, values) })
-    await noticeSetupSubmitted(tx, { setupId: id, code, name: fields.name, actorName: actor.name })
     return id
   }))
+  return getLaserSetup(db, id)
+}
+
+/** What a setup still lacks before it can be submitted for sign-off (field → message); empty when complete. */
+export function missingForSubmit(r: Row): Record<string, string[]> {
+  const miss: Record<string, string[]> = {}
+  const need = (field: string, ok: boolean, msg: string) => { if (!ok) miss[field] = [msg] }
+  need('wavelengthsNm', (r.wavelengthsNm ?? []).length > 0, 'Give at least one wavelength')
+  need('maxAvgPowerMw', r.maxAvgPowerMw !== null && r.maxAvgPowerMw > 0, 'Give the maximum average power')
+  if (r.sourceType !== 'cw') {
+    need('pulseDurationFs', r.pulseDurationFs !== null, 'Give the pulse duration of this pulsed source')
+    if (r.sourceType === 'mode_locked') need('repRateHz', r.repRateHz !== null, 'Give the repetition rate of this mode-locked source')
+    else need('pulseEnergyUj', r.repRateHz !== null || r.pulseEnergyUj !== null, 'Give the repetition rate, or the pulse energy of a single-shot source')
+  }
+  need('beamDiameterMm', r.beamDiameterMm !== null, 'Give the beam diameter at the exit')
+  need('eyewear', (r.eyewear ?? []).length > 0, 'List the eyewear used with this setup')
+  need('interlocks', !!r.interlocks?.trim(), 'Describe the interlocks (or say that there are none and why)')
+  return miss
+}
+
+/**
+ * The author submits a complete draft for sign-off: it enters the safety officers' queue and they
+ * get a notice. A rejected or revoked setup goes back to its author and is submitted again.
+ */
+export async function submitLaserSetup(db: Db, actor: User, id: number): Promise<LaserSetup> {
+  await db.transaction(async (tx) => {
+    const [r] = await tx.select().from(laserSetups).where(eq(laserSetups.id, id)).for('update')
+    if (!r) throw new NotFoundError('No such laser setup')
+    if (r.retiredAt) throw new BadRequestError('This laser setup is retired.')
+    if (r.submittedAt) throw new ConflictError('This setup is already submitted for sign-off.')
+    if (r.submittedById !== actor.id)
+      throw new ForbiddenError('Only the author of this setup submits it for sign-off.')
+    const miss = missingForSubmit(r)
+    if (Object.keys(miss).length)
+      throw new BadRequestError('The description is not complete enough to sign off: fill in the marked fields.', miss)
+    const now = new Date()
+    await tx.update(laserSetups).set({ submittedAt: now, updatedAt: now }).where(eq(laserSetups.id, id))
+    await writeAudit(tx, { userId: actor.id, entity: 'laser_setup', entityId: id, action: 'update', changes: { submittedAt: { from: null, to: now.toISOString() } } })
+    await noticeSetupSubmitted(tx, { setupId: id, code: r.code, name: r.name, actorName: actor.name })
+  })
   return getLaserSetup(db, id)
 }
 
@@ -110,18 +149,17 @@ export async function createLaserSetup(db: Db, actor: User, input: LaserSetupInp
  * are written in the same transaction.
  */
 export async function updateLaserSetup(db: Db, actor: User, id: number, input: Partial<LaserSetupInput> & { reason?: string | null }): Promise<LaserSetup> {
-  const { reason, submitterId, ...fields } = input
+  const { reason, submitterId: _ignored, ...fields } = input
   await db.transaction(async (tx) => {
     const [before] = await tx.select().from(laserSetups).where(eq(laserSetups.id, id)).for('update')
     if (!before) throw new NotFoundError('No such laser setup')
     if (before.retiredAt) throw new BadRequestError('This laser setup is retired; it cannot be edited.')
     const next: Record<string, unknown> = { ...fields }
-    if (submitterId !== undefined && submitterId !== null) next.submittedById = submitterId
     const normal = { ...before, harmonicOrders: before.harmonicOrders ?? [], eyewear: before.eyewear ?? [] }
     const changes = diffFields(normal as unknown as Record<string, unknown>, next)
     if (!Object.keys(changes).length) return
     const hazard = changedHazardFields(before, next)
-    const signoff = signoffSummary((await loadDecisions(tx, [id])).get(id)!, hazardHash(before))
+    const signoff = signoffSummary((await loadDecisions(tx, [id])).get(id)!, hazardHash(before), before.submittedAt)
     const voids = hazard.length > 0 && (signoff.state === 'approved' || signoff.state === 'expired')
     if (voids && !reason?.trim())
       throw fieldError('reason', `This setup is signed off: say why its hazard fields (${hazard.join(', ')}) change; the change voids the sign-off`)
@@ -132,7 +170,8 @@ export async function updateLaserSetup(db: Db, actor: User, id: number, input: P
       changes.signoff = { from: signoff.state, to: 'voided' }
     }
     await writeAudit(tx, { userId: actor.id, entity: 'laser_setup', entityId: id, action: 'update', changes, reason })
-    await noticeSetupChanged(tx, { setupId: id, code: before.code, name: before.name, actorName: actor.name, voided: voids, fields: Object.keys(changes) })
+    // A draft is its author's business; the safety officers hear of changes once it is submitted.
+    if (before.submittedAt) await noticeSetupChanged(tx, { setupId: id, code: before.code, name: before.name, actorName: actor.name, voided: voids, fields: Object.keys(changes) })
   })
   return getLaserSetup(db, id)
 }
@@ -144,7 +183,7 @@ export async function signoffQueue(db: Db) {
   const soon = addDays(todayUtc(), 30)
   const by = (st: string[]) => setups.filter((s) => st.includes(s.signoff.state))
   return {
-    waiting: by(['waiting', 'voided']),
+    waiting: by(['waiting', 'voided']).filter((s) => s.submittedAt !== null),
     expiring: by(['approved']).filter((s) => s.signoff.expiresOn! <= soon).sort((a, b) => a.signoff.expiresOn!.localeCompare(b.signoff.expiresOn!)),
     expired: by(['expired']),
   }

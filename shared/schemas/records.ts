@@ -172,8 +172,8 @@ export const laserSetupSchema = z.object({
   eyewear: z.array(eyewearSchema).max(20).optional(),
   interlocks: optText(2000),
   controlledAreaNotes: optText(2000),
-  /** The person submitting the setup for sign-off (default: whoever registers it). */
-  submitterId: optId,
+  /** Refused: the submitter of record is always the signed-in person who registers the setup. */
+  submitterId: z.never({ error: 'The submitter is the person who registers the setup; it cannot be named' }).optional(),
 })
 export type LaserSetupInput = z.infer<typeof laserSetupSchema>
 /** Fields whose change changes the hazard (and voids a sign-off). */

@@ -43,7 +43,7 @@ export async function makeLaserSetup(db: Db, retired = false, signoff: 'approved
   const t = tag()
   const code = `LS-T${t}`.slice(0, 20)
   const [{ id }] = await db.insert(laserSetups).values({
-    code, name: `Test OPO ${t}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 775], retiredAt: retired ? new Date() : null,
+    code, name: `Test OPO ${t}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 775], retiredAt: retired ? new Date() : null, submittedAt: new Date(),
   }).$returningId()
   if (signoff !== 'none') {
     const [row] = await db.select().from(laserSetups).where(eq(laserSetups.id, id))

@@ -39,3 +39,12 @@ export async function signedInAs(app: Express, role: Role | string, password = D
 }
 
 export const uniqueEmail = (tag: string) => `${tag}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@kestrel-lab.example`
+
+/** A new active person with these roles and the demo password (for cases the demo lab lacks, e.g. a second safety officer). */
+export async function createPerson(db: ReturnType<typeof createDb>['db'], roles: Role[], tag = 'person'): Promise<{ id: number; email: string }> {
+  const { users } = await import('../../server/db/schema/index')
+  const { hashPassword } = await import('../../server/auth/passwords')
+  const email = uniqueEmail(tag)
+  const [{ id }] = await db.insert(users).values({ email, name: `Test ${tag}`, roles, passwordHash: await hashPassword(DEMO_PASSWORD) }).$returningId()
+  return { id, email }
+}

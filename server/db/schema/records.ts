@@ -166,8 +166,10 @@ export const laserSetups = mysqlTable('laser_setups', {
   eyewear: json('eyewear').$type<EyewearEntry[]>(),
   interlocks: text('interlocks'),
   controlledAreaNotes: text('controlled_area_notes'),
-  /** Who submitted the setup for sign-off (the performer; a safety officer may not approve their own). */
+  /** Who described the setup: the signed-in person who created it, set by the server (never approves it). */
   submittedById: int('submitted_by_id').references(() => users.id, { onDelete: 'restrict' }),
+  /** When its author submitted it for sign-off; null while it is a draft (and again after a rejection or revocation). */
+  submittedAt: datetime('submitted_at', { mode: 'date', fsp: 3 }),
   retiredAt: retired(),
   createdAt: created(),
   updatedAt: updated(),

@@ -122,11 +122,12 @@ async function seedLaserSetups(db: Db): Promise<void> {
   const [optics] = await db.select().from(users).where(eq(users.email, 'optics@kestrel-lab.example'))
   const [safety] = await db.select().from(users).where(eq(users.email, 'safety@kestrel-lab.example'))
   const by = optics?.id ?? null
-  const common = { submittedById: by, interlocks: 'Door interlock on C1.03 (shutter closes when opened); key switch; emergency stop by the door', controlledAreaNotes: 'Laser controlled area: warning light on while the shutter is open; beam height 12 cm, enclosed periscopes; no reflective jewellery' }
+  const submittedAt = new Date(Date.now() - 61 * 86400_000)
+  const common = { submittedById: by, submittedAt, interlocks: 'Door interlock on C1.03 (shutter closes when opened); key switch; emergency stop by the door', controlledAreaNotes: 'Laser controlled area: warning light on while the shutter is open; beam height 12 cm, enclosed periscopes; no reflective jewellery' }
   await db.insert(laserSetups).values([
     { code: 'LS-001', name: 'Ti:sapphire oscillator bench', room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [800, 400], notes: '80 MHz, ~100 fs; SH at 400 nm in a BBO crystal', pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000, pulseEnergyUj: 0.0125, beamDiameterMm: 2, divergenceMrad: 1, harmonicOrders: [2], laserClass: '4', eyewear: [GOGGLE_NIR, GOGGLE_VIS], ...common },
     { code: 'LS-002', name: '1550 nm fibre laser bench', room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [1550, 775, 517], notes: 'Er fibre oscillator + amplifier, ~150 fs', pulseDurationFs: 150, repRateHz: 80e6, maxAvgPowerMw: 200, pulseEnergyUj: 0.0025, beamDiameterMm: 1.5, divergenceMrad: 1.2, harmonicOrders: [2, 3], laserClass: '3B', eyewear: [GOGGLE_TELECOM, GOGGLE_NIR, GOGGLE_VIS], ...common },
-    { code: 'LS-003', name: '1064 nm ps laser', room: 'B2.14', sourceType: 'pulsed', wavelengthsNm: [1064, 532], notes: 'Nd:YVO4, 10 ps, 1 MHz', pulseDurationFs: 1e4, repRateHz: 1e6, maxAvgPowerMw: 2000, pulseEnergyUj: 2, beamDiameterMm: 1.2, divergenceMrad: 0.8, harmonicOrders: [2], laserClass: '4', eyewear: [GOGGLE_NIR], submittedById: by, interlocks: 'Interlocked enclosure; key switch', controlledAreaNotes: 'Room B2.14 is a laser controlled area when the enclosure is open' },
+    { code: 'LS-003', name: '1064 nm ps laser', room: 'B2.14', sourceType: 'pulsed', wavelengthsNm: [1064, 532], notes: 'Nd:YVO4, 10 ps, 1 MHz', pulseDurationFs: 1e4, repRateHz: 1e6, maxAvgPowerMw: 2000, pulseEnergyUj: 2, beamDiameterMm: 1.2, divergenceMrad: 0.8, harmonicOrders: [2], laserClass: '4', eyewear: [GOGGLE_NIR], submittedById: by, submittedAt, interlocks: 'Interlocked enclosure; key switch', controlledAreaNotes: 'Room B2.14 is a laser controlled area when the enclosure is open' },
   ])
   if (!safety) return
   const rows = await db.select().from(laserSetups).where(inArray(laserSetups.code, ['LS-001', 'LS-002']))

@@ -1,4 +1,4 @@
-import { Router } from 'express'
+import { Router, type Request } from 'express'
 import { z } from 'zod'
 import { idParamSchema } from '../../../shared/schemas/auth'
 import { approveSchema, laserSetupSchema, listQuerySchema, signoffNoteSchema } from '../../../shared/schemas/records'
@@ -8,8 +8,8 @@ import { MPE_EDITIONS } from '../../../shared/laser-safety'
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createLaserSetup, getLaserSetup, listLaserSetups, retireLaserSetup, signoffQueue, updateLaserSetup } from '../../services/laser-setups'
-import { approveSetup, historyOut, loadDecisions, rejectSetup, revokeSetup } from '../../services/signoffs'
+import { createLaserSetup, getLaserSetup, listLaserSetups, missingForSubmit, retireLaserSetup, signoffQueue, submitLaserSetup, updateLaserSetup } from '../../services/laser-setups'
+import { approvalCheck, approveSetup, historyOut, loadDecisions, rejectSetup, revokeSetup } from '../../services/signoffs'
 import { figuresFor } from '../../services/setup-hazards'
 import { laserSetups } from '../../db/schema/index'
 import { eq } from 'drizzle-orm'
@@ -21,17 +21,20 @@ const figuresQuery = z.object({
 })
 
 /**
- * /api/laser-setups: the laser-safety register (safety officers write and sign off; everyone reads).
+ * /api/laser-setups: the laser-safety register (the people who run lasers describe and submit setups,
+ * safety officers sign them off; everyone reads).
  * Every answer carries the laser caution; the detail adds the sign-off history and computed figures.
  */
 export function laserSetupRoutes(ctx: AppContext): Router {
   const r = Router()
-  const detail = async (id: number, q: z.infer<typeof figuresQuery> = {}) => {
+  /** The record page's answer: the setup, its sign-off history, whether the reader may approve it (and why not), figures. */
+  const detail = async (req: Request, id: number, q: z.infer<typeof figuresQuery> = {}) => {
     const setup = await getLaserSetup(ctx.db, id)
     const [row] = await ctx.db.select().from(laserSetups).where(eq(laserSetups.id, id))
     const history = historyOut((await loadDecisions(ctx.db, [id])).get(id)!)
+    const approval = await approvalCheck(ctx.db, currentUser(req), row, setup.signoff.state)
     const computed = figuresFor(row, { edition: q.edition as never, spotDiameterUm: q.spotUm })
-    return { ...setup, signoff: { ...setup.signoff, history }, computed, caution: LASER_CAUTION }
+    return { ...setup, signoff: { ...setup.signoff, history }, approval, missingForSubmit: missingForSubmit(row), computed, caution: LASER_CAUTION }
   }
   r.get('/laser-setups', requireAbility('read', 'LaserSetup'), async (req, res) => {
     res.json({ ...(await listLaserSetups(ctx.db, parse(listQuerySchema, req.query))), caution: LASER_CAUTION })
@@ -40,16 +43,21 @@ export function laserSetupRoutes(ctx: AppContext): Router {
     res.json({ ...(await signoffQueue(ctx.db)), caution: LASER_CAUTION })
   })
   r.get('/laser-setups/:id', requireAbility('read', 'LaserSetup'), async (req, res) => {
-    res.json(await detail(parse(idParamSchema, req.params).id, parse(figuresQuery, req.query)))
+    res.json(await detail(req, parse(idParamSchema, req.params).id, parse(figuresQuery, req.query)))
   })
   r.post('/laser-setups', requireAbility('create', 'LaserSetup'), async (req, res) => {
     const setup = await createLaserSetup(ctx.db, currentUser(req), parse(laserSetupSchema, req.body))
-    res.status(201).json(await detail(setup.id))
+    res.status(201).json(await detail(req, setup.id))
   })
   r.patch('/laser-setups/:id', requireAbility('update', 'LaserSetup'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     await updateLaserSetup(ctx.db, currentUser(req), id, parse(updateSchema, req.body))
-    res.json(await detail(id))
+    res.json(await detail(req, id))
+  })
+  r.post('/laser-setups/:id/submit', requireAbility('update', 'LaserSetup'), async (req, res) => {
+    const { id } = parse(idParamSchema, req.params)
+    await submitLaserSetup(ctx.db, currentUser(req), id)
+    res.json(await detail(req, id))
   })
   r.post('/laser-setups/:id/retire', requireAbility('retire', 'LaserSetup'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
@@ -59,17 +67,17 @@ export function laserSetupRoutes(ctx: AppContext): Router {
   r.post('/laser-setups/:id/approve', requireAbility('signoff', 'LaserSetup'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     await approveSetup(ctx.db, currentUser(req), id, parse(approveSchema, req.body ?? {}))
-    res.json(await detail(id))
+    res.json(await detail(req, id))
   })
   r.post('/laser-setups/:id/reject', requireAbility('signoff', 'LaserSetup'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     await rejectSetup(ctx.db, currentUser(req), id, parse(signoffNoteSchema, req.body ?? {}).note)
-    res.json(await detail(id))
+    res.json(await detail(req, id))
   })
   r.post('/laser-setups/:id/revoke', requireAbility('signoff', 'LaserSetup'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     await revokeSetup(ctx.db, currentUser(req), id, parse(signoffNoteSchema, req.body ?? {}).note)
-    res.json(await detail(id))
+    res.json(await detail(req, id))
   })
   return r
 }

@@ -30,7 +30,7 @@ export function toInput(f: SetupForm): LaserSetupInput {
     pulseDurationFs: num(f.pulseDurationFs), repRateHz: num(f.repRateMhz) === null ? null : Number(f.repRateMhz) * 1e6, maxAvgPowerMw: num(f.maxAvgPowerMw),
     pulseEnergyUj: num(f.pulseEnergyUj), beamDiameterMm: num(f.beamDiameterMm), divergenceMrad: num(f.divergenceMrad), harmonicOrders: f.harmonicOrders,
     laserClass: f.laserClass, eyewear: f.eyewear.map((e) => ({ ...e, od: num(e.od), en207: e.en207?.trim() || null })),
-    interlocks: f.interlocks.trim() || null, controlledAreaNotes: f.controlledAreaNotes.trim() || null, submitterId: null,
+    interlocks: f.interlocks.trim() || null, controlledAreaNotes: f.controlledAreaNotes.trim() || null,
   }
 }
 

@@ -2,6 +2,7 @@ import type { SignoffState, SignoffSummary } from '../../../shared/records'
 
 /** Chip colours and words for sign-off states. */
 export const SIGNOFF_LOOK: Record<SignoffState, { color: string; icon: string; label: string }> = {
+  draft: { color: 'blue-grey-6', icon: 'edit_note', label: 'Draft, not submitted' },
   waiting: { color: 'grey-7', icon: 'hourglass_empty', label: 'Waiting for sign-off' },
   approved: { color: 'positive', icon: 'verified', label: 'Signed off' },
   expired: { color: 'negative', icon: 'event_busy', label: 'Sign-off expired' },
