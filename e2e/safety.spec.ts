@@ -10,10 +10,10 @@ async function apiAs(key: string): Promise<APIRequestContext> {
   return api
 }
 
-/** A Ti:sapphire setup (FACTS.md §1.6 example A, with SH) registered by the admin: it waits for sign-off. */
+/** A Ti:sapphire setup (800 nm, 100 fs, 80 MHz, 1 W, with SH) described and submitted by the optics person: it waits for sign-off. */
 async function makeWaitingSetup(stamp: string) {
-  const admin = await apiAs('admin')
-  const res = await admin.post('/api/laser-setups', { data: {
+  const optics = await apiAs('optics')
+  const res = await optics.post('/api/laser-setups', { data: {
     name: `E2E Ti:Sa ${stamp}`, room: 'C1.05', sourceType: 'mode_locked', wavelengthsNm: [800], harmonicOrders: [2],
     pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000, beamDiameterMm: 2, divergenceMrad: 1, laserClass: '4',
     eyewear: [{ description: 'NIR goggle KG-7', bandsNm: '740–1100', od: 6, en207: 'DIRM 740-1100 LB6' }],
@@ -21,7 +21,8 @@ async function makeWaitingSetup(stamp: string) {
   } })
   expect(res.status(), await res.text()).toBe(201)
   const body = (await res.json()) as { id: number; code: string; name: string }
-  await admin.dispose()
+  expect((await optics.post(`/api/laser-setups/${body.id}/submit`, { data: {} })).status()).toBe(200)
+  await optics.dispose()
   return body
 }
 

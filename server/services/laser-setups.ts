@@ -6,7 +6,7 @@ import type { LaserSetup, Page } from '../../shared/records'
 import type { LaserSetupInput, ListQuery } from '../../shared/schemas/records'
 import { diffFields, writeAudit, type DbOrTx } from './audit'
 import { changedHazardFields, hazardHash } from './setup-hazards'
-import { addDays, loadDecisions, signoffSummary, todayUtc, voidSignoff, type DecisionRow } from './signoffs'
+import { addDays, approvalCheck, loadDecisions, signoffSummary, todayUtc, voidSignoff, type DecisionRow } from './signoffs'
 import { noticeSetupChanged, noticeSetupSubmitted } from './notices'
 import { BadRequestError, ConflictError, ForbiddenError, NotFoundError, fieldError } from '../errors'
 
@@ -176,17 +176,23 @@ export async function updateLaserSetup(db: Db, actor: User, id: number, input: P
   return getLaserSetup(db, id)
 }
 
-/** The safety officers' queue: waiting (never or no longer approved), expiring within 30 days, expired. */
-export async function signoffQueue(db: Db) {
+/**
+ * The safety officers' queue: submitted setups waiting (never or no longer approved), approvals
+ * expiring within 30 days, expired ones; each with whether `reader` may approve (renew) it.
+ */
+export async function signoffQueue(db: Db, reader: User) {
   const rows = await db.select().from(laserSetups).where(isNull(laserSetups.retiredAt)).orderBy(asc(laserSetups.code))
   const setups = await withSignoffs(db, rows)
   const soon = addDays(todayUtc(), 30)
   const by = (st: string[]) => setups.filter((s) => st.includes(s.signoff.state))
-  return {
+  const lists = {
     waiting: by(['waiting', 'voided']).filter((s) => s.submittedAt !== null),
     expiring: by(['approved']).filter((s) => s.signoff.expiresOn! <= soon).sort((a, b) => a.signoff.expiresOn!.localeCompare(b.signoff.expiresOn!)),
     expired: by(['expired']),
   }
+  const withApproval = (list: LaserSetup[]) => Promise.all(list.map(async (s) =>
+    ({ ...s, approval: await approvalCheck(db, reader, rows.find((r) => r.id === s.id)!, s.signoff.state) })))
+  return { waiting: await withApproval(lists.waiting), expiring: await withApproval(lists.expiring), expired: await withApproval(lists.expired) }
 }
 
 /** Retire a setup (never deleted): the reason is mandatory and kept in the audit row. */

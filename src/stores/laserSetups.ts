@@ -44,6 +44,12 @@ export const useLaserSetupsStore = defineStore('laserSetups', () => {
     return (current.value = id === null ? saved : await api.getLaserSetup(id, figuresParams.value))
   }
 
+  /** The author submits a draft for sign-off (400 with the missing fields when it is not complete). */
+  async function submit(id: number): Promise<api.LaserSetupDetail> {
+    await api.submitLaserSetup(id)
+    return fetchOne(id)
+  }
+
   async function retire(id: number, reason: string): Promise<void> {
     await api.retireLaserSetup(id, reason)
     await fetchOne(id)
@@ -60,5 +66,5 @@ export const useLaserSetupsStore = defineStore('laserSetups', () => {
     return answer
   }
 
-  return { rows, total, isLoading, current, active, queue, fetchPage, fetchActive, fetchOne, save, retire, fetchQueue, decide }
+  return { rows, total, isLoading, current, active, queue, fetchPage, fetchActive, fetchOne, save, submit, retire, fetchQueue, decide }
 })

@@ -14,7 +14,10 @@ import { figuresFor } from '../../services/setup-hazards'
 import { laserSetups } from '../../db/schema/index'
 import { eq } from 'drizzle-orm'
 
-const updateSchema = laserSetupSchema.partial().extend({ reason: retireSchema.shape.reason.optional() })
+/** An edit: any subset of the fields, and a reason (required only when the edit voids a sign-off; empty means none). */
+const updateSchema = laserSetupSchema.partial().extend({
+  reason: z.string().trim().max(500, 'Use at most 500 characters').nullable().optional().transform((v) => v || null),
+})
 const figuresQuery = z.object({
   edition: z.enum(MPE_EDITIONS as [string, ...string[]]).optional(),
   spotUm: z.coerce.number().positive('Spot diameter in µm, above 0').max(1e5).optional(),
@@ -39,8 +42,8 @@ export function laserSetupRoutes(ctx: AppContext): Router {
   r.get('/laser-setups', requireAbility('read', 'LaserSetup'), async (req, res) => {
     res.json({ ...(await listLaserSetups(ctx.db, parse(listQuerySchema, req.query))), caution: LASER_CAUTION })
   })
-  r.get('/laser-setups/queue', requireAbility('signoff', 'LaserSetup'), async (_req, res) => {
-    res.json({ ...(await signoffQueue(ctx.db)), caution: LASER_CAUTION })
+  r.get('/laser-setups/queue', requireAbility('signoff', 'LaserSetup'), async (req, res) => {
+    res.json({ ...(await signoffQueue(ctx.db, currentUser(req))), caution: LASER_CAUTION })
   })
   r.get('/laser-setups/:id', requireAbility('read', 'LaserSetup'), async (req, res) => {
     res.json(await detail(req, parse(idParamSchema, req.params).id, parse(figuresQuery, req.query)))
