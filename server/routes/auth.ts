@@ -12,6 +12,9 @@ import { preferencesSchema } from '../../shared/schemas/notices'
 import { getPreferences, setPreferences } from '../services/notices'
 import { MariaDbThrottleStore } from '../services/throttle-store'
 
+/** How long an account stays throttled after too many failed sign-ins from anywhere. */
+export const ACCOUNT_WINDOW_MIN = 5
+
 export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router {
   const r = Router()
 
@@ -28,7 +31,21 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
     handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', 'Too many failed sign-ins. Wait ten minutes and try again.')),
   })
 
-  r.post('/login', loginLimiter, (req, res, next) => {
+  // Failed sign-ins per account from any address (guesses spread over many addresses): twice the
+  // per-address limit in a 5-minute window, so the real person waits at most five minutes.
+  const accountLimiter = rateLimit({
+    store: new MariaDbThrottleStore(ctx.db, 'login-account'),
+    windowMs: ACCOUNT_WINDOW_MIN * 60 * 1000,
+    limit: 2 * ctx.env.LOGIN_MAX_FAILURES,
+    skipSuccessfulRequests: true,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    keyGenerator: (req) => String(req.body?.email ?? '').toLowerCase().slice(0, 190),
+    handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts',
+      `Too many failed sign-ins for this account. Wait ${ACCOUNT_WINDOW_MIN} minutes and try again; if it was not you, tell your administrator.`)),
+  })
+
+  r.post('/login', loginLimiter, accountLimiter, (req, res, next) => {
     req.body = parse(loginSchema, req.body)
     pp.authenticate('local', (err: unknown, user: User | false) => {
       if (err) return next(err)
@@ -49,7 +66,7 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
 
   r.post('/password', requireUser, async (req, res) => {
     const input = parse(changePasswordSchema, req.body)
-    await changePassword(ctx.db, currentUser(req), input.currentPassword, input.newPassword)
+    await changePassword(ctx.db, currentUser(req), input.currentPassword, input.newPassword, req.sessionID)
     res.status(204).end()
   })
 

@@ -5,6 +5,24 @@ export function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!)
 }
 
+/** A password-reset link an administrator sent. */
+export function resetMail(p: { to: string; name: string; actor: string; link: string }): OutgoingMail {
+  const text = [
+    `Hello ${p.name},`,
+    '',
+    `${p.actor} has sent you a link to choose a new Overtone password (it works once and expires in 7 days):`,
+    '',
+    p.link,
+    '',
+    'Your open sessions have been ended. If you did not ask for this, tell your administrator.',
+  ].join('\n')
+  const html = `<p>Hello ${escapeHtml(p.name)},</p>
+<p>${escapeHtml(p.actor)} has sent you a link to choose a new Overtone password (it works once and expires in 7 days):<br>
+<a href="${escapeHtml(p.link)}">Choose a new password</a> <code>${escapeHtml(p.link)}</code></p>
+<p>Your open sessions have been ended. If you did not ask for this, tell your administrator.</p>`
+  return { to: p.to, subject: 'Choose a new Overtone password', text, html }
+}
+
 export function inviteMail(p: { to: string; name: string; inviter: string; link: string }): OutgoingMail {
   const text = [
     `Hello ${p.name},`,

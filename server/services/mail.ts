@@ -51,7 +51,11 @@ export class MailWorker {
       for (const m of due) {
         try {
           await this.transport.sendMail({ from: this.from, to: m.toAddress, subject: m.subject, text: m.textBody, html: m.htmlBody ?? undefined })
-          await this.db.update(mailQueue).set({ status: 'sent', sentAt: new Date(), attempts: m.attempts + 1, lastError: null }).where(eq(mailQueue.id, m.id))
+          // Once sent, the queue keeps the message with its one-time links masked (no usable token at rest).
+          await this.db.update(mailQueue).set({
+            status: 'sent', sentAt: new Date(), attempts: m.attempts + 1, lastError: null,
+            textBody: maskOneTimeLinks(m.textBody), htmlBody: maskOneTimeLinks(m.htmlBody),
+          }).where(eq(mailQueue.id, m.id))
           sent++
         } catch (err) {
           const attempts = m.attempts + 1
@@ -78,10 +82,21 @@ export async function listReceived(db: Db, limit = 200): Promise<MailSummary[]> 
   return rows.map((r) => ({ ...r, receivedAt: r.receivedAt.toISOString() }))
 }
 
+/**
+ * One-time links (invitation, password reset) in a message as the outbox shows it: the token is
+ * masked to its last four characters, so whoever reads the outbox cannot use the link. The
+ * database keeps only the token's SHA-256; the link reaches its owner by mail only.
+ */
+export function maskOneTimeLinks(s: string): string
+export function maskOneTimeLinks(s: string | null): string | null
+export function maskOneTimeLinks(s: string | null): string | null {
+  return s && s.replace(/\/invite\/([A-Za-z0-9_-]{16,})/g, (_m, token: string) => `/invite/••••${token.slice(-4)}`)
+}
+
 export async function getReceived(db: Db, id: number): Promise<MailMessage | null> {
   const [r] = await db.select().from(mailReceived).where(eq(mailReceived.id, id))
   if (!r) return null
-  return { id: r.id, from: r.fromAddress, to: r.toAddress, subject: r.subject, receivedAt: r.receivedAt.toISOString(), text: r.textBody, html: r.htmlBody }
+  return { id: r.id, from: r.fromAddress, to: r.toAddress, subject: r.subject, receivedAt: r.receivedAt.toISOString(), text: maskOneTimeLinks(r.textBody), html: maskOneTimeLinks(r.htmlBody) }
 }
 
 export async function listQueue(db: Db, limit = 200) {
