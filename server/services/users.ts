@@ -10,7 +10,6 @@ import { writeAudit, diffFields } from './audit'
 import { queueMail } from './mail'
 import { ConflictError, ForbiddenError, NotFoundError, fieldError } from '../errors'
 import { inviteMail } from './mail-templates'
-import { forgetUser } from '../auth/signed-in-cache'
 import { plainRows } from '../db/plain-rows'
 
 /** How long an invitation link stays valid. */
@@ -95,7 +94,6 @@ export async function updateUser(db: Db, actor: User, id: number, input: UpdateU
       await tx.update(users).set({ ...next, updatedAt: new Date() }).where(eq(users.id, id))
       await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'update', changes })
     })
-    forgetUser(id)
   }
   return toPublicUser((await findUserById(db, id))!)
 }
@@ -124,7 +122,6 @@ export async function acceptInvitation(db: Db, token: string, password: string):
     await tx.update(users).set({ passwordHash: hash, updatedAt: new Date() }).where(eq(users.id, row.user.id))
     await writeAudit(tx, { userId: row.user.id, entity: 'user', entityId: row.user.id, action: 'update', changes: { password: { from: '(none)', to: '(set from invitation)' } } })
   })
-  forgetUser(row.user.id)
   return (await findUserById(db, row.user.id))!
 }
 
@@ -136,5 +133,4 @@ export async function changePassword(db: Db, user: User, current: string, next: 
     await tx.update(users).set({ passwordHash: hash, updatedAt: new Date() }).where(eq(users.id, user.id))
     await writeAudit(tx, { userId: user.id, entity: 'user', entityId: user.id, action: 'update', changes: { password: { from: '(hidden)', to: '(changed)' } } })
   })
-  forgetUser(user.id)
 }
