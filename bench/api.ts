@@ -6,11 +6,9 @@
  * so the bare figure is exactly what the route asks of MariaDB; the queries of one request are
  * replayed one after another.
  * Overhead = bare requests/s ÷ API requests/s (= ratio of mean latencies at equal concurrency).
- * Each route is measured twice: as served (a best case: the same URL again and again, so every read
- * after the first comes from the response cache after one
- * data-version check, server/middleware/response-cache.ts) and with `Cache-Control: no-cache`, so
- * every request runs the route's queries. The first case (auth/me) reads no data at all: it is the
- * floor that HTTP, the session and the load generator set on this machine.
+ * Every request runs the route's queries (the server keeps no answers). The first case (auth/me)
+ * reads no data at all: it is the floor that HTTP, the session and the load generator set on this
+ * machine.
  */
 import autocannon from 'autocannon'
 import mysql from 'mysql2/promise'
@@ -41,9 +39,9 @@ async function signIn(base: string, email: string, password: string): Promise<st
 }
 
 /** autocannon for `seconds` at `connections`; latencies of every response, sorted (ms). */
-async function hammer(url: string, cookie: string, connections: number, seconds: number, uncached = false) {
+async function hammer(url: string, cookie: string, connections: number, seconds: number) {
   const times: number[] = []
-  const inst = autocannon({ url, connections, duration: seconds, headers: uncached ? { cookie, 'cache-control': 'no-cache' } : { cookie } })
+  const inst = autocannon({ url, connections, duration: seconds, headers: { cookie } })
   inst.on('response', (_c: unknown, _status: number, _bytes: number, ms: number) => times.push(ms))
   const result = await inst
   times.sort((a, b) => a - b)
@@ -70,7 +68,7 @@ async function cases(pool: mysql.Pool): Promise<Case[]> {
   const q = (s: string) => Object.fromEntries(new URLSearchParams(s))
   const chipPrefix = mid.chip.slice(0, 8) // e.g. C-0061-2
   return [
-    // The floor of this machine: a signed-in request that reads nothing (session and person remembered).
+    // The floor of this machine: a signed-in request that reads only its session and person rows.
     { name: 'floor: signed-in, no data (auth/me)', path: '/api/auth/me', run: async () => {} },
     { name: 'arrays list (page 1)', path: '/api/arrays?page=1&pageSize=25', target: 20, run: (db) => listArrays(db, listQuerySchema.parse(q('page=1&pageSize=25'))) },
     { name: 'arrays list, deep page 2000', path: '/api/arrays?page=2000&pageSize=25', run: (db) => listArrays(db, listQuerySchema.parse(q('page=2000&pageSize=25'))) },
@@ -103,10 +101,8 @@ export async function runApiBench(o: ApiBenchOptions): Promise<BenchRow[]> {
       const queries = [...captured]
       log(`[bench] ${c.name}: ${queries.length} queries`)
       await hammer(o.baseUrl + c.path, cookie, connections, 1) // warm-up (JIT, pools, caches), not counted
-      // As served (repeated reads answered from the response cache after one data-version check),
-      // then every request computed (Cache-Control: no-cache), then the bare SQL.
+      // The route as served, then the bare SQL.
       const api = await hammer(o.baseUrl + c.path, cookie, connections, seconds)
-      const computed = queries.length ? await hammer(o.baseUrl + c.path, cookie, connections, seconds, true) : api
       if (!queries.length) { // the floor: nothing to replay
         rows.push({ name: `GET ${c.path} ${c.name}: p95`, value: pct(api.times, 95), unit: 'ms', note: `${Math.round(api.rps)} req/s, p50 ${fmtMs(pct(api.times, 50))}, p99 ${fmtMs(pct(api.times, 99))}` })
         continue
@@ -114,11 +110,9 @@ export async function runApiBench(o: ApiBenchOptions): Promise<BenchRow[]> {
       const raw = await bare(pool, queries, connections, seconds)
       const [b50, b95, b99] = [50, 95, 99].map((p) => pct(raw.times, p))
       const summary = (h: typeof api) => `${Math.round(h.rps)} req/s, p50 ${fmtMs(pct(h.times, 50))}, p99 ${fmtMs(pct(h.times, 99))}${h.non2xx ? `, ${h.non2xx} non-2xx!` : ''}`
-      rows.push({ name: `GET ${c.path.split('?')[0]} ${c.name}: p95`, value: pct(api.times, 95), unit: 'ms', target: c.target, better: 'lower', note: `${summary(api)} (response cache)` })
-      rows.push({ name: '  ↳ every request computed (no-cache): p95', value: pct(computed.times, 95), unit: 'ms', target: c.target, better: 'lower',
-        note: `${summary(computed)} | bare SQL (${queries.length} q): ${Math.round(raw.rps)}/s, p50 ${fmtMs(b50)}, p95 ${fmtMs(b95)}, p99 ${fmtMs(b99)}` })
-      rows.push({ name: '  ↳ overhead vs bare mysql2, as served (rps ratio)', value: raw.rps / api.rps, unit: '×', target: 3, better: 'lower' })
-      rows.push({ name: '  ↳ overhead vs bare mysql2, computed (rps ratio)', value: raw.rps / computed.rps, unit: '×', target: 3, better: 'lower', note: `p95 ratio ${(pct(computed.times, 95) / b95).toFixed(2)}×` })
+      rows.push({ name: `GET ${c.path.split('?')[0]} ${c.name}: p95`, value: pct(api.times, 95), unit: 'ms', target: c.target, better: 'lower',
+        note: `${summary(api)} | bare SQL (${queries.length} q): ${Math.round(raw.rps)}/s, p50 ${fmtMs(b50)}, p95 ${fmtMs(b95)}, p99 ${fmtMs(b99)}` })
+      rows.push({ name: '  ↳ overhead vs bare mysql2 (rps ratio)', value: raw.rps / api.rps, unit: '×', target: 3, better: 'lower', note: `p95 ratio ${(pct(api.times, 95) / b95).toFixed(2)}×` })
     }
   } finally {
     await pool.end()

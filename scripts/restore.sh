@@ -20,9 +20,6 @@ check_file database.sql.gz
 check_file uploads.tar.gz
 
 TABLES="$(db_tables)"
-# A running app server caches answers under the data version (server/db/data-version.ts): the
-# restored counter must end above the one it replaces, or an old answer could match again.
-OLD_VERSION="$(echo "$TABLES" | grep -qx data_version && sql -e 'SELECT n FROM data_version WHERE id = 1' || true)"
 if [ -n "$TABLES" ]; then
   [ "$FORCE" = 1 ] || die "database $DB_NAME is not empty ($(echo "$TABLES" | wc -l) tables): restore into an empty database, or add --force to replace it"
   log "--force: dropping the $(echo "$TABLES" | wc -l) tables of $DB_NAME"
@@ -36,9 +33,6 @@ fi
 log "loading the dump into $DB_NAME on $DB_HOST:$DB_PORT_"
 # DEFINER clauses name the user that made the backup; the triggers are re-created as the restoring user.
 gunzip -c "$SRC/database.sql.gz" | sed -E 's/DEFINER=`[^`]*`@`[^`]*`//g' | sql || die "loading the dump failed"
-if [ -n "$(db_tables | grep -x data_version || true)" ]; then
-  sql -e "UPDATE data_version SET n = GREATEST(n, ${OLD_VERSION:-0}) + 1 WHERE id = 1" || die "could not advance the data version"
-fi
 mkdir -p "$DATA"
 tar -C "$DATA" -xzf "$SRC/uploads.tar.gz"
 

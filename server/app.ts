@@ -7,7 +7,6 @@ import fs from 'node:fs'
 import { fileURLToPath } from 'node:url'
 import type { AppContext } from './context'
 import { configurePassport } from './auth/passport'
-import { rememberSessionReads, type CallbackStore } from './auth/signed-in-cache'
 import { requestId } from './middleware/request-id'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
@@ -25,24 +24,6 @@ import { analysisRoutes } from './routes/analysis'
 
 const MySQLStore = MySQLStoreFactory(session as never)
 
-type TouchingStore = { touch: (sid: string, data: unknown, cb?: (err?: unknown) => void) => unknown }
-/**
- * A rolling session is "touched" (an UPDATE of its expiry) after every request; for a 12-hour
- * session one write a minute per session and server is plenty (the row's expiry lags the
- * cookie's by under a minute), and it takes a write off every API read.
- */
-function throttleTouch(store: TouchingStore, everyMs = 60_000): void {
-  const touch = store.touch.bind(store)
-  const last = new Map<string, number>()
-  store.touch = (sid, data, cb) => {
-    const now = Date.now()
-    if (now - (last.get(sid) ?? 0) < everyMs) { cb?.(); return }
-    if (last.size > 20_000) last.clear()
-    last.set(sid, now)
-    return touch(sid, data, cb)
-  }
-}
-
 /** Where the built client lives (dist/client at the project root, from server/ or dist/server/). */
 function findClientDir(): string {
   const here = path.dirname(fileURLToPath(import.meta.url))
@@ -59,8 +40,6 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.set('trust proxy', 'loopback')
 
   const store = new MySQLStore({ createDatabaseTable: false, clearExpired: true, checkExpirationInterval: 15 * 60 * 1000 }, ctx.pool as never)
-  throttleTouch(store as unknown as TouchingStore)
-  rememberSessionReads(store as unknown as CallbackStore)
   const pp = configurePassport(ctx.db)
 
   app.use(helmet({

@@ -46,10 +46,6 @@ const envSchema = z.object({
   /** Excel import: megabytes an uploaded workbook may unpack to, and data rows per sheet. */
   IMPORT_MAX_EXPANDED_MB: z.coerce.number().positive().default(200),
   IMPORT_MAX_ROWS: z.coerce.number().int().min(1).default(100_000),
-  /** Response cache of the big lists, search and array detail (server/middleware/response-cache.ts):
-   * megabytes per server (0 turns it off) and the longest an answer is kept, in milliseconds. */
-  RESPONSE_CACHE_MB: z.coerce.number().min(0).default(64),
-  RESPONSE_CACHE_TTL_MS: z.coerce.number().int().min(1).default(30_000),
   ...fileStorageFields,
 }).superRefine(requireS3Settings)
 

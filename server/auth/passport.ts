@@ -4,7 +4,6 @@ import type { Db } from '../db/client'
 import type { User } from '../db/schema/index'
 import { findUserByEmail, findUserById } from '../services/users'
 import { getDummyHash, verifyPassword } from './passwords'
-import { rememberedUser } from './signed-in-cache'
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -14,8 +13,8 @@ declare global {
   }
 }
 
-/** Configure passport: e-mail + password against scrypt hashes; the session holds only the user id
- * (its row is read again at most every SIGNED_IN_TTL_MS, see signed-in-cache.ts). */
+/** Configure passport: e-mail + password against scrypt hashes; the session holds only the user id,
+ * and the person's row is read on every request (so a role change or deactivation counts at once). */
 export function configurePassport(db: Db): passport.PassportStatic {
   const p = new passport.Passport() as unknown as passport.PassportStatic
   p.use(new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
@@ -29,7 +28,7 @@ export function configurePassport(db: Db): passport.PassportStatic {
   }))
   p.serializeUser((user, done) => done(null, (user as User).id))
   p.deserializeUser((id: number, done) => {
-    rememberedUser(Number(id), (i) => findUserById(db, i))
+    findUserById(db, Number(id))
       .then((u) => done(null, u && u.active ? u : false))
       .catch(done)
   })

@@ -1,18 +1,17 @@
 import mysql from 'mysql2/promise'
 import { drizzle } from 'drizzle-orm/mysql2'
 import * as schema from './schema/index'
-import { countWrites } from './data-version'
 
 export type Db = ReturnType<typeof createDb>['db']
 
 /**
  * One mysql2 pool shared by Drizzle and the session store. `mode: 'planetscale'` because MariaDB
- * lacks LATERAL joins, which the default relational-query mode uses. Every committed write through
- * the pool bumps the data version (data-version.ts). In production mysql2 does not capture a stack
- * trace for every statement (`trace`), which cost a few per cent of the CPU of a list request.
+ * lacks LATERAL joins, which the default relational-query mode uses. In production mysql2 does not
+ * capture a stack trace for every statement (`trace`), which cost a few per cent of the CPU of a
+ * list request.
  */
 export function createDb(url: string, connectionLimit = 10) {
-  const pool = countWrites(mysql.createPool({ uri: url, connectionLimit, timezone: 'Z', supportBigNumbers: true, dateStrings: false, trace: process.env.NODE_ENV !== 'production' }))
+  const pool = mysql.createPool({ uri: url, connectionLimit, timezone: 'Z', supportBigNumbers: true, dateStrings: false, trace: process.env.NODE_ENV !== 'production' })
   const db = drizzle({ client: pool, schema, mode: 'planetscale' })
   return { pool, db }
 }

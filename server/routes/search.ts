@@ -7,12 +7,11 @@ import { searchUsers } from '../services/users'
 import { searchRecords } from '../services/resolve'
 import type { SearchHit } from '../../shared/types'
 import { ROLE_LABELS } from '../../shared/roles'
-import { cachedJson } from '../middleware/response-cache'
 
 /** Global search: records (exact code first, then code prefixes, lots, suppliers, notes, materials), then people. */
 export function searchRoutes(ctx: AppContext): Router {
   const r = Router()
-  r.get('/', requireUser, cachedJson(ctx), async (req, res) => {
+  r.get('/', requireUser, async (req, res) => {
     const { q } = parse(searchQuerySchema, req.query)
     const [records, people] = await Promise.all([searchRecords(ctx.db, q), searchUsers(ctx.db, q)])
     const hits: SearchHit[] = [...records, ...people.map((p) => ({

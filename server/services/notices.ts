@@ -5,7 +5,6 @@ import type { Db } from '../db/client'
 import { diffFields, writeAudit, type DbOrTx } from './audit'
 import type { Preferences, PreferencesInput } from '../../shared/schemas/notices'
 import { queueMail } from './mail'
-import { forgetUser } from '../auth/signed-in-cache'
 import {
   layoutNotice, setupSubmittedNotice, setupChangedNotice, signoffDecisionNotice, handOffNotice,
   type NoticeBody, type Recipient,
@@ -83,6 +82,5 @@ export async function setPreferences(db: Db, userId: number, input: PreferencesI
     await tx.update(users).set({ notifyByMail: input.notifyByMail, updatedAt: new Date() }).where(eq(users.id, userId))
     await writeAudit(tx, { userId, entity: 'user', entityId: userId, action: 'update', changes: diffFields(before, input), reason: 'own notice preference' })
   })
-  forgetUser(userId)
   return getPreferences(db, userId)
 }

@@ -11,7 +11,6 @@ import { queueMail } from './mail'
 import { AppError, ConflictError, ForbiddenError, NotFoundError, fieldError } from '../errors'
 import { inviteMail, resetMail } from './mail-templates'
 import { requireStrongPassword } from '../auth/password-strength'
-import { forgetUser } from '../auth/signed-in-cache'
 import { plainRows } from '../db/plain-rows'
 
 /** How long an invitation link stays valid. */
@@ -112,7 +111,6 @@ export async function updateUser(db: Db, actor: User, id: number, input: UpdateU
       await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'update', changes, reason: input.reason ?? null })
       if (changedRoles.length || input.active === false) await endSessions(tx, id)
     })
-    forgetUser(id)
   }
   return toPublicUser((await findUserById(db, id))!)
 }
@@ -136,7 +134,6 @@ export async function endSessionsOf(db: Db, actor: User, id: number, reason: str
     await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'other', changes: { sessions: { from: `${n} open`, to: 'ended' } }, reason })
     return n
   })
-  forgetUser(id)
   return { ended }
 }
 
@@ -155,7 +152,6 @@ export async function sendPasswordReset(db: Db, actor: User, id: number, reason:
     await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'other', changes: { password: { from: '(hidden)', to: 'reset link sent' }, sessions: { from: `${n} open`, to: 'ended' } }, reason })
     await queueMail(tx, resetMail({ to: target.email, name: target.name, actor: actor.name, link: `${publicUrl}/invite/${token}` }))
   })
-  forgetUser(id)
 }
 
 async function findOpenInvitation(db: Db, token: string) {
@@ -185,7 +181,6 @@ export async function acceptInvitation(db: Db, token: string, password: string):
     await writeAudit(tx, { userId: row.user.id, entity: 'user', entityId: row.user.id, action: 'update', changes: { password: { from: was, to: row.user.passwordHash ? '(reset from a one-time link)' : '(set from invitation)' } } })
     await endSessions(tx, row.user.id)
   })
-  forgetUser(row.user.id)
   return (await findUserById(db, row.user.id))!
 }
 
@@ -200,5 +195,4 @@ export async function changePassword(db: Db, user: User, current: string, next: 
     const ended = await endSessions(tx, user.id, keepSessionId)
     await writeAudit(tx, { userId: user.id, entity: 'user', entityId: user.id, action: 'update', changes: { password: { from: '(hidden)', to: '(changed)' }, ...(ended ? { sessions: { from: `${ended} other open`, to: 'ended' } } : {}) } })
   })
-  forgetUser(user.id)
 }

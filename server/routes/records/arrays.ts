@@ -7,7 +7,6 @@ import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { createArray, getArray, listArrays, recomputeArrays, retireArray, updateArray } from '../../services/arrays'
 import { getChip } from '../../services/chips'
-import { cachedJson } from '../../middleware/response-cache'
 
 const arrayListSchema = listQuerySchema.extend({
   chipId: z.coerce.number().int().positive().optional(),
@@ -23,10 +22,10 @@ const recomputeSchema = z.object({
 /** /api/arrays and /api/chips/:id/arrays: nanostructure arrays with derived symmetry and channels. */
 export function arrayRoutes(ctx: AppContext): Router {
   const r = Router()
-  r.get('/arrays', requireAbility('read', 'Array'), cachedJson(ctx), async (req, res) => {
+  r.get('/arrays', requireAbility('read', 'Array'), async (req, res) => {
     res.json(await listArrays(ctx.db, parse(arrayListSchema, req.query)))
   })
-  r.get('/chips/:id/arrays', requireAbility('read', 'Array'), cachedJson(ctx), async (req, res) => {
+  r.get('/chips/:id/arrays', requireAbility('read', 'Array'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     await getChip(ctx.db, id)
     res.json(await listArrays(ctx.db, { ...parse(arrayListSchema, req.query), chipId: id }))
@@ -34,7 +33,7 @@ export function arrayRoutes(ctx: AppContext): Router {
   r.post('/arrays/recompute', requireAbility('update', 'Array'), async (req, res) => {
     res.json(await recomputeArrays(ctx.db, currentUser(req), parse(recomputeSchema, req.body ?? {})))
   })
-  r.get('/arrays/:id', requireAbility('read', 'Array'), cachedJson(ctx), async (req, res) => {
+  r.get('/arrays/:id', requireAbility('read', 'Array'), async (req, res) => {
     res.json(await getArray(ctx.db, parse(idParamSchema, req.params).id))
   })
   r.post('/arrays', requireAbility('create', 'Array'), async (req, res) => {

@@ -5,12 +5,11 @@ import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { getChipDetail, listChips, retireChip, updateChip } from '../../services/chips'
-import { cachedJson } from '../../middleware/response-cache'
 
 /** /api/chips: list, detail (with arrays and fab steps), update (audited), retire; chips are made by dicing a wafer. */
 export function chipRoutes(ctx: AppContext): Router {
   const r = Router()
-  r.get('/chips', requireAbility('read', 'Chip'), cachedJson(ctx), async (req, res) => {
+  r.get('/chips', requireAbility('read', 'Chip'), async (req, res) => {
     res.json(await listChips(ctx.db, parse(listQuerySchema, req.query)))
   })
   r.get('/chips/:id', requireAbility('read', 'Chip'), async (req, res) => {

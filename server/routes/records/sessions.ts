@@ -6,12 +6,11 @@ import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { createSession, getSession, listSessions, previewSession, updateSession } from '../../services/sessions'
-import { cachedJson } from '../../middleware/response-cache'
 
 /** /api/sessions: measurement sessions with predicted vs observed channels (optics staff write; everyone reads). */
 export function sessionRoutes(ctx: AppContext): Router {
   const r = Router()
-  r.get('/sessions', requireAbility('read', 'Session'), cachedJson(ctx), async (req, res) => {
+  r.get('/sessions', requireAbility('read', 'Session'), async (req, res) => {
     res.json(await listSessions(ctx.db, parse(sessionListQuerySchema, req.query)))
   })
   r.post('/sessions/preview', requireAbility('read', 'Session'), async (req, res) => {

@@ -7,14 +7,13 @@ import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { createWafer, getWaferDetail, listWafers, retireWafer, updateWafer } from '../../services/wafers'
 import { diceChips, listChipsOfWafer } from '../../services/chips'
-import { cachedJson } from '../../middleware/response-cache'
 
 const waferListSchema = listQuerySchema.extend({ materialId: z.coerce.number().int().positive().optional() })
 
 /** /api/wafers: list, detail (with chips), create, update, retire, and dicing into chips. */
 export function waferRoutes(ctx: AppContext): Router {
   const r = Router()
-  r.get('/wafers', requireAbility('read', 'Wafer'), cachedJson(ctx), async (req, res) => {
+  r.get('/wafers', requireAbility('read', 'Wafer'), async (req, res) => {
     res.json(await listWafers(ctx.db, parse(waferListSchema, req.query)))
   })
   r.get('/wafers/:id', requireAbility('read', 'Wafer'), async (req, res) => {
