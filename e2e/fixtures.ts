@@ -45,3 +45,24 @@ export async function signOut(page: Page): Promise<void> {
   await page.getByRole('link', { name: 'Sign out' }).click()
   await expect(page.getByRole('heading', { name: 'You are signed out' })).toBeVisible()
 }
+
+/**
+ * The one-time link in the newest mail to `to`, read from the local SMTP sink's store: the
+ * invitee's own mailbox. (The app's outbox shows such links masked.) Needs DATABASE_URL, which
+ * `npm test` sets for the browser tests.
+ */
+export async function mailboxLink(to: string): Promise<string> {
+  const { createConnection } = await import('mysql2/promise')
+  const url = process.env.DATABASE_URL
+  if (!url) throw new Error('DATABASE_URL is not set: run the browser tests through npm test')
+  const conn = await createConnection(url)
+  try {
+    const [rows] = await conn.query('SELECT text_body FROM mail_received WHERE to_address LIKE ? ORDER BY id DESC LIMIT 1', [`%${to}%`])
+    const text = (rows as { text_body: string }[])[0]?.text_body ?? ''
+    const link = /https?:\/\/\S+\/invite\/[A-Za-z0-9_-]{20,}/.exec(text)?.[0]
+    if (!link) throw new Error(`no one-time link in the mailbox of ${to}`)
+    return link
+  } finally {
+    await conn.end()
+  }
+}

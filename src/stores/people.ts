@@ -36,5 +36,9 @@ export const usePeopleStore = defineStore('people', () => {
     return user
   }
 
-  return { people, isLoading, fetchPeople, invite, update }
+  /** Administrators: end a person's sessions; mail them a password-reset link. */
+  const endSessions = (id: number, reason: string) => usersApi.endSessions(id, reason)
+  const sendPasswordReset = (id: number, reason: string) => usersApi.sendPasswordReset(id, reason)
+
+  return { people, isLoading, fetchPeople, invite, update, endSessions, sendPasswordReset }
 })
