@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { ROLES } from '../roles'
+import { safeString } from './common'
 
 /** Password policy: long enough to resist guessing; no composition rules (common practice, NIST SP 800-63B). */
 export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200, 'Use at most 200 characters')
@@ -26,20 +27,20 @@ export const roleSchema = z.enum(ROLES)
 
 export const inviteSchema = z.object({
   email: z.email('Enter a valid e-mail address').max(190),
-  name: z.string().trim().min(2, 'Enter the full name').max(120),
+  name: safeString().min(2, 'Enter the full name').max(120),
   roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length),
 })
 export type InviteInput = z.infer<typeof inviteSchema>
 
 export const updateUserSchema = z.object({
-  name: z.string().trim().min(2, 'Enter the full name').max(120).optional(),
+  name: safeString().min(2, 'Enter the full name').max(120).optional(),
   roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length).optional(),
   active: z.boolean().optional(),
 }).refine((v) => Object.keys(v).length > 0, { message: 'Nothing to change' })
 export type UpdateUserInput = z.infer<typeof updateUserSchema>
 
-export const idParamSchema = z.object({ id: z.coerce.number().int().positive('Must be a positive id') })
+export { idParamSchema } from './common'
 
 export const searchQuerySchema = z.object({
-  q: z.string().trim().min(1, 'Type something to search for').max(100),
+  q: safeString().min(1, 'Type something to search for').max(100),
 })

@@ -8,8 +8,9 @@ import { currentUser, requireAbility } from '../../auth/guards'
 import { createWafer, getWaferDetail, listWafers, retireWafer, updateWafer } from '../../services/wafers'
 import { diceChips, listChipsOfWafer } from '../../services/chips'
 import { cachedJson } from '../../middleware/response-cache'
+import { idValue } from '../../../shared/schemas/common'
 
-const waferListSchema = listQuerySchema.extend({ materialId: z.coerce.number().int().positive().optional() })
+const waferListSchema = listQuerySchema.extend({ materialId: idValue().optional() })
 
 /** /api/wafers: list, detail (with chips), create, update, retire, and dicing into chips. */
 export function waferRoutes(ctx: AppContext): Router {
