@@ -11,6 +11,7 @@ import { rememberSessionReads, type CallbackStore } from './auth/signed-in-cache
 import { requestId } from './middleware/request-id'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
+import { refuseDeepJson } from './middleware/json-depth'
 import { authRoutes } from './routes/auth'
 import { userRoutes } from './routes/users'
 import { mailRoutes } from './routes/mail'
@@ -80,7 +81,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use(requestId)
   // Health first: a load balancer's probe must get 503 (not a session-store error) when the DB is down.
   app.use('/api/health', healthRoutes(ctx))
-  app.use('/api', express.json({ limit: '1mb' }))
+  app.use('/api', express.json({ limit: '1mb', verify: refuseDeepJson }))
   app.use('/api', session({
     name: 'sid',
     secret: ctx.env.SESSION_SECRET,
