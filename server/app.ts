@@ -10,6 +10,7 @@ import { configurePassport } from './auth/passport'
 import { requestId } from './middleware/request-id'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
+import { refuseDeepJson } from './middleware/json-depth'
 import { authRoutes } from './routes/auth'
 import { userRoutes } from './routes/users'
 import { mailRoutes } from './routes/mail'
@@ -59,7 +60,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use(requestId)
   // Health first: a load balancer's probe must get 503 (not a session-store error) when the DB is down.
   app.use('/api/health', healthRoutes(ctx))
-  app.use('/api', express.json({ limit: '1mb' }))
+  app.use('/api', express.json({ limit: '1mb', verify: refuseDeepJson }))
   app.use('/api', session({
     name: 'sid',
     secret: ctx.env.SESSION_SECRET,

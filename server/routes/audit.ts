@@ -6,8 +6,9 @@ import { abilityOf, requireAbility, requireUser } from '../auth/guards'
 import { ForbiddenError, fieldError } from '../errors'
 import { AUDIT_ENTITIES, auditSearchSchema, type AuditEntity } from '../../shared/audit'
 import { recordHistory, searchAudit } from '../services/audit-query'
+import { idValue } from '../../shared/schemas/common'
 
-const historyParams = z.object({ entity: z.string().max(40), id: z.coerce.number().int().positive('Give a record id') })
+const historyParams = z.object({ entity: z.string().max(40), id: idValue() })
 
 /**
  * Mounted under /api/audit: record history and audit search. Read-only on purpose: the audit

@@ -1,5 +1,5 @@
 import { and, desc, eq, inArray, isNull } from 'drizzle-orm'
-import { analysisFits, arrays, measurementSessions as ms, sessionResults } from '../db/schema/index'
+import { analysisFits, arrays, chips, measurementSessions as ms, sessionResults } from '../db/schema/index'
 import type { Db } from '../db/client'
 import { compareResult, loadArrayContexts } from './session-compare'
 import { NotFoundError } from '../errors'
@@ -30,6 +30,9 @@ export async function sheetSessions(db: Db, target: { arrayId?: number; chipId?:
     .where(target.arrayId !== undefined ? eq(arrays.id, target.arrayId) : and(eq(arrays.chipId, target.chipId!), isNull(arrays.retiredAt)))
     .orderBy(arrays.code).limit(200)
   if (target.arrayId !== undefined && !list.length) throw new NotFoundError('No such array')
+  if (target.chipId !== undefined && !list.length && !(await db.select({ id: chips.id }).from(chips).where(eq(chips.id, target.chipId)).limit(1)).length) {
+    throw new NotFoundError('No such chip')
+  }
   const ids = list.map((a) => a.id)
   if (!ids.length) return []
   const rows = await db.select({ r: sessionResults, s: ms }).from(sessionResults).innerJoin(ms, eq(ms.id, sessionResults.sessionId))

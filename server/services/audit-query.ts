@@ -1,11 +1,11 @@
 import { and, asc, desc, eq, inArray, like, or, sql, type SQL } from 'drizzle-orm'
 import {
-  auditLog, users, wafers, chips, arrays, locations, laserSetups, measurementSessions, materials, files,
+  auditLog, users, wafers, chips, arrays, locations, laserSetups, measurementSessions, materials, files, fabSteps, labelJobs,
 } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { Page } from '../../shared/records'
 import type { AuditRow, AuditSearchQuery } from '../../shared/audit'
-import { fieldError } from '../errors'
+import { fieldError, NotFoundError } from '../errors'
 import { likePattern } from './codes'
 
 /**
@@ -90,9 +90,19 @@ export async function recordOfCode(db: Db, raw: string): Promise<{ entity: strin
 
 const selectRows = (db: Db) => db.select({ a: auditLog, userName: users.name }).from(auditLog).leftJoin(users, eq(users.id, auditLog.userId))
 
-/** The whole history of one record, newest first. */
+/** Table and id column of each kind of record, to tell "no history yet" from "no such record". */
+const RECORD_TABLES: Record<string, { table: any; id: any }> = {
+  ...CODE_SOURCES, fab_step: { table: fabSteps, id: fabSteps.id }, label_job: { table: labelJobs, id: labelJobs.id },
+}
+
+/** The whole history of one record, newest first; 404 when no such record exists (and it has no history). */
 export async function recordHistory(db: Db, entity: string, entityId: number): Promise<AuditRow[]> {
   const rows = await selectRows(db).where(and(eq(auditLog.entity, entity), eq(auditLog.entityId, entityId))).orderBy(desc(auditLog.at), desc(auditLog.id))
+  if (!rows.length) {
+    const t = RECORD_TABLES[entity]
+    const found = t ? await db.select({ id: t.id }).from(t.table).where(eq(t.id, entityId)).limit(1) : []
+    if (!found.length) throw new NotFoundError('No such record')
+  }
   const codes = await codesOf(db, rows.slice(0, 1))
   const code = codes.get(`${entity}:${entityId}`) ?? null
   return rows.map((r) => toRow(r, code))

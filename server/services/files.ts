@@ -1,5 +1,4 @@
 import { and, asc, eq, isNull } from 'drizzle-orm'
-import sharp from 'sharp'
 import { alias } from 'drizzle-orm/mysql-core'
 import { arrays, chips, fabSteps, files, measurementSessions, users, wafers, type User } from '../db/schema/index'
 import type { Db } from '../db/client'
@@ -7,8 +6,9 @@ import type { StoredFile } from '../../shared/records'
 import type { FileUploadInput } from '../../shared/schemas/measurements'
 import type { FileStorage } from './storage'
 import { writeAudit } from './audit'
-import { BROWSER_IMAGES, checkContent, downsample, isImageMime, parseDataTable, sanitizeFileName } from './file-types'
-import { BadRequestError, NotFoundError, fieldError } from '../errors'
+import { checkContent, downsample, isImageMime, parseDataTable, sanitizeFileName } from './file-types'
+import { AppError, BadRequestError, ForbiddenError, NotFoundError, fieldError } from '../errors'
+import { defineAbilityFor, fileSubject } from '../../shared/abilities'
 
 /**
  * Uploaded files (SEM images, spectra, sweeps, camera images) attached to a record. The bytes go
@@ -45,6 +45,7 @@ export async function uploadFile(db: Db, storage: FileStorage, actor: User, inpu
   if (!upload) throw fieldError('file', 'Choose a file to upload')
   if (upload.buffer.length > MAX_UPLOAD_BYTES) throw fieldError('file', 'The file is larger than 25 MB')
   const mime = checkContent(upload.buffer, input.kind)
+  if (isImageMime(mime)) await checkImage(upload.buffer)
   await checkEntity(db, input.entity, input.entityId)
   const { sha256, sizeBytes } = await storage.put(upload.buffer)
   const originalName = sanitizeFileName(upload.originalName)
@@ -80,16 +81,48 @@ export async function openFile(db: Db, storage: FileStorage, id: number) {
   return { file, stream: await storage.get(file.sha256) }
 }
 
+class UnprocessableError extends AppError {
+  constructor(message: string) { super(422, 'unprocessable', message) }
+}
+
 export type Preview =
   | { type: 'image'; mime: string; body: Buffer }
   | { type: 'table'; body: { columns: string[]; points: [number, number][]; skipped: number } }
 
 /** Longest side of an image preview, in pixels. */
-const PREVIEW_PX = 1024
+export const PREVIEW_PX = 1600
+/** Largest image accepted, in pixels (width × height): decoding one needs memory in proportion. */
+export const MAX_IMAGE_PIXELS = 100_000_000
+
+/** sharp (libvips) is loaded on first use only: most requests never touch an image. */
+async function loadSharp() {
+  return (await import('sharp')).default
+}
 
 /**
- * A preview: images scaled down with sharp to ≤ 1024 px and re-encoded as PNG (which also drops
- * metadata); CSV tables as points of the first two columns, at most 2000, for the client's plot.
+ * Decode an uploaded image, not just its magic number: its header must give a size of at most
+ * MAX_IMAGE_PIXELS, and the whole first page must decode (a cut-off or corrupt file is refused).
+ */
+async function checkImage(buffer: Buffer): Promise<void> {
+  const sharp = await loadSharp()
+  const unreadable = 'The file could not be read as a whole image (it may be cut off or damaged); upload the original file again'
+  let meta: { width?: number; height?: number }
+  try { meta = await sharp(buffer, { limitInputPixels: false }).metadata() } catch { throw fieldError('file', unreadable) }
+  const { width = 0, height = 0 } = meta
+  if (!width || !height) throw fieldError('file', unreadable)
+  if (width * height > MAX_IMAGE_PIXELS) {
+    throw fieldError('file', `The image is ${width} × ${height} pixels (${Math.round((width * height) / 1e6)} megapixels); images up to ${MAX_IMAGE_PIXELS / 1e6} megapixels are accepted: scale it down or crop it first`)
+  }
+  try {
+    // Decoding to a small thumbnail reads every pixel row; 'truncated' refuses a file that ends early.
+    await sharp(buffer, { limitInputPixels: MAX_IMAGE_PIXELS, pages: 1, failOn: 'truncated' }).resize(64, 64, { fit: 'inside' }).raw().toBuffer()
+  } catch { throw fieldError('file', unreadable) }
+}
+
+/**
+ * A preview: images scaled down with sharp to ≤ PREVIEW_PX on the longest side and re-encoded as PNG
+ * (which also drops metadata), never the original bytes; CSV tables as points of the first two
+ * columns, at most 2000, for the client's plot.
  */
 export async function previewFile(db: Db, storage: FileStorage, id: number): Promise<Preview> {
   const file = await getFile(db, id)
@@ -99,21 +132,25 @@ export async function previewFile(db: Db, storage: FileStorage, id: number): Pro
     const t = parseDataTable(data.toString('utf8'))
     return { type: 'table', body: { columns: t.columns.slice(0, 2), points: downsample(t.rows.map((r) => [r[0], r[1]])), skipped: t.skipped } }
   }
+  const sharp = await loadSharp()
   try {
-    const body = await sharp(data, { limitInputPixels: 100_000_000, pages: 1 }).rotate()
+    const body = await sharp(data, { limitInputPixels: MAX_IMAGE_PIXELS, pages: 1 }).rotate()
       .resize({ width: PREVIEW_PX, height: PREVIEW_PX, fit: 'inside', withoutEnlargement: true }).png().toBuffer()
     return { type: 'image', mime: 'image/png', body }
   } catch {
-    if (BROWSER_IMAGES.has(file.mime)) return { type: 'image', mime: file.mime, body: data }
-    throw new BadRequestError('This image could not be read to make a preview; download the original.')
+    // Never the original instead: it may be huge (an image stored before uploads were decoded).
+    throw new UnprocessableError(`This image has no preview: it could not be read, or it is over ${MAX_IMAGE_PIXELS / 1e6} megapixels; download the original.`)
   }
 }
 
-/** Retire a file (hidden from lists, bytes kept); the reason goes to the audit row. */
+/** Retire a file (hidden from lists, bytes kept): its uploader, a group lead or an administrator; the reason goes to the audit row. */
 export async function retireFile(db: Db, actor: User, id: number, reason: string): Promise<StoredFile> {
   await db.transaction(async (tx) => {
     const [f] = await tx.select().from(files).where(eq(files.id, id)).for('update')
     if (!f) throw new NotFoundError('No such file')
+    if (!defineAbilityFor(actor).can('retire', fileSubject({ uploadedBy: { id: f.uploadedBy } }))) {
+      throw new ForbiddenError('Only the person who uploaded this file, a group lead or an administrator may retire it.')
+    }
     if (f.retiredAt) throw new BadRequestError('This file is already retired.')
     const now = new Date()
     await tx.update(files).set({ retiredAt: now }).where(eq(files.id, id))

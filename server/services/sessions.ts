@@ -32,12 +32,23 @@ function checkPerformedAt(s: string): Date {
   return d
 }
 
-/** The setup must exist, be in use and hold a valid sign-off on the session date (issue 5, server-enforced). */
-async function checkSetup(tx: DbOrTx, id: number, performedAt: Date): Promise<void> {
+/**
+ * The setup must exist, be in use and hold a valid sign-off on the session date (issue 5,
+ * server-enforced), and the session's pump power must not exceed the setup's registered maximum:
+ * the sign-off covers only what was described.
+ */
+async function checkSetup(tx: DbOrTx, id: number, performedAt: Date, avgPowerMw: number): Promise<void> {
   const [s] = await tx.select().from(laserSetups).where(eq(laserSetups.id, id))
   if (!s) throw fieldError('laserSetupId', 'No such laser setup')
   if (s.retiredAt) throw fieldError('laserSetupId', 'This laser setup is retired')
   await requireValidSignoff(tx, s, performedAt)
+  checkPower(s, avgPowerMw)
+}
+
+function checkPower(s: { code: string; maxAvgPowerMw: number | null }, avgPowerMw: number): void {
+  if (s.maxAvgPowerMw === null || avgPowerMw <= s.maxAvgPowerMw) return
+  throw fieldError('avgPowerMw', `${avgPowerMw} mW is above the maximum average power registered for ${s.code} (${s.maxAvgPowerMw} mW); `
+    + 'its sign-off covers only what was described. Register the higher power on the setup and have it signed off again first.')
 }
 
 /** Every array must exist, be in use and appear once; field errors name the result row. */
@@ -58,7 +69,7 @@ export async function createSession(db: Db, actor: User, input: SessionInput): P
   const performedAt = checkPerformedAt(input.performedAt)
   const { results, safetyNotesRead, ...fields } = input
   const id = await withCodeRetry(() => db.transaction(async (tx) => {
-    await checkSetup(tx, input.laserSetupId, performedAt)
+    await checkSetup(tx, input.laserSetupId, performedAt, input.avgPowerMw)
     await checkArrays(tx, results)
     const code = await nextCode(tx, 'measurement_sessions', 'S', 4)
     const values = { ...fields, code, performedAt, operatorId: actor.id }
@@ -79,8 +90,13 @@ export async function updateSession(db: Db, actor: User, id: number, input: Sess
       throw fieldError('reason', 'This entry is more than 24 h old: say why it is being changed')
     const next: Record<string, unknown> = { ...fields }
     if (performedAt !== undefined) next.performedAt = checkPerformedAt(performedAt)
+    const power = fields.avgPowerMw ?? before.avgPowerMw
     if (fields.laserSetupId !== undefined && fields.laserSetupId !== before.laserSetupId)
-      await checkSetup(tx, fields.laserSetupId, (next.performedAt as Date | undefined) ?? before.performedAt)
+      await checkSetup(tx, fields.laserSetupId, (next.performedAt as Date | undefined) ?? before.performedAt, power)
+    else if (fields.avgPowerMw !== undefined && fields.avgPowerMw !== before.avgPowerMw) {
+      const [s] = await tx.select({ code: laserSetups.code, maxAvgPowerMw: laserSetups.maxAvgPowerMw }).from(laserSetups).where(eq(laserSetups.id, before.laserSetupId))
+      if (s) checkPower(s, power)
+    }
     const changes = diffFields(before as unknown as Record<string, unknown>, next)
     if (results) {
       await checkArrays(tx, results)

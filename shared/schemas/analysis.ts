@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { idValue, safeString } from './common'
 
 /**
  * Request schemas and answer shapes of the analysis routes (issue 6): predicted polar patterns,
@@ -15,7 +16,7 @@ export type PatternQuery = z.infer<typeof patternQuerySchema>
 
 /** `POST /api/analysis/pattern`: a bare crystal. */
 export const barePatternSchema = z.object({
-  pointGroup: z.string().trim().min(1, 'Pick a point group').max(10),
+  pointGroup: safeString().min(1, 'Pick a point group').max(10),
   normal: vec3,
   reference: vec3,
   order,
@@ -25,8 +26,8 @@ export const barePatternSchema = z.object({
 })
 export type BarePatternInput = z.infer<typeof barePatternSchema>
 
-const fileId = z.coerce.number({ error: 'Pick a file of this session' }).int().positive('Pick a file of this session')
-const arrayId = z.coerce.number({ error: 'Pick an array of this session' }).int().positive('Pick an array of this session')
+const fileId = idValue('Pick a file of this session')
+const arrayId = idValue('Pick an array of this session')
 const ANALYSERS = ['parallel', 'perpendicular', 'none'] as const
 
 /** `POST /api/analysis/sessions/:id/fit`. */

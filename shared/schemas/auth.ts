@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { ROLES } from '../roles'
+import { safeString } from './common'
 
 /** Password policy: long enough to resist guessing; no composition rules (common practice, NIST SP 800-63B). */
 export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200, 'Use at most 200 characters')
@@ -26,14 +27,14 @@ export const roleSchema = z.enum(ROLES)
 
 export const inviteSchema = z.object({
   email: z.email('Enter a valid e-mail address').max(190),
-  name: z.string().trim().min(2, 'Enter the full name').max(120),
+  name: safeString().min(2, 'Enter the full name').max(120),
   roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length),
 })
 export type InviteInput = z.infer<typeof inviteSchema>
 
 /** A change of a person; a change of roles or of the active flag needs a reason (kept in the audit trail). */
 export const updateUserSchema = z.object({
-  name: z.string().trim().min(2, 'Enter the full name').max(120).optional(),
+  name: safeString().min(2, 'Enter the full name').max(120).optional(),
   roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length).optional(),
   active: z.boolean().optional(),
   reason: z.string().trim().max(500, 'Use at most 500 characters').optional().transform((v) => v || undefined),
@@ -45,8 +46,8 @@ export const accountActionSchema = z.object({
 })
 export type UpdateUserInput = z.input<typeof updateUserSchema>
 
-export const idParamSchema = z.object({ id: z.coerce.number().int().positive('Must be a positive id') })
+export { idParamSchema } from './common'
 
 export const searchQuerySchema = z.object({
-  q: z.string().trim().min(1, 'Type something to search for').max(100),
+  q: safeString().min(1, 'Type something to search for').max(100),
 })

@@ -1,12 +1,13 @@
 import { z } from 'zod'
 import { listQuerySchema, sessionSchema } from './records'
+import { idValue, safeString } from './common'
 
 /**
  * Request schemas of the measurement side: session edits and lists, session previews, file
  * uploads and retirements. Shapes of sessions and laser setups themselves are in ./records.
  */
 
-const optReason = z.string().trim().max(500, 'Use at most 500 characters').optional().nullable().transform((v) => (v ? v : null))
+const optReason = safeString({ multiline: true }).max(500, 'Use at most 500 characters').optional().nullable().transform((v) => (v ? v : null))
 const codeParam = (re: RegExp, hint: string) => z.string().trim().toUpperCase().regex(re, hint).optional()
 const dateParam = z.string().refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date (YYYY-MM-DD) or date and time').optional()
 
@@ -24,7 +25,7 @@ export type SessionPreviewInput = z.infer<typeof sessionPreviewSchema>
 export const sessionListQuerySchema = listQuerySchema.extend({
   array: codeParam(/^A-[0-9A-Z-]+$/, 'An array code such as A-0001-01-B2'),
   chip: codeParam(/^C-[0-9A-Z-]+$/, 'A chip code such as C-0001-01'),
-  laserSetupId: z.coerce.number().int().positive().optional(),
+  laserSetupId: idValue().optional(),
   from: dateParam,
   to: dateParam,
 })
@@ -35,18 +36,18 @@ export const FILE_KINDS = ['sem', 'spectrum', 'sweep', 'camera', 'other'] as con
 /** The form fields sent with an upload (multipart), besides `file`. */
 export const fileUploadSchema = z.object({
   entity: z.enum(FILE_ENTITIES, { error: 'Attach the file to a wafer, chip, fabrication step, array or session' }),
-  entityId: z.coerce.number({ error: 'Pick the record' }).int().positive('Pick the record'),
+  entityId: idValue('Pick the record'),
   kind: z.enum(FILE_KINDS, { error: 'Pick what the file is: SEM image, spectrum, sweep, camera image or other' }),
 })
 export type FileUploadInput = z.infer<typeof fileUploadSchema>
 
 export const fileListQuerySchema = z.object({
   entity: z.enum(FILE_ENTITIES),
-  entityId: z.coerce.number().int().positive(),
+  entityId: idValue(),
   includeRetired: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
 })
 
 /** Retiring a record or file always needs a reason (kept in the audit log). */
 export const retireSchema = z.object({
-  reason: z.string({ error: 'Say why' }).trim().min(1, 'Say why').max(500, 'Use at most 500 characters'),
+  reason: safeString({ multiline: true, error: 'Say why' }).min(1, 'Say why').max(500, 'Use at most 500 characters'),
 })

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { POINT_GROUP_SYMBOLS } from '../engine'
+import { idValue, safeString } from './common'
 
 /**
  * Request schemas of the sample records (materials → wafers → chips → arrays → sessions, plus
@@ -7,9 +8,13 @@ import { POINT_GROUP_SYMBOLS } from '../engine'
  * Units are in the field names (nm, µm as Um, mm, deg, Hz, mW, fs, s).
  */
 
-const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters`)
-const optText = (max: number) => text(max).optional().nullable().transform((v) => (v ? v : null))
-const id = z.coerce.number().int().positive('Pick one')
+/** One line of text (no tabs, line breaks or control characters; see ./common). */
+const text = (max: number) => safeString().max(max, `Use at most ${max} characters`)
+/** Optional one-line text; empty becomes null. */
+const optLine = (max: number) => text(max).optional().nullable().transform((v) => (v ? v : null))
+/** Optional notes: may hold tabs and line breaks; empty becomes null. */
+const optText = (max: number) => safeString({ multiline: true }).max(max, `Use at most ${max} characters`).optional().nullable().transform((v) => (v ? v : null))
+const id = idValue('Pick one')
 const optId = z.union([id, z.null()]).optional().transform((v) => v ?? null)
 const num = (min: number, max: number, unit: string) =>
   z.coerce.number({ error: `Enter a number in ${unit}` }).min(min, `At least ${min} ${unit}`).max(max, `At most ${max} ${unit}`)
@@ -71,7 +76,7 @@ export const waferSchema = z.object({
   diameterMm: num(2, 450, 'mm'),
   thicknessUm: num(1, 5000, 'µm'),
   lot: text(60).min(1, 'Enter the lot'),
-  supplier: optText(120),
+  supplier: optLine(120),
   receivedOn: dateString.nullable().optional().transform((v) => v ?? null),
   locationId: optId,
   status: z.enum(WAFER_STATUSES).default('in_stock'),
@@ -111,7 +116,7 @@ export const fabStepSchema = z.object({
   chipId: id,
   kind: z.enum(FAB_STEP_KINDS),
   /** Free parameters, e.g. { resist: 'ZEP-like', spinRpm: 4000, doseUcPerCm2: 220 }. */
-  params: z.record(z.string().regex(/^[A-Za-z][\w ]{0,39}$/, 'Parameter names: letters, digits, spaces'), z.union([z.string().max(200), z.number()])).default({}),
+  params: z.record(z.string().regex(/^[A-Za-z][\w ]{0,39}$/, 'Parameter names: letters, digits, spaces'), z.union([text(200), z.number()])).default({}),
   performedAt: dateTimeString,
   notes: optText(2000),
 })
@@ -190,7 +195,7 @@ export const approveSchema = z.object({
   note: optText(2000),
 })
 export const signoffNoteSchema = z.object({
-  note: z.string('Say why').trim().max(2000, 'Use at most 2000 characters').min(1, 'Say why'),
+  note: safeString({ multiline: true, error: 'Say why' }).max(2000, 'Use at most 2000 characters').min(1, 'Say why'),
 })
 
 // ---------- measurement sessions ----------
@@ -226,10 +231,10 @@ export const sessionSchema = z.object({
   harmonicOrder: z.coerce.number().int().min(2, 'Order 2 to 5').max(5, 'Order 2 to 5'),
   geometry: z.enum(['transmission', 'reflection']),
   collection: z.enum(['normal', 'angle_resolved']),
-  analyser: optText(60),
-  detector: optText(120),
+  analyser: optLine(60),
+  detector: optLine(120),
   integrationS: num(0, 1e5, 's').nullable().optional().transform((v) => v ?? null),
-  filters: optText(300),
+  filters: optLine(300),
   notes: optText(4000),
   results: z.array(sessionResultSchema).min(1, 'Pick at least one array').max(200),
   /** The person logging confirms they read the setup's safety notes (issue 5). */
@@ -243,9 +248,9 @@ export const listQuerySchema = z.object({
   pageSize: z.coerce.number().int().min(1).max(200).default(25),
   sort: z.string().regex(/^[a-zA-Z]{1,40}$/).optional(),
   dir: z.enum(['asc', 'desc']).default('asc'),
-  q: z.string().trim().max(100).optional(),
-  status: z.string().max(40).optional(),
-  parentId: z.coerce.number().int().positive().optional(),
+  q: text(100).optional(),
+  status: text(40).optional(),
+  parentId: idValue().optional(),
   includeRetired: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
 })
 export type ListQuery = z.infer<typeof listQuerySchema>

@@ -9,6 +9,7 @@ import { loadEnv } from '../../server/env'
 import type { AppContext } from '../../server/context'
 import { DEMO_PASSWORD } from '../../server/db/seed/people'
 import { migrateAndSeed, startPrivateDb, type PrivateDb } from './private-db'
+import { listRoutes } from '../server/route-list'
 
 /**
  * Bad input, property-based: generated junk params, query strings and JSON bodies (plus malformed
@@ -22,21 +23,6 @@ const RUNS = Number(process.env.JUNK_RUNS ?? 10)
 const SEED = 20240607
 /** Not under /api: the client's history fallback (answers index.html or a text 503), not an API route. */
 const NOT_API = new Set(['GET /{*splat}'])
-
-interface RouteRef { method: string; path: string }
-type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; rawPath?: string }
-
-export function listRoutes(app: Express): RouteRef[] {
-  const out: RouteRef[] = []
-  const walk = (stack: Layer[], prefix: string) => {
-    for (const l of stack) {
-      if (l.route) for (const m of Object.keys(l.route.methods)) out.push({ method: m.toUpperCase(), path: (prefix + l.route.path).replace(/\/\/+/g, '/') })
-      else if (l.handle?.stack) walk(l.handle.stack, prefix + (typeof l.rawPath === 'string' && l.rawPath !== '/' ? l.rawPath : ''))
-    }
-  }
-  walk((app as unknown as { router: { stack: Layer[] } }).router.stack, '')
-  return out
-}
 
 const junkText = fc.oneof(
   fc.string({ maxLength: 40 }), fc.constantFrom('../../etc/passwd', '..%2F..%2F', '0', '-1', '1e309', '99999999999999999999', 'NaN', 'null', '<script>', "' OR 1=1 --", '%00', 'Ａ-０００１', '😀'.repeat(30)),

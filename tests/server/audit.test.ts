@@ -39,7 +39,7 @@ describe('GET /api/audit/records/:entity/:id', () => {
     expect(Date.parse(upd.at)).toBeGreaterThanOrEqual(Date.parse(created.at))
   })
 
-  it('401 anonymous, 400 unknown kind or bad id, 403 when the kind is not readable, [] for no rows', async () => {
+  it('401 anonymous, 400 unknown kind or bad id, 403 when the kind is not readable, 404 for no such record', async () => {
     expect((await request(t.app).get('/api/audit/records/wafer/1')).status).toBe(401)
     const bad = await agents.admin.get('/api/audit/records/spaceship/1')
     expect(bad.status).toBe(400)
@@ -47,7 +47,9 @@ describe('GET /api/audit/records/:entity/:id', () => {
     expect((await agents.admin.get('/api/audit/records/wafer/abc')).status).toBe(400)
     expect((await agents.fab_technician.get('/api/audit/records/user/1')).status).toBe(403)
     expect((await agents.group_lead.get('/api/audit/records/user/1')).status).toBe(200)
-    expect((await agents.fab_technician.get('/api/audit/records/wafer/999999999')).body).toEqual([])
+    const none = await agents.fab_technician.get('/api/audit/records/wafer/999999999')
+    expect(none.status).toBe(404)
+    expect(none.body.message).toBe('No such record')
   })
 
   it('never shows password hashes or invitation tokens, at any depth', async () => {

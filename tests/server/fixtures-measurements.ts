@@ -38,12 +38,13 @@ export async function makeSample(db: Db, opts: { pointGroup?: string; cutNormal?
 /**
  * A laser setup inserted directly; by default signed off by the demo safety officer (sessions need a
  * valid sign-off). `signoff: 'none'` leaves it waiting; `'expired'` gives an approval that expired yesterday.
+ * `extra` sets further columns (e.g. the maximum average power) before the sign-off.
  */
-export async function makeLaserSetup(db: Db, retired = false, signoff: 'approved' | 'none' | 'expired' = 'approved') {
+export async function makeLaserSetup(db: Db, retired = false, signoff: 'approved' | 'none' | 'expired' = 'approved', extra: Partial<typeof laserSetups.$inferInsert> = {}) {
   const t = tag()
   const code = `LS-T${t}`.slice(0, 20)
   const [{ id }] = await db.insert(laserSetups).values({
-    code, name: `Test OPO ${t}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 775], retiredAt: retired ? new Date() : null, submittedAt: new Date(),
+    code, name: `Test OPO ${t}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 775], retiredAt: retired ? new Date() : null, submittedAt: new Date(), ...extra,
   }).$returningId()
   if (signoff !== 'none') {
     const [row] = await db.select().from(laserSetups).where(eq(laserSetups.id, id))

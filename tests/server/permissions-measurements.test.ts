@@ -3,7 +3,8 @@ import { describeRoleMatrix, EVERYONE, type MatrixRoute } from './role-matrix'
 /**
  * The measurement routes and who may use them (shared/abilities.ts: optics staff, group leads and
  * safety officers describe laser setups, only safety officers sign them off (not the administrator
- * role alone), optics staff write sessions, fab technicians and optics staff upload files, admins
+ * role alone), optics staff write sessions, fab technicians and optics staff upload files (and retire their own; group
+ * leads any), admins
  * manage all, everyone signed in reads). Bodies are empty or point at missing ids, so allowed
  * calls answer 200/400/404 and write nothing.
  */
@@ -28,7 +29,7 @@ const MATRIX: MatrixRoute[] = [
   { method: 'get', path: '/api/files/999999999/download', allowed: EVERYONE },
   { method: 'get', path: '/api/files/999999999/preview', allowed: EVERYONE },
   { method: 'post', path: '/api/files', body: {}, allowed: ['admin', 'fab_technician', 'optics_staff'] },
-  { method: 'post', path: '/api/files/999999999/retire', body: {}, allowed: ['admin', 'fab_technician', 'optics_staff'] },
+  { method: 'post', path: '/api/files/999999999/retire', body: {}, allowed: ['admin', 'group_lead', 'fab_technician', 'optics_staff'] },
 ]
 
 describeRoleMatrix('measurement routes × roles', MATRIX, [200, 400, 404])

@@ -7,9 +7,10 @@ import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { createArray, getArray, listArrays, recomputeArrays, retireArray, updateArray } from '../../services/arrays'
 import { getChip } from '../../services/chips'
+import { idValue } from '../../../shared/schemas/common'
 
 const arrayListSchema = listQuerySchema.extend({
-  chipId: z.coerce.number().int().positive().optional(),
+  chipId: idValue().optional(),
   shape: z.enum(SHAPES).optional(),
   lattice: z.enum(LATTICES).optional(),
   stale: z.enum(['true', 'false']).optional().transform((v) => (v === undefined ? undefined : v === 'true')),

@@ -9,7 +9,9 @@ import { BadRequestError, fieldError } from '../../errors'
 import { createFileStorage } from '../../services/storage'
 import { MAX_UPLOAD_BYTES, getFile, listFiles, openFile, previewFile, retireFile, uploadFile } from '../../services/files'
 
-const receive = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, fieldSize: 1024 } }).single('file')
+// defParamCharset: a part's file name without an explicit charset is read as UTF-8 (what browsers
+// send), not busboy's default latin1, which stored `µm_ä` as `Âµm_Ã¤`.
+const receive = multer({ storage: multer.memoryStorage(), defParamCharset: 'utf8', limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, fieldSize: 1024 } }).single('file')
 
 /** Run multer; its limit errors become field-level 400s on `file`. */
 function receiveUpload(req: Request, res: Response): Promise<void> {
@@ -57,8 +59,8 @@ export function fileRoutes(ctx: AppContext): Router {
     lockDown(res)
     res.set({ 'Content-Type': preview.mime, 'Content-Disposition': 'inline' }).send(preview.body)
   })
-  // Retiring is open to the people who may upload (the File subject has no separate retire grant yet).
-  r.post('/files/:id/retire', requireAbility('create', 'File'), async (req, res) => {
+  // Retiring: the file's uploader, a group lead or an administrator (the service checks the file itself).
+  r.post('/files/:id/retire', requireAbility('retire', 'File'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     res.json(await retireFile(ctx.db, currentUser(req), id, parse(retireSchema, req.body ?? {}).reason))
   })

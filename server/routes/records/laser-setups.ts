@@ -13,10 +13,11 @@ import { approvalCheck, approveSetup, historyOut, loadDecisions, rejectSetup, re
 import { figuresFor } from '../../services/setup-hazards'
 import { laserSetups } from '../../db/schema/index'
 import { eq } from 'drizzle-orm'
+import { safeString } from '../../../shared/schemas/common'
 
 /** An edit: any subset of the fields, and a reason (required only when the edit voids a sign-off; empty means none). */
 const updateSchema = laserSetupSchema.partial().extend({
-  reason: z.string().trim().max(500, 'Use at most 500 characters').nullable().optional().transform((v) => v || null),
+  reason: safeString({ multiline: true }).max(500, 'Use at most 500 characters').nullable().optional().transform((v) => v || null),
 })
 const figuresQuery = z.object({
   edition: z.enum(MPE_EDITIONS as [string, ...string[]]).optional(),

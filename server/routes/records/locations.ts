@@ -7,8 +7,9 @@ import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { createLocation, getLocation, listLocations, retireLocation, updateLocation } from '../../services/locations'
 import { listMoves, moveItem } from '../../services/moves'
+import { safeString } from '../../../shared/schemas/common'
 
-const movesQuerySchema = z.object({ itemCode: z.string().trim().min(1, 'Give the item code').max(40) })
+const movesQuerySchema = z.object({ itemCode: safeString().min(1, 'Give the item code').max(40) })
 
 /** /api/locations (storage tree) and /api/moves (move or hand over a wafer, chip or box; history). */
 export function locationRoutes(ctx: AppContext): Router {

@@ -4,8 +4,9 @@ import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { requireUser } from '../../auth/guards'
 import { resolveCode } from '../../services/resolve'
+import { safeString } from '../../../shared/schemas/common'
 
-const codeParamSchema = z.object({ code: z.string().trim().min(1).max(200) })
+const codeParamSchema = z.object({ code: safeString().min(1).max(200) })
 
 /** GET /api/resolve/:code: the record behind a scanned or typed code (any signed-in person). */
 export function resolveRoutes(ctx: AppContext): Router {

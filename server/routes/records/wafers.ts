@@ -7,8 +7,9 @@ import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { createWafer, getWaferDetail, listWafers, retireWafer, updateWafer } from '../../services/wafers'
 import { diceChips, listChipsOfWafer } from '../../services/chips'
+import { idValue } from '../../../shared/schemas/common'
 
-const waferListSchema = listQuerySchema.extend({ materialId: z.coerce.number().int().positive().optional() })
+const waferListSchema = listQuerySchema.extend({ materialId: idValue().optional() })
 
 /** /api/wafers: list, detail (with chips), create, update, retire, and dicing into chips. */
 export function waferRoutes(ctx: AppContext): Router {
