@@ -190,7 +190,9 @@ export function setupFigures(s: HazardInput, opts: FigureOptions = {}): SetupFig
       ? { ...headline, formula: `limiting rule: ${RULE_NAME[limitingRule]} (largest exposure/limit ratio of ${mpeRules.length} rules); ${headline.formula}` }
       : headline
     const en = hasDose ? attempt(p, () => en207ScaleNumbers({ wavelengthNm: nm, averagePowerW: powerW ?? undefined, beamDiameterMm: beamMm, pulse })) : null
-    const rb = hasDose && isAversionBand(nm) ? attempt(p, () => en208ScaleNumber({ wavelengthNm: nm, averagePowerW: powerW ?? undefined, beamDiameterMm: beamMm, pulse })) : null
+    const isSubNs = !!pulse && pulse.durationS < 1e-9
+    if (hasDose && isAversionBand(nm) && isSubNs) p.push('EN 208 alignment eyewear: no scale number for pulses shorter than 1 ns (EN 208:2009 Annex B covers CW and 1 ns–0.2 ms pulses); use EN 207 eyewear for alignment')
+    const rb = hasDose && isAversionBand(nm) && !isSubNs ? attempt(p, () => en208ScaleNumber({ wavelengthNm: nm, averagePowerW: powerW ?? undefined, beamDiameterMm: beamMm, pulse })) : null
     const hint = hasDose ? attempt(p, () => classHint({ wavelengthNm: nm, averagePowerW: powerW ?? undefined, beamDiameterMm: beamMm, pulse }).hint) : null
     return {
       order: l.order, wavelengthNm: nm, fundamentalNm: l.fundamentalNm, isListed: l.isListed, isWorstCase: l.order > 1,
