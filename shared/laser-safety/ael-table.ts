@@ -58,7 +58,7 @@ export function aelPulse(cls: AelClass, nm: number, durationS: number): Ael {
   const one = mpe.value * circleAreaM2(d)
   const base = `MPE × A(${d} mm), ${mpe.formula}`
   if (cls === '3R') return { value: 5 * one, formula: `AEL(3R) = 5 × AEL(1) = 5 × ${base}` }
-  return { value: one, formula: `AEL(${cls}) = AEL(1) = ${base}` }
+  return { value: one, formula: cls === '1' ? `AEL(1) = ${base}` : `AEL(${cls}) = AEL(1) = ${base}` }
 }
 
 function class3BPulse(nm: number, durationS: number): Ael {
