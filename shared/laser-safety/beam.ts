@@ -3,7 +3,7 @@
  * focus, and the nominal ocular hazard distance (NOHD). Plain physics; sources FACTS.md §4.2
  * [M] H (from memory) and §1.5 (NOHD [M] H). SI results; use `perM2ToPerCm2` for lab units.
  */
-import { computed, fmt, type Computed } from './computed'
+import { computed, fmt, si, type Computed } from './computed'
 import { requireNonNegative, requirePositive, SafetyInputError } from './errors'
 import { mmToM, mradToRad, umToM } from './units'
 
@@ -13,14 +13,14 @@ export type PulseShape = 'gaussian' | 'sech2'
 /** k = 0.94 for a Gaussian and 0.88 for a sech² pulse (FACTS.md §4.2 [M] H). */
 export const PEAK_POWER_FACTOR: Readonly<Record<PulseShape, number>> = { gaussian: 0.94, sech2: 0.88 }
 
-const SRC_DERIVED = 'FACTS.md §4.2 (derived quantities [M] H)'
+const SRC_DERIVED = 'Gaussian beam and pulse relations (Siegman, Lasers, 1986)'
 
 /** Pulse energy E_p = P_avg / f_rep (J). */
 export function pulseEnergy(averagePowerW: number, repetitionRateHz: number): Computed {
   requirePositive('averagePowerW', averagePowerW)
   requirePositive('repetitionRateHz', repetitionRateHz)
   const value = averagePowerW / repetitionRateHz
-  return computed(value, 'J', `E_p = P/f = ${fmt(averagePowerW)} W / ${fmt(repetitionRateHz)} Hz`, SRC_DERIVED)
+  return computed(value, 'J', `E_p = P/f = ${si(averagePowerW, 'W')} / ${si(repetitionRateHz, 'Hz')}`, SRC_DERIVED)
 }
 
 /** Peak power P_pk = k·E_p/τ (W), τ the FWHM pulse duration. */
@@ -31,7 +31,7 @@ export function peakPower(pulseEnergyJ: number, pulseDurationS: number, shape: P
   if (k === undefined)
     throw new SafetyInputError({ code: 'OUT_OF_RANGE', field: 'shape', value: shape, message: "must be 'gaussian' or 'sech2'" })
   const value = (k * pulseEnergyJ) / pulseDurationS
-  return computed(value, 'W', `P_pk = k·E/τ = ${k} × ${fmt(pulseEnergyJ)} J / ${fmt(pulseDurationS)} s (${shape})`, SRC_DERIVED)
+  return computed(value, 'W', `P_pk = k·E/τ = ${k} × ${si(pulseEnergyJ, 'J')} / ${si(pulseDurationS, 's')} (${shape})`, SRC_DERIVED)
 }
 
 /** Peak (on-axis) intensity of a Gaussian focus I₀ = 2P_pk/(π w₀²) (W/m²), w₀ the 1/e² radius. */
@@ -40,7 +40,7 @@ export function peakIntensity(peakPowerW: number, waistRadiusUm: number): Comput
   requirePositive('waistRadiusUm', waistRadiusUm)
   const w0 = umToM(waistRadiusUm)
   const value = (2 * peakPowerW) / (Math.PI * w0 * w0)
-  return computed(value, 'W/m²', `I₀ = 2P_pk/(π w₀²) = 2 × ${fmt(peakPowerW)} W / (π × (${fmt(waistRadiusUm)} µm)²)`, SRC_DERIVED)
+  return computed(value, 'W/m²', `I₀ = 2P_pk/(π w₀²) = 2 × ${si(peakPowerW, 'W')} / (π × (${fmt(waistRadiusUm)} µm)²)`, SRC_DERIVED)
 }
 
 /** Peak (on-axis) fluence of a Gaussian focus F₀ = 2E_p/(π w₀²) (J/m²), w₀ the 1/e² radius. */
@@ -49,7 +49,7 @@ export function peakFluence(pulseEnergyJ: number, waistRadiusUm: number): Comput
   requirePositive('waistRadiusUm', waistRadiusUm)
   const w0 = umToM(waistRadiusUm)
   const value = (2 * pulseEnergyJ) / (Math.PI * w0 * w0)
-  return computed(value, 'J/m²', `F₀ = 2E_p/(π w₀²) = 2 × ${fmt(pulseEnergyJ)} J / (π × (${fmt(waistRadiusUm)} µm)²)`, SRC_DERIVED,
+  return computed(value, 'J/m²', `F₀ = 2E_p/(π w₀²) = 2 × ${si(pulseEnergyJ, 'J')} / (π × (${fmt(waistRadiusUm)} µm)²)`, SRC_DERIVED,
     { notes: ['on-axis value; the mean over πw₀² is half of it'] })
 }
 
@@ -78,6 +78,6 @@ export function nohd(input: NohdInput): Computed {
   const hazardDiameter = Math.sqrt((4 * input.averagePowerW) / (Math.PI * input.mpeWm2))
   const value = Math.max(0, (hazardDiameter - a) / phi)
   return computed(value, 'm',
-    `NOHD = (√(4P/(π·MPE)) − a)/φ = (${fmt(hazardDiameter)} m − ${fmt(a)} m) / ${fmt(phi)} rad`,
-    'FACTS.md §1.5 (NOHD [M] H, from memory)')
+    `NOHD = (√(4P/(π·MPE)) − a)/φ = (${si(hazardDiameter, 'm')} − ${si(a, 'm')}) / ${fmt(phi)} rad`,
+    'ANSI Z136.1-2014 Appendix B (NOHD)')
 }

@@ -1,3 +1,5 @@
+import { formatNumber, formatSi } from '../format'
+
 /**
  * The one result shape of the library: a value with its unit, the formula that produced it and
  * where that formula comes from, so screens can show the working (issue 5).
@@ -39,9 +41,10 @@ export function computed<V>(
   return result
 }
 
-/** Short number format for formula text (4 significant digits). */
+/** Short number format for formula text (4 significant digits), the app's one formatter. */
 export function fmt(x: number): string {
-  if (x === 0) return '0'
-  const abs = Math.abs(x)
-  return abs >= 1e-3 && abs < 1e5 ? String(Number(x.toPrecision(4))) : x.toExponential(3)
+  return formatNumber(x, 4)
 }
+
+/** A quantity with an SI prefix (12.5 nJ, 25.98 kW/m²), the app's one formatter. */
+export const si = formatSi

@@ -3,10 +3,10 @@
  * near-IR bands covered by the MPE table. Names follow IEC 60825-1:2014 (C4, C7, T_i); the
  * Directive/ICNIRP names (C_A, C_C, T_min) are given beside them. Source: FACTS.md §1.2.
  */
-import { computed, fmt, type Computed, type MpeEdition } from './computed'
+import { computed, fmt, si, type Computed, type MpeEdition } from './computed'
 import { outsideTable, requirePositive } from './errors'
 
-const SOURCE_C4 = 'FACTS.md §1.2 (Directive 2006/25/EC Annex II Table 2.5 [V] H)'
+const SOURCE_C4 = 'IEC 60825-1:2014 Table A.1 (C4); Directive 2006/25/EC Annex II Table 2.5 (C_A)'
 
 /**
  * C4 (= C_A), dimensionless, same in both editions: 1 below 700 nm, 10^(0.002(λ−700)) for
@@ -32,7 +32,7 @@ export function correctionC7(wavelengthNm: number, edition: MpeEdition): Compute
   requirePositive('wavelengthNm', wavelengthNm)
   if (wavelengthNm < 400 || wavelengthNm > 1400) outsideTable('wavelengthNm', wavelengthNm, 'C7 is defined for 400–1400 nm')
   const opts = { edition }
-  const src = edition === 'EU-2006/25/EC' ? 'FACTS.md §1.2 (Directive Table 2.5 [V] H)' : 'FACTS.md §1.2 (IEC 2014 form [S] M)'
+  const src = edition === 'EU-2006/25/EC' ? 'Directive 2006/25/EC Annex II Table 2.5 (C_C)' : 'IEC 60825-1:2014 Table A.1 (C7)'
   if (wavelengthNm < 1150) return computed(1, '1', 'C7 = 1 (λ < 1150 nm)', src, opts)
   if (wavelengthNm < 1200) {
     const value = 10 ** (0.018 * (wavelengthNm - 1150))
@@ -67,6 +67,6 @@ export function groupingWindow(wavelengthNm: number, edition: MpeEdition): Compu
   if (!row) return outsideTable('wavelengthNm', wavelengthNm, 'grouping window tabulated for 400–2600 nm only')
   const [lo, hi, ti, tmin] = row
   const name = iec ? 'T_i' : 'T_min'
-  return computed(iec ? ti : tmin, 's', `${name} = ${fmt(iec ? ti : tmin)} s (${lo}–${hi} nm)`,
-    iec ? 'FACTS.md §1.2 (IEC 2014 T_i [S] M)' : 'FACTS.md §1.2 (Directive Table 2.6 T_min [V] H)', { edition })
+  return computed(iec ? ti : tmin, 's', `${name} = ${si(iec ? ti : tmin, 's')} (${lo}–${hi} nm)`,
+    iec ? 'IEC 60825-1:2014 Table 2 (T_i)' : 'Directive 2006/25/EC Annex II Table 2.6 (T_min)', { edition })
 }

@@ -5,7 +5,7 @@
  */
 export { LASER_CAUTION as LASER_SAFETY_CAUTION } from '../safety'
 
-export { computed, fmt, MPE_EDITIONS, type Computed, type MpeEdition } from './computed'
+export { computed, fmt, si, MPE_EDITIONS, type Computed, type MpeEdition } from './computed'
 export { ASK_THE_LSO, SafetyInputError, type SafetyErrorCode, type SafetyInputErrorInit } from './errors'
 export { circleAreaM2, mmToM, mradToRad, perCm2ToPerM2, perM2ToPerCm2, umToM } from './units'
 export { correctionC4, correctionC7, groupingWindow } from './correction-factors'
@@ -16,12 +16,12 @@ export {
   type PulseGrouping, type PulseTrainInput, type PulseTrainLimits,
 } from './repetitive-pulses'
 export {
-  apertureFraction, checkExposure, DEFAULT_EXPOSURE_DURATION_S,
+  apertureFraction, checkExposure, DEFAULT_EXPOSURE_DURATION_S, EXPOSURE_DURATION_CHOICES_S, exposureDurationFor, isAversionBand,
   type BeamExposureInput, type ExposureCheck, type RuleCheck,
 } from './exposure'
 export { aelCw, aelPulse, type Ael, type AelClass } from './ael-table'
 export { classHint, type ClassCheck, type ClassHint, type ClassHintInput, type ClassHintResult } from './ael-class-hint'
-export { requiredOpticalDensity, type RequiredOd } from './eyewear'
+export { requiredOpticalDensity, RULE_NAME, type RequiredOd } from './eyewear'
 export {
   EN207_DEFAULT_COUNTING_INTERVAL_S, en207Labels, en207ModeFor, en207ScaleNumbers, roundUpScale,
   type En207Input, type En207Mode, type En207Requirement,
@@ -31,4 +31,4 @@ export {
   nohd, peakFluence, peakIntensity, peakPower, pulseEnergy, PEAK_POWER_FACTOR,
   type NohdInput, type PulseShape,
 } from './beam'
-export { MAX_HARMONIC_ORDER, setupWavelengths, type SetupWavelength } from './harmonics'
+export { MAX_HARMONIC_ORDER, setupLines, setupWavelengths, type SetupLine, type SetupWavelength } from './harmonics'

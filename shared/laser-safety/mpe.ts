@@ -2,7 +2,7 @@
  * Ocular maximum permissible exposure (MPE) for a point source, 400–1800 nm, in either edition.
  * Source: FACTS.md §1.3 (table in `mpe-table.ts`). Every result records the edition.
  */
-import { computed, fmt, type Computed, type MpeEdition } from './computed'
+import { computed, fmt, si, type Computed, type MpeEdition } from './computed'
 import { correctionC4, correctionC7 } from './correction-factors'
 import { outsideTable, requirePositive, SafetyInputError } from './errors'
 import { MPE_BANDS, MPE_MAX_DURATION_S, MPE_MIN_DURATION_S, type MpeBand, type MpeRow } from './mpe-table'
@@ -16,8 +16,8 @@ export interface MpeInput {
 }
 
 const SOURCE = {
-  'EU-2006/25/EC': 'FACTS.md §1.3 (Directive 2006/25/EC Table 2.2 [V] H)',
-  'IEC-60825-1:2014': 'FACTS.md §1.3 (IEC 60825-1:2014 Table A.1 [S] M–H)',
+  'EU-2006/25/EC': 'Directive 2006/25/EC Annex II Table 2.2',
+  'IEC-60825-1:2014': 'IEC 60825-1:2014 Table A.1',
 } as const
 
 /** Throws unless `edition` is one of the two supported editions. */
@@ -40,11 +40,11 @@ function evaluateRow(row: MpeRow, input: MpeInput): { value: number, formula: st
   const factors = row.factor === '1' ? '' : ` with C4 = ${fmt(c4)}, C7 = ${fmt(c7)}`
   if (row.quantity === 'E') {
     const irradiance = row.k * c4 * c7
-    return { value: irradiance * t, formula: `H = E·t, E = ${fmt(row.k)}${factorText} W/m² = ${fmt(irradiance)} W/m²${factors}` }
+    return { value: irradiance * t, formula: `H = E·t, E = ${fmt(row.k)}${factorText} W/m² = ${si(irradiance, 'W/m²')}${factors}` }
   }
   const value = row.k * c4 * c7 * t ** row.exponent
   const tText = row.exponent === 0 ? '' : `·t^${row.exponent}`
-  return { value, formula: `H = ${fmt(row.k)}${factorText}${tText} J/m²${factors}, t = ${fmt(t)} s` }
+  return { value, formula: `H = ${fmt(row.k)}${factorText}${tText} J/m²${factors}, t = ${si(t, 's')}` }
 }
 
 /**
@@ -67,7 +67,7 @@ export function ocularMpe(input: MpeInput): Computed {
   const best = rows.map(r => evaluateRow(r, input)).reduce((a, b) => (b.value < a.value ? b : a))
   return computed(best.value, 'J/m²', best.formula, SOURCE[edition], {
     edition,
-    notes: ['point source (C6 = 1), limiting aperture per limitingApertureMm'],
+    notes: ['point source (C6 = 1); exposure averaged over the limiting aperture (IEC 60825-1:2014 Annex A)'],
   })
 }
 
@@ -84,10 +84,10 @@ export function ocularMpeIrradiance(input: MpeInput): Computed {
 export function limitingApertureMm(wavelengthNm: number, durationS: number): Computed {
   requirePositive('wavelengthNm', wavelengthNm)
   requirePositive('durationS', durationS)
-  const src = 'FACTS.md §1.3 (limiting apertures [V] H)'
+  const src = 'IEC 60825-1:2014 Annex A (limiting apertures); ANSI Z136.1-2014 Table 8'
   if (wavelengthNm < 400) outsideTable('wavelengthNm', wavelengthNm, 'apertures tabulated from 400 nm')
   if (wavelengthNm <= 1400) return computed(7, 'mm', 'D = 7 mm (400–1400 nm)', src)
   if (durationS <= 0.3) return computed(1, 'mm', 'D = 1 mm (λ > 1400 nm, t ≤ 0.3 s)', src)
-  if (durationS < 10) return computed(1.5 * durationS ** 0.375, 'mm', `D = 1.5·t^0.375 mm, t = ${fmt(durationS)} s`, src)
+  if (durationS < 10) return computed(1.5 * durationS ** 0.375, 'mm', `D = 1.5·t^0.375 mm, t = ${si(durationS, 's')}`, src)
   return computed(3.5, 'mm', 'D = 3.5 mm (λ > 1400 nm, t ≥ 10 s)', src)
 }

@@ -7,7 +7,7 @@
  *    grouping window (T_i for IEC 2014, T_min for the Directive) are merged into one pulse of
  *    duration equal to the window. The factor is C5 (IEC 2014) or C_P = N^−0.25 (Directive).
  */
-import { computed, fmt, type Computed, type MpeEdition } from './computed'
+import { computed, fmt, si, type Computed, type MpeEdition } from './computed'
 import { groupingWindow } from './correction-factors'
 import { requirePositive } from './errors'
 import { ocularMpe, ocularMpeIrradiance, requireEdition } from './mpe'
@@ -64,7 +64,7 @@ export function groupPulses(input: PulseTrainInput): PulseGrouping {
  * Longer pulses: 1 (a point source has α ≤ 5 mrad).
  */
 export function correctionC5(grouping: PulseGrouping, exposureDurationS: number): Computed {
-  const src = 'FACTS.md §1.4 (IEC 2014 C5 [S] M)'
+  const src = 'IEC 60825-1:2014 Annex A (C5, repetitive pulses)'
   const n = grouping.effectivePulseCount
   const edition: MpeEdition = 'IEC-60825-1:2014'
   if (grouping.effectiveDurationS > grouping.window.value)
@@ -78,7 +78,7 @@ export function correctionC5(grouping: PulseGrouping, exposureDurationS: number)
 /** C_P = N^−0.25 of the Directive (Table 2.6, FACTS.md §1.4 [V] H); thermal limits only. */
 export function correctionCP(grouping: PulseGrouping): Computed {
   const n = grouping.effectivePulseCount
-  return computed(n ** -0.25, '1', `C_P = N^−0.25 = ${fmt(n)}^−0.25`, 'FACTS.md §1.4 (Directive Table 2.6 [V] H)',
+  return computed(n ** -0.25, '1', `C_P = N^−0.25 = ${fmt(n)}^−0.25`, 'Directive 2006/25/EC Annex II Table 2.6',
     { edition: 'EU-2006/25/EC', notes: ['applies to thermal limits only'] })
 }
 
@@ -97,7 +97,7 @@ export function pulseTrainLimits(input: PulseTrainInput): PulseTrainLimits {
   const groupMpe = ocularMpe({ ...base, durationS: grouping.effectiveDurationS })
   const name = edition === 'IEC-60825-1:2014' ? 'C5' : 'C_P'
   const pulseTrain = computed(trainFactor.value * groupMpe.value, 'J/m²',
-    `H_train = ${name}·MPE(t_eff) = ${fmt(trainFactor.value)} × ${fmt(groupMpe.value)} J/m², t_eff = ${fmt(grouping.effectiveDurationS)} s`,
-    'FACTS.md §1.4', { edition })
+    `H_train = ${name}·MPE(t_eff) = ${fmt(trainFactor.value)} × ${si(groupMpe.value, 'J/m²')}, t_eff = ${si(grouping.effectiveDurationS, 's')}`,
+    edition === 'IEC-60825-1:2014' ? 'IEC 60825-1:2014 Annex A (repetitive pulses, rule 3)' : 'Directive 2006/25/EC Annex II Table 2.6 (rule 3)', { edition })
   return { edition, singlePulse, average, grouping, trainFactor, pulseTrain }
 }

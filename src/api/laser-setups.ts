@@ -19,7 +19,7 @@ export type LaserSetupDetail = WithCaution<Omit<LaserSetup, 'signoff'> & {
 /** The safety officers' queue; each setup says whether the reader may approve (renew) it and why not. */
 export type QueuedSetup = LaserSetup & { approval: ApprovalCheck }
 export interface SignoffQueue { waiting: QueuedSetup[]; expiring: QueuedSetup[]; expired: QueuedSetup[]; caution: string }
-export interface FiguresParams { edition?: MpeEdition; spotUm?: number }
+export interface FiguresParams { edition?: MpeEdition; spotUm?: number; exposureS?: number }
 
 export interface LaserSetupListParams { page: number; pageSize: number; sort?: string; dir?: 'asc' | 'desc'; q?: string; includeRetired?: boolean }
 

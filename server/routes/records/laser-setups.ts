@@ -19,9 +19,15 @@ import { safeString } from '../../../shared/schemas/common'
 const updateSchema = laserSetupSchema.partial().extend({
   reason: safeString({ multiline: true }).max(500, 'Use at most 500 characters').nullable().optional().transform((v) => v || null),
 })
+/**
+ * Figures query: MPE edition, focal spot, and the evaluation (exposure) time in seconds: 0.25 (aversion
+ * response, visible lines only), 10 (default), 100, 30000 or any typed value up to 30 000 s.
+ */
 const figuresQuery = z.object({
   edition: z.enum(MPE_EDITIONS as [string, ...string[]]).optional(),
   spotUm: z.coerce.number().positive('Spot diameter in µm, above 0').max(1e5).optional(),
+  exposureS: z.coerce.number({ message: 'Exposure duration in seconds' })
+    .min(1e-3, 'Exposure duration from 0.001 s').max(30000, 'Exposure duration up to 30 000 s (the longest the MPE table covers)').optional(),
 })
 
 /**
@@ -37,7 +43,7 @@ export function laserSetupRoutes(ctx: AppContext): Router {
     const [row] = await ctx.db.select().from(laserSetups).where(eq(laserSetups.id, id))
     const history = historyOut((await loadDecisions(ctx.db, [id])).get(id)!)
     const approval = await approvalCheck(ctx.db, currentUser(req), row, setup.signoff.state)
-    const computed = figuresFor(row, { edition: q.edition as never, spotDiameterUm: q.spotUm })
+    const computed = figuresFor(row, { edition: q.edition as never, spotDiameterUm: q.spotUm, exposureDurationS: q.exposureS })
     return { ...setup, signoff: { ...setup.signoff, history }, approval, missingForSubmit: missingForSubmit(row), computed, caution: LASER_CAUTION }
   }
   r.get('/laser-setups', requireAbility('read', 'LaserSetup'), async (req, res) => {

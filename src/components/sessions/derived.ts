@@ -1,3 +1,4 @@
+import { formatSi } from '../../../shared/format'
 /**
  * Derived figures of a session (indicative; the laser safety officer's assessment governs).
  * Pulse energy E = P_avg / f_rep. Peak power of a Gaussian pulse of FWHM τ: P_peak = 0.94 · E / τ
@@ -22,14 +23,9 @@ export function efficiency(harmonicPowerW: number | null, avgPowerMw: number | n
   return { efficiency: harmonicPowerW / pumpW, normalisedW: order === 2 ? harmonicPowerW / (pumpW * pumpW) : null }
 }
 
-const PREFIXES = [[1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''], [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'], [1e-18, 'a']] as const
-
-/** 1.23e-9, 'J' → "1.23 nJ". */
+/** 1.23e-9, 'J' → "1.23 nJ": the app's one SI formatter (shared/format.ts), 3 significant digits here. */
 export function formatSI(value: number | null, unit: string): string {
-  if (value === null || !Number.isFinite(value)) return '—'
-  if (value === 0) return `0 ${unit}`
-  const [scale, prefix] = PREFIXES.find(([s]) => Math.abs(value) >= s) ?? PREFIXES[PREFIXES.length - 1]
-  return `${(value / scale).toPrecision(3)} ${prefix}${unit}`
+  return formatSi(value, unit, 3)
 }
 
 /** Plain scientific notation for dimensionless or odd units: 1.2 × 10⁻⁹. */

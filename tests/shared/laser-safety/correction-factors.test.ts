@@ -9,7 +9,7 @@ describe('C4 (C_A)', () => {
   it('shows its formula and source', () => {
     const c = correctionC4(800)
     expect(c.formula).toContain('10^(0.002·(λ − 700))')
-    expect(c.source).toContain('FACTS.md §1.2')
+    expect(c.source).toContain('Directive 2006/25/EC Annex II Table 2.5')
     expect(c.indicative).toBe(true)
   })
 })

@@ -23,14 +23,15 @@ describe('invariants (fast-check, seeded)', () => {
       }), opts)
   })
 
-  it('EN 207 LB numbers are integers ≥ 1 and non-decreasing in power', () => {
+  it('EN 207 LB numbers are integers ≥ 0 (0 only when the scale value is ≤ 0: none needed) and non-decreasing in power', () => {
     fc.assert(fc.property(fc.double({ min: 315.1, max: 1800, noNaN: true }), power, fc.double({ min: 1, max: 1000, noNaN: true }), pulse,
       (wavelengthNm, p, k, pl) => {
         const a = en207ScaleNumbers({ wavelengthNm, averagePowerW: p, beamDiameterMm: 2, pulse: pl })
         const b = en207ScaleNumbers({ wavelengthNm, averagePowerW: p * k, beamDiameterMm: 2, pulse: pl })
         a.forEach((r, i) => {
           expect(Number.isInteger(r.lb.value)).toBe(true)
-          expect(r.lb.value).toBeGreaterThanOrEqual(1)
+          expect(r.lb.value).toBeGreaterThanOrEqual(r.rawScale > 1e-9 ? 1 : 0)
+          expect(r.isNeeded).toBe(r.lb.value > 0)
           expect(r.lb.value).toBeGreaterThanOrEqual(Math.ceil(r.rawScale - 1e-9))
           expect(b[i]!.lb.value).toBeGreaterThanOrEqual(r.lb.value)
         })
