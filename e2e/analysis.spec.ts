@@ -22,12 +22,13 @@ async function makeSession(stamp: string) {
   const wafer = await post<{ id: number }>(fab, '/api/wafers', { materialId: material.id, cutNormal: [0, 0, 1], flatDirection: [0, 1, 0], diameterMm: 50.8, thicknessUm: 350, lot: `E2E-${stamp}` })
   const { chips } = await post<{ chips: { id: number; code: string }[] }>(fab, `/api/wafers/${wafer.id}/dice`, { count: 1, widthMm: 5, heightMm: 5 })
   const array = await post<{ id: number; code: string }>(fab, `/api/chips/${chips[0].id}/arrays`, { position: 'B1', shape: 'disk', dimensionsNm: { diameterNm: 450 }, lattice: 'square', periodXNm: 900, periodYNm: 900, count: 400 })
-  const admin = await apiAs('admin')
-  const setup = await post<{ id: number }>(admin, '/api/laser-setups', { name: `E2E OPO ${stamp}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 800] })
+  // Described and submitted by the optics person, signed off by the safety officer (the describer never approves).
+  const optics = await apiAs('optics')
+  const setup = await post<{ id: number }>(optics, '/api/laser-setups', { name: `E2E OPO ${stamp}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 800], pulseDurationFs: 150, repRateHz: 80e6, maxAvgPowerMw: 500, beamDiameterMm: 2, eyewear: [{ description: 'E2E goggle', bandsNm: '750–1600', od: 6 }], interlocks: 'Door interlock' })
+  await post(optics, `/api/laser-setups/${setup.id}/submit`, {}, 200)
   const safety = await apiAs('safety')
   const expiresOn = new Date(Date.now() + 90 * 86400_000).toISOString().slice(0, 10)
   await post(safety, `/api/laser-setups/${setup.id}/approve`, { expiresOn, note: 'E2E sign-off' }, 200)
-  const optics = await apiAs('optics')
   const session = await post<{ id: number; code: string }>(optics, '/api/sessions', {
     laserSetupId: setup.id, performedAt: new Date(Date.now() - 3600_000).toISOString(), wavelengthNm: 1550, pulseDurationFs: 150, repRateHz: 80e6,
     avgPowerMw: 10, spotDiameterUm: 2.5, objectiveNa: 0.7, pump: { type: 'linear', angle: 0 }, harmonicOrder: 2, geometry: 'reflection', collection: 'normal',
@@ -39,7 +40,7 @@ async function makeSession(stamp: string) {
   for (let a = 0; a < 360; a += 3) lines.push(`${a},${(900 * Math.cos(3 * rad(a - 17.3)) ** 2 + 50 + 20 * Math.sin(a * 7.1)).toFixed(2)},${(900 * Math.sin(3 * rad(a - 17.3)) ** 2 + 50 + 20 * Math.cos(a * 5.3)).toFixed(2)}`)
   const up = await optics.post('/api/files', { multipart: { entity: 'session', entityId: String(session.id), kind: 'sweep', file: { name: `sweep-${stamp}.csv`, mimeType: 'text/csv', buffer: Buffer.from(lines.join('\n')) } } })
   expect(up.status(), await up.text()).toBe(201)
-  for (const api of [fab, admin, safety, optics]) await api.dispose()
+  for (const api of [fab, safety, optics]) await api.dispose()
   return { array, session, chip: chips[0] }
 }
 

@@ -28,17 +28,18 @@ async function makeSample(stamp: string) {
   const array = await post<{ id: number; code: string }>(fab, `/api/chips/${chips[0].id}/arrays`, {
     position: 'B1', shape: 'disk', dimensionsNm: { diameterNm: 450 }, lattice: 'single', count: 400,
   })
-  // Registered by the admin, signed off by the safety officer (sessions need a signed-off setup; performer ≠ checker).
-  const admin = await apiAs('admin')
-  const setup = await post<{ id: number; code: string; name: string }>(admin, '/api/laser-setups', {
-    name: `E2E OPO ${stamp}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 800],
+  // Described and submitted by the optics person, signed off by the safety officer (sessions need a signed-off setup; describer ≠ checker).
+  const describer = await apiAs('optics')
+  const setup = await post<{ id: number; code: string; name: string }>(describer, '/api/laser-setups', {
+    name: `E2E OPO ${stamp}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 800], pulseDurationFs: 150, repRateHz: 80e6, maxAvgPowerMw: 500, beamDiameterMm: 2, eyewear: [{ description: 'E2E goggle', bandsNm: '750–1600', od: 6 }], interlocks: 'Door interlock',
   })
+  expect((await describer.post(`/api/laser-setups/${setup.id}/submit`, { data: {} })).status()).toBe(200)
+  await describer.dispose()
   const safety = await apiAs('safety')
   const expiresOn = new Date(Date.now() + 90 * 86400_000).toISOString().slice(0, 10)
   const approved = await safety.post(`/api/laser-setups/${setup.id}/approve`, { data: { expiresOn, note: 'E2E sign-off' } })
   expect(approved.status(), await approved.text()).toBe(200)
   await fab.dispose()
-  await admin.dispose()
   await safety.dispose()
   return { array, setup, chipCode: chips[0].code }
 }

@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import { POINT_GROUP_SYMBOLS } from '../engine'
+import { arraySenseIssues } from '../array-sense'
 import { idValue, safeString } from './common'
 
 /**
@@ -144,6 +145,9 @@ export const arraySchema = z.object({
   customRotationOrder: z.coerce.number().int().min(0).max(360).nullable().optional().transform((v) => v ?? null),
   customMirrors: z.array(z.number().min(0).max(360)).max(24).nullable().optional().transform((v) => v ?? null),
   notes: optText(2000),
+}).superRefine((a, ctx) => {
+  // What cannot be fabricated (a ring whose inner diameter exceeds its outer one, a meta-atom larger than its cell …).
+  for (const issue of arraySenseIssues(a)) ctx.addIssue({ code: 'custom', path: issue.path.split('.'), message: issue.message })
 })
 export type ArrayInput = z.infer<typeof arraySchema>
 

@@ -3,6 +3,8 @@ import type TestAgent from 'supertest/lib/agent'
 import { startTestApp, signedInAs } from './helpers'
 import { disk, makeChip } from './inventory-helpers'
 import { ENGINE_VERSION } from '../../shared/engine'
+import { eq } from 'drizzle-orm'
+import { arrays } from '../../server/db/schema/index'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 let fab: TestAgent
@@ -72,7 +74,7 @@ describe('arrays', () => {
   it('update derives again; position is fixed; retire needs a reason', async () => {
     const { chip } = await makeChip(fab)
     const a = (await fab.post('/api/arrays').send(disk(chip.id))).body
-    const up = await fab.patch(`/api/arrays/${a.id}`).send({ ...disk(chip.id), shape: 'gammadion', dimensionsNm: { armLengthNm: 500 } })
+    const up = await fab.patch(`/api/arrays/${a.id}`).send({ ...disk(chip.id), shape: 'gammadion', dimensionsNm: { armLengthNm: 500, armWidthNm: 120 } })
     expect(up.body.symmetry.name).toBe('C4')
     expect((await fab.patch(`/api/arrays/${a.id}`).send(disk(chip.id, 'B1'))).body.fields).toHaveProperty('position')
     expect((await fab.post(`/api/arrays/${a.id}/retire`).send({})).body.fields).toHaveProperty('reason')
@@ -101,5 +103,23 @@ describe('arrays', () => {
     expect(await setOf(b.id)).not.toBe(await setOf(a.id))
     expect(turned.channels).toHaveLength(8)
     expect((await fab.get(`/api/arrays/${a.id}`)).body.channels).toEqual(a.channels)
+  })
+})
+
+describe('arrays that cannot exist', () => {
+  it('are refused with a message on the field to fix, and nothing is stored', async () => {
+    const t2 = await startTestApp()
+    try {
+      const agent = await signedInAs(t2.app, 'fab_technician')
+      const { chip } = await makeChip(agent)
+      const ring = await agent.post('/api/arrays').send({ chipId: chip.id, position: 'Z9', shape: 'ring', dimensionsNm: { innerDiameterNm: 450, outerDiameterNm: 300 }, lattice: 'square', periodXNm: 600 })
+      expect(ring.status).toBe(400)
+      expect(ring.body.fields['dimensionsNm.innerDiameterNm'][0]).toMatch(/smaller than the outer one/)
+      const crowded = await agent.post('/api/arrays').send({ chipId: chip.id, position: 'Z9', shape: 'disk', dimensionsNm: { diameterNm: 500 }, lattice: 'hexagonal', periodXNm: 450 })
+      expect(crowded.body.fields.periodXNm[0]).toMatch(/neighbours overlap/)
+      const mirrors = await agent.post('/api/arrays').send({ chipId: chip.id, position: 'Z9', shape: 'custom', lattice: 'single', customRotationOrder: 4, customMirrors: [0, 30] })
+      expect(mirrors.body.fields.customMirrors[0]).toMatch(/4-fold structure has no mirror lines or exactly 4/)
+      expect(await t2.db.select().from(arrays).where(eq(arrays.chipId, chip.id))).toEqual([])
+    } finally { await t2.stop() }
   })
 })

@@ -84,7 +84,7 @@ describe('Excel import', () => {
         ['W1', material.name, '0 0 1', '0 0 1', 50.8, 350, lot]],
       Chips: [['ref', 'WAFER', 'width (mm)', 'Height', 'Index'], ['W1-01', 'W1', 5, 5, 1], ['W1-02', 'W1', 5, 5, 1], ['X', 'W-9999', 5, 5, null],
         ['W1-03', 'W1', { formula: 'A1*2' }, 5, 3]],
-      Arrays: [['Chip', 'Position', 'Shape', 'Lattice', 'Dimensions (nm)'], ['W1-01', 'A1', 'disk', 'square', 'diameterNm=400'], ['W1-01', 'A1', 'disk', 'square', 'diameterNm=400'], ['W1-01', 'B1', 'blob', 'square', 'width 3']],
+      Arrays: [['Chip', 'Position', 'Shape', 'Lattice', 'Dimensions (nm)'], ['W1-01', 'A1', 'disk', 'single', 'diameterNm=400'], ['W1-01', 'A1', 'disk', 'single', 'diameterNm=400'], ['W1-01', 'B1', 'blob', 'square', 'width 3']],
     })
     const before = await counts()
     const res = await upload(lead, bytes, true)
