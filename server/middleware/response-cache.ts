@@ -60,6 +60,7 @@ export function cachedJson(ctx: AppContext): RequestHandler {
     if (!cache || req.originalUrl.length > MAX_URL || /no-cache|no-store/i.test(req.get('cache-control') ?? '')) { res.set(CACHE_HEADER, 'bypass'); return next() }
     const key = `${(req.user as { id?: number } | undefined)?.id ?? 0}|${req.originalUrl}`
     cache.version().then((version) => {
+      if (res.headersSent) return // answered meanwhile (the database watchdog's 503)
       if (version === null) { res.set(CACHE_HEADER, 'bypass'); return next() }
       const hit = cache.entries.get(key)
       if (hit && hit.version === version) {
