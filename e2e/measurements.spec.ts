@@ -32,7 +32,9 @@ async function makeSample(stamp: string) {
   const admin = await apiAs('admin')
   const setup = await post<{ id: number; code: string; name: string }>(admin, '/api/laser-setups', {
     name: `E2E OPO ${stamp}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 800],
+    maxAvgPowerMw: 500, pulseDurationFs: 150, repRateHz: 80e6, beamDiameterMm: 2, interlocks: 'Door interlock', eyewear: [{ description: 'Test goggles', bandsNm: '700-1600', od: 7 }],
   })
+  const sub = await admin.post(`/api/laser-setups/${setup.id}/submit`, { data: {} }); expect(sub.status(), await sub.text()).toBe(200)
   const safety = await apiAs('safety')
   const expiresOn = new Date(Date.now() + 90 * 86400_000).toISOString().slice(0, 10)
   const approved = await safety.post(`/api/laser-setups/${setup.id}/approve`, { data: { expiresOn, note: 'E2E sign-off' } })
@@ -124,6 +126,8 @@ test('optics staff log a session, see the contradiction flag, and attach a spect
   const thumb = page.getByRole('button', { name: `Enlarge spot-${stamp}.png` })
   await expect(thumb.locator('img')).toBeVisible()
   await expect.poll(() => thumb.locator('img').evaluate((img: HTMLImageElement) => img.naturalWidth)).toBeGreaterThan(0)
+  // The uploader may retire their own file (so may group leads and administrators; others do not see it).
+  await expect(page.getByRole('button', { name: `Retire spot-${stamp}.png` })).toBeVisible()
   await thumb.click()
   await expect(page.getByRole('dialog').getByRole('img', { name: `Preview of spot-${stamp}.png` })).toBeVisible()
   await screen(page, 'session-image-enlarged')
