@@ -125,6 +125,8 @@ test('optics staff log a session, see the contradiction flag, and attach a spect
   const thumb = page.getByRole('button', { name: `Enlarge spot-${stamp}.png` })
   await expect(thumb.locator('img')).toBeVisible()
   await expect.poll(() => thumb.locator('img').evaluate((img: HTMLImageElement) => img.naturalWidth)).toBeGreaterThan(0)
+  // The uploader may retire their own file (so may group leads and administrators; others do not see it).
+  await expect(page.getByRole('button', { name: `Retire spot-${stamp}.png` })).toBeVisible()
   await thumb.click()
   await expect(page.getByRole('dialog').getByRole('img', { name: `Preview of spot-${stamp}.png` })).toBeVisible()
   await screen(page, 'session-image-enlarged')

@@ -11,6 +11,7 @@ import { requestId } from './middleware/request-id'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
 import { refuseDeepJson } from './middleware/json-depth'
+import { dbWatchdog } from './middleware/db-watchdog'
 import { authRoutes } from './routes/auth'
 import { userRoutes } from './routes/users'
 import { mailRoutes } from './routes/mail'
@@ -60,6 +61,8 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use(requestId)
   // Health first: a load balancer's probe must get 503 (not a session-store error) when the DB is down.
   app.use('/api/health', healthRoutes(ctx))
+  // Before the session store: a database that does not answer is a 503 within seconds, never a hang.
+  app.use('/api', dbWatchdog(ctx.pool))
   app.use('/api', express.json({ limit: '1mb', verify: refuseDeepJson }))
   app.use('/api', session({
     name: 'sid',

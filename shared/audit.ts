@@ -1,5 +1,6 @@
 import { z } from 'zod'
 import type { Subject } from './abilities'
+import { idValue, safeString } from './schemas/common'
 
 /**
  * The audit trail as the API shows it: record history (`GET /api/audit/records/:entity/:id`) and
@@ -61,11 +62,11 @@ export const auditSearchSchema = z.object({
   pageSize: z.coerce.number().int().min(1).max(200).default(25),
   sort: z.enum(['at', 'entity', 'action', 'user']).default('at'),
   dir: z.enum(['asc', 'desc']).default('desc'),
-  userId: z.coerce.number().int().positive().optional(),
+  userId: idValue().optional(),
   entity: z.enum(AUDIT_ENTITY_NAMES as [AuditEntity, ...AuditEntity[]], { error: 'Pick a record kind' }).optional(),
-  entityId: z.coerce.number().int().positive().optional(),
+  entityId: idValue().optional(),
   /** A record code (W-0001, C-0001-01, A-…, L-…, LS-…, S-…) or a material name. */
-  code: z.string().trim().max(80).optional().transform((v) => v || undefined),
+  code: safeString().max(80).optional().transform((v) => v || undefined),
   action: z.enum(AUDIT_ACTIONS, { error: 'Pick an action' }).optional(),
   from: isoDate.optional(),
   to: isoDate.optional(),

@@ -44,6 +44,10 @@ export interface HealthStatus {
   status: 'ok' | 'degraded'
   database: 'up' | 'down'
   mail: 'up' | 'down'
+  /** Can this server write to the file storage (uploads, exports)? */
+  storage: 'up' | 'down'
+  /** What is wrong, in words, when something is down. */
+  message?: string
   uptimeS: number
   version: string
 }

@@ -10,8 +10,11 @@ export type Db = ReturnType<typeof createDb>['db']
  * capture a stack trace for every statement (`trace`), which cost a few per cent of the CPU of a
  * list request.
  */
+/** A database that does not accept a connection within this is "down" (503), not a request that waits. */
+const CONNECT_TIMEOUT_MS = 3000
+
 export function createDb(url: string, connectionLimit = 10) {
-  const pool = mysql.createPool({ uri: url, connectionLimit, timezone: 'Z', supportBigNumbers: true, dateStrings: false, trace: process.env.NODE_ENV !== 'production' })
+  const pool = mysql.createPool({ uri: url, connectionLimit, connectTimeout: CONNECT_TIMEOUT_MS, timezone: 'Z', supportBigNumbers: true, dateStrings: false, trace: process.env.NODE_ENV !== 'production' })
   const db = drizzle({ client: pool, schema, mode: 'planetscale' })
   return { pool, db }
 }

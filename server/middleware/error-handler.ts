@@ -3,6 +3,7 @@ import { ZodError } from 'zod'
 import { AppError } from '../errors'
 import type { ApiErrorBody } from '../../shared/types'
 import { EngineError } from '../../shared/engine'
+import { DB_UNAVAILABLE_MESSAGE } from './db-watchdog'
 
 /** Map zod issues to `{ "field.path": ["message", …] }`. */
 export function zodFields(err: ZodError): Record<string, string[]> {
@@ -22,6 +23,24 @@ export function dbErrorOf(err: unknown): DbError | null {
     if (typeof e.errno === 'number' || (typeof e.code === 'string' && /^(ER_|PROTOCOL_|E[A-Z]+$)/.test(e.code))) return e
   }
   return null
+}
+
+/**
+ * The database cannot be reached or dropped the connection: stopped, restarting, unreachable,
+ * frozen (a query timed out), out of connections. Answered 503 (try again), not 500.
+ */
+const UNAVAILABLE_CODES = new Set([
+  'ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN',
+  'PROTOCOL_CONNECTION_LOST', 'PROTOCOL_SEQUENCE_TIMEOUT', 'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR', 'PROTOCOL_ENQUEUE_AFTER_QUIT',
+  'ER_CON_COUNT_ERROR', 'ER_TOO_MANY_USER_CONNECTIONS', 'ER_SERVER_SHUTDOWN', 'ER_LOCK_WAIT_TIMEOUT', 'ER_QUERY_INTERRUPTED',
+])
+const UNAVAILABLE_ERRNOS = new Set([1040, 1203, 1053, 1205, 1317, 2002, 2003, 2006, 2013])
+export function isDbUnavailable(err: unknown): boolean {
+  const e = dbErrorOf(err)
+  if (e) return UNAVAILABLE_CODES.has(e.code ?? '') || UNAVAILABLE_ERRNOS.has(e.errno ?? 0)
+  const m = (err as Error | undefined)?.message ?? ''
+  // mysql2's own states after a fatal error, which carry no code
+  return /Pool is closed|Can't add new command when connection is in closed state|connection is in closed state/.test(m)
 }
 
 /** Unique indexes over several columns, and the form field each one is about. */
@@ -64,6 +83,12 @@ export function errorHandler(log: (msg: string) => void): ErrorRequestHandler {
     } else if (err instanceof AppError) {
       status = err.status
       body = { error: err.code, message: err.message, fields: err.fields }
+    } else if (res.locals.isAnsweredByWatchdog) {
+      return // the database watchdog answered 503 already; this is the late end of that request
+    } else if (isDbUnavailable(err)) {
+      status = 503
+      body = { error: 'unavailable', message: DB_UNAVAILABLE_MESSAGE }
+      res.set('Retry-After', '30')
     } else if (dbErrorOf(err)?.errno === 1062 || dbErrorOf(err)?.code === 'ER_DUP_ENTRY') {
       status = 409
       body = duplicateKeyBody(dbErrorOf(err)!)

@@ -115,7 +115,7 @@ async function checkImage(buffer: Buffer): Promise<void> {
   }
   try {
     // Decoding to a small thumbnail reads every pixel row; 'truncated' refuses a file that ends early.
-    await sharp(buffer, { limitInputPixels: MAX_IMAGE_PIXELS, pages: 1, failOn: 'truncated' }).resize(64, 64, { fit: 'inside' }).raw().toBuffer()
+    await sharp(buffer, { limitInputPixels: MAX_IMAGE_PIXELS, pages: 1, failOn: 'truncated' }).resize(64, 64, { fit: 'inside', withoutEnlargement: true }).raw().toBuffer()
   } catch { throw fieldError('file', unreadable) }
 }
 

@@ -1,9 +1,10 @@
 import { createHash, randomBytes } from 'node:crypto'
-import { createReadStream, type ReadStream } from 'node:fs'
+import { constants as fsConstants, createReadStream, type ReadStream } from 'node:fs'
 import fs from 'node:fs/promises'
 import path from 'node:path'
 import type { FileStorageEnv } from '../env'
 import { S3Storage } from './storage-s3'
+import { AppError } from '../errors'
 
 /**
  * Content-addressed blob storage for uploaded files and finished Excel exports. A blob is named by
@@ -30,6 +31,22 @@ export interface FileStorage {
    * caller must know that nothing else refers to it (a `files` row, an export job).
    */
   remove(sha256: string): Promise<void>
+  /** Throws when nothing can be stored right now (read-only, full); for /api/health. */
+  checkWritable?(): Promise<void>
+}
+
+const FULL = new Set(['ENOSPC', 'EDQUOT', 'EFBIG'])
+const READ_ONLY = new Set(['EROFS', 'EACCES', 'EPERM'])
+
+/**
+ * A write that failed because of the storage itself, as the error to answer: 507 when it is full,
+ * 503 when it is read-only or not writable; anything else is passed on unchanged.
+ */
+export function storageFailure(err: unknown): Error {
+  const code = (err as NodeJS.ErrnoException | undefined)?.code ?? ''
+  if (FULL.has(code)) return new AppError(507, 'storage_full', 'The file storage is full, so nothing can be saved there right now. Ask an administrator to free space; nothing was stored.')
+  if (READ_ONLY.has(code)) return new AppError(503, 'storage_read_only', 'The file storage cannot be written (it is read-only or not writable), so nothing can be saved there right now. Ask an administrator; nothing was stored.')
+  return err as Error
 }
 
 const SHA = /^[0-9a-f]{64}$/
@@ -62,12 +79,32 @@ export class LocalDiskStorage implements FileStorage {
     const sha256 = sha256Of(data)
     const target = this.pathOf(sha256)
     if (await this.has(sha256)) return { sha256, sizeBytes: data.length, isNew: false }
-    await fs.mkdir(path.dirname(target), { recursive: true })
-    // Write beside the target, then rename: readers never see a half-written blob.
+    // Write beside the target, then rename: readers never see a half-written blob. A write that
+    // fails (disk full, read-only) leaves no partial .tmp file behind.
     const tmp = `${target}.${randomBytes(6).toString('hex')}.tmp`
-    await fs.writeFile(tmp, data, { mode: 0o640 })
-    await fs.rename(tmp, target)
+    try {
+      await fs.mkdir(path.dirname(target), { recursive: true })
+      await fs.writeFile(tmp, data, { mode: 0o640 })
+      await fs.rename(tmp, target)
+    } catch (err) {
+      await fs.rm(tmp, { force: true }).catch(() => {})
+      throw storageFailure(await this.why(err))
+    }
     return { sha256, sizeBytes: data.length, isNew: true }
+  }
+
+  /** A recursive mkdir on a read-only file system fails with ENOENT: ask the root itself why. */
+  private async why(err: unknown): Promise<unknown> {
+    const code = (err as NodeJS.ErrnoException).code ?? ''
+    if (FULL.has(code) || READ_ONLY.has(code)) return err
+    try { await fs.access(this.root, fsConstants.W_OK) } catch (e) { if (READ_ONLY.has((e as NodeJS.ErrnoException).code ?? '')) return e }
+    return err
+  }
+
+  async checkWritable(): Promise<void> {
+    await fs.mkdir(this.root, { recursive: true })
+    const probe = path.join(this.root, `.health-${randomBytes(6).toString('hex')}.tmp`)
+    try { await fs.writeFile(probe, 'ok') } finally { await fs.rm(probe, { force: true }).catch(() => {}) }
   }
 
   async get(sha256: string): Promise<ReadStream> {

@@ -10,6 +10,7 @@ import { loadEnv } from '../../server/env'
 import type { AppContext } from '../../server/context'
 import { DEMO_PASSWORD } from '../../server/db/seed/people'
 import { freePort, migrateAndSeed, startPrivateDb, type PrivateDb } from './private-db'
+import { listRoutes } from '../server/route-list'
 
 /**
  * Faults, on a private MariaDB (never the shared dev or test database):
@@ -17,6 +18,9 @@ import { freePort, migrateAndSeed, startPrivateDb, type PrivateDb } from './priv
  *    then ok again; a session cookie made before the restart still works (sessions live in MariaDB).
  * 2. The server process killed (SIGKILL) in the middle of a large Excel import: after a restart the
  *    wafer/chip/array counts are either unchanged or the whole file is in, never a part of it.
+ * 3. MariaDB stopped, then frozen (SIGSTOP): every API route answers 503 with a JSON message (not
+ *    500, and not a request that hangs as long as the database is frozen), health says the
+ *    database is down, and the app recovers by itself when the database is back.
  */
 let pdb: PrivateDb
 let url = ''
@@ -69,6 +73,77 @@ describe('MariaDB restart while the app runs', () => {
       await pool.end().catch(() => {})
     }
   }, 180_000)
+})
+
+describe('database down or frozen', () => {
+  async function appOnPrivateDb() {
+    const env = loadEnv({ ...process.env, DATABASE_URL: url, DATA_DIR: path.join(pdb.dir, 'data'), SESSION_SECRET: 'faults-secret-faults-secret', LOG_LEVEL: 'silent' })
+    const { pool, db } = createDb(url, 5)
+    const ctx: AppContext = { db, pool, env, log: () => {}, publicUrl: ORIGIN, mailUp: async () => true, startedAt: Date.now() }
+    const { app, close } = createApp(ctx)
+    return { app, stop: async () => { await close().catch(() => {}); await pool.end().catch(() => {}) } }
+  }
+  const fill = (p: string) => p.replace(/:id\b/g, '1').replace(/:entity\b/, 'chip').replace(/:template\b/, 'x').replace(/:(\w+)/g, 'x')
+  type Send = Record<string, (u: string) => request.Test>
+  async function untilHealthy(agent: ReturnType<typeof request.agent>) {
+    for (let i = 0; i < 150; i++) { if ((await agent.get('/api/health')).status === 200) return; await sleep(200) }
+    throw new Error('the app did not recover')
+  }
+
+  it('stopped: every API route answers 503 with a JSON message, health says so, and the app recovers', async () => {
+    // Signed in through one app; the sweep runs on a second one, whose caches are empty, so every
+    // request has to read its session from the database (as on a server that just started).
+    const first = await appOnPrivateDb()
+    const second = await appOnPrivateDb()
+    try {
+      const login = await request(first.app).post('/api/auth/login').send({ email: 'admin@kestrel-lab.example', password: DEMO_PASSWORD })
+      expect(login.status).toBe(200)
+      const cookie = (login.headers['set-cookie'] as unknown as string[]).map((c) => c.split(';')[0]).join('; ')
+      await pdb.stop()
+      try {
+        const wrong: string[] = []
+        for (const r of listRoutes(second.app).filter((x) => x.path.startsWith('/api') && x.path !== '/api/auth/logout')) {
+          const res = await (request(second.app) as unknown as Send)[r.method.toLowerCase()](fill(r.path)).set('Cookie', cookie).send({})
+          if (res.status !== 503 || !/json/.test(res.headers['content-type'] ?? '') || !res.body.message) wrong.push(`${r.method} ${r.path} → ${res.status} ${JSON.stringify(res.body).slice(0, 120)}`)
+        }
+        expect(wrong).toEqual([])
+        const health = await request(second.app).get('/api/health')
+        expect(health.body).toMatchObject({ status: 'degraded', database: 'down' })
+        expect(health.body.message).toMatch(/database/)
+      } finally { await pdb.start() }
+      const agent = request.agent(second.app)
+      await untilHealthy(agent)
+      expect((await agent.get('/api/wafers').set('Cookie', cookie)).status).toBe(200)
+    } finally { await first.stop(); await second.stop() }
+  }, 240_000)
+
+  it('frozen: requests answer 503 instead of hanging, health says so, and all is well after it thaws', async () => {
+    const { app, stop } = await appOnPrivateDb()
+    try {
+      const agent = request.agent(app)
+      expect((await agent.post('/api/auth/login').send({ email: 'admin@kestrel-lab.example', password: DEMO_PASSWORD })).status).toBe(200)
+      expect((await agent.get('/api/wafers')).status).toBe(200)
+      pdb.freeze()
+      try {
+        // A frozen database keeps its connections open and never answers; each of these would hang
+        // for as long as the freeze lasts (the test's own timeout) without the fix.
+        const [list, detail, write, health] = await Promise.all([
+          agent.get('/api/wafers'), agent.get('/api/materials/1'),
+          agent.post('/api/materials').send({ name: `Frozen ${Date.now()}`, formula: 'GaAs', pointGroup: '-43m' }),
+          request(app).get('/api/health'),
+        ])
+        for (const [label, res] of [['list', list], ['detail', detail], ['write', write]] as const) {
+          expect(res.status, label).toBe(503)
+          expect(res.body.message, label).toMatch(/database/i)
+        }
+        expect(health.status).toBe(503)
+        expect(health.body.database).toBe('down')
+      } finally { pdb.thaw() }
+      await untilHealthy(agent)
+      expect((await agent.get('/api/wafers')).status).toBe(200)
+      expect((await agent.get('/api/auth/me')).status).toBe(200)
+    } finally { await stop() }
+  }, 60_000)
 })
 
 async function startServer(port: number): Promise<ChildProcess> {

@@ -38,6 +38,10 @@ export interface PrivateDb {
   createDatabase(name: string, user?: string, password?: string): string
   start(): Promise<void>
   stop(): Promise<void>
+  /** Freeze the server process (SIGSTOP): connections stay open, nothing answers. */
+  freeze(): void
+  /** Let a frozen server run again (SIGCONT). */
+  thaw(): void
   destroy(): Promise<void>
 }
 
@@ -73,7 +77,10 @@ export async function startPrivateDb(tag: string): Promise<PrivateDb> {
       child = undefined
       if (c && c.exitCode === null && c.signalCode === null) await new Promise<void>((r) => { const t = setTimeout(() => { c.kill('SIGKILL'); r() }, 30_000); c.once('exit', () => { clearTimeout(t); r() }) })
     },
+    freeze() { child?.kill('SIGSTOP') },
+    thaw() { child?.kill('SIGCONT') },
     async destroy() {
+      db.thaw()
       await db.stop()
       fs.rmSync(dir, { recursive: true, force: true })
     },

@@ -38,6 +38,15 @@ describe('ids in paths', () => {
       expect(wrong).toEqual([])
     })
 
+  it('refuses the same in ids in query strings', async () => {
+    for (const [url, field] of [['/api/audit/search?entityId=0x1', 'entityId'], ['/api/audit/search?userId=1e0', 'userId'], ['/api/wafers?materialId=1.0', 'materialId'],
+      ['/api/sessions?laserSetupId=%201', 'laserSetupId'], ['/api/files?entity=chip&entityId=0x10', 'entityId'], ['/api/locations?parentId=-1', 'parentId']] as const) {
+      const res = await admin.get(url)
+      expect(res.status, url).toBe(400)
+      expect(res.body.fields?.[field], url).toBeDefined()
+    }
+  })
+
   it('answers 404 for an unknown id on every read route', async () => {
     const wrong: string[] = []
     for (const r of idRoutes().filter((x) => x.method === 'GET')) {
@@ -121,7 +130,7 @@ describe('deeply nested JSON', () => {
       expect(anon.status).toBe(400)
       expect(anon.body.message).toMatch(/nested/)
     }
-    const inString = await admin.post('/api/materials').send({ name: `Brackets ${'['.repeat(200)}`.slice(0, 80), formula: 'GaAs', pointGroup: '-43m', notes: '{'.repeat(1500) })
+    const inString = await admin.post('/api/materials').send({ name: `Brackets ${Date.now()}-${Math.floor(Math.random() * 1e6)} ${'['.repeat(50)}`, formula: 'GaAs', pointGroup: '-43m', notes: '{'.repeat(1500) })
     expect(inString.status).toBe(201)
   })
 })
