@@ -8,6 +8,9 @@ let t: Awaited<ReturnType<typeof startTestApp>>
 beforeAll(async () => { t = await startTestApp() })
 afterAll(async () => { await t.stop() })
 
+/** Mail from other test files may wait in the shared queue ahead of ours: these tests may take a while to see it. */
+const MAIL_WAIT_MS = 120_000
+
 /**
  * Deliver queued mail to the sink and return the newest message sent to `to`, as its owner's
  * mailbox has it (the sink's table: the outbox view masks one-time links).
@@ -15,7 +18,7 @@ afterAll(async () => { await t.stop() })
 async function deliveredTo(to: string) {
   // Other test files may have left mail in the shared queue; tick until ours has gone out.
   let row: typeof mailReceived.$inferSelect | undefined
-  for (let i = 0; i < 100 && !row; i++) {
+  for (let i = 0; i < 1000 && !row; i++) {
     await t.worker.tick()
     ;[row] = await t.db.select().from(mailReceived).where(like(mailReceived.toAddress, `%${to}%`)).orderBy(desc(mailReceived.id)).limit(1)
   }
@@ -59,7 +62,7 @@ describe('people', () => {
     const [row] = await t.db.select().from(users).where(eq(users.email, email))
     const audits = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'user'), eq(auditLog.entityId, row.id)))
     expect(audits.map((a) => a.action).sort()).toEqual(['create', 'update'])
-  })
+  }, MAIL_WAIT_MS)
 
   it('refuses a duplicate e-mail and writes nothing', async () => {
     const admin = await signedInAs(t.app, 'admin')
@@ -106,7 +109,7 @@ describe('people', () => {
 
     expect((await leaver.get('/api/auth/me')).status).toBe(401)
     expect((await request(t.app).post('/api/auth/login').send({ email, password: 'leaver-password-1' })).status).toBe(401)
-  })
+  }, MAIL_WAIT_MS)
 
   it('keeps at least one active administrator and refuses self-deactivation', async () => {
     const admin = await signedInAs(t.app, 'admin')
