@@ -10,6 +10,7 @@ import { configurePassport } from './auth/passport'
 import { requestId } from './middleware/request-id'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
+import { clientFiles } from './middleware/client-files'
 import { authRoutes } from './routes/auth'
 import { userRoutes } from './routes/users'
 import { mailRoutes } from './routes/mail'
@@ -84,15 +85,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api', recordRoutes(ctx))
   app.use('/api', apiNotFound)
 
-  const clientDir = findClientDir()
-  app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: (res, p) => {
-    if (p.endsWith('index.html')) res.setHeader('Cache-Control', 'no-cache')
-  } }))
-  app.get('/{*splat}', (_req, res) => {
-    const index = path.join(clientDir, 'index.html')
-    if (fs.existsSync(index)) res.setHeader('Cache-Control', 'no-cache').sendFile(index)
-    else res.status(503).type('text').send('The client is not built yet: run `npm start` (or `npm run build`).')
-  })
+  app.use(clientFiles(findClientDir()))
 
   app.use(errorHandler(ctx.log))
   return { app, close: async () => { await store.close() } }

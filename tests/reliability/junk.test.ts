@@ -20,8 +20,8 @@ import { migrateAndSeed, startPrivateDb, type PrivateDb } from './private-db'
  */
 const RUNS = Number(process.env.JUNK_RUNS ?? 10)
 const SEED = 20240607
-/** Not under /api: the client's history fallback (answers index.html or a text 503), not an API route. */
-const NOT_API = new Set(['GET /{*splat}'])
+/** Routes outside /api (none: the client's files and pages are one middleware, server/middleware/client-files.ts). */
+const NOT_API = new Set<string>([])
 
 interface RouteRef { method: string; path: string }
 type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; rawPath?: string }
