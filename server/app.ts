@@ -8,6 +8,7 @@ import { fileURLToPath } from 'node:url'
 import type { AppContext } from './context'
 import { configurePassport } from './auth/passport'
 import { requestId } from './middleware/request-id'
+import { requestLogger } from './logger'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
 import { clientFiles } from './middleware/client-files'
@@ -58,6 +59,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
     strictTransportSecurity: false,
   }))
   app.use(requestId)
+  app.use(requestLogger(ctx.log))
   // Health first: a load balancer's probe must get 503 (not a session-store error) when the DB is down.
   app.use('/api/health', healthRoutes(ctx))
   app.use('/api', express.json({ limit: '1mb' }))

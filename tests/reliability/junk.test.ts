@@ -7,6 +7,7 @@ import { createDb } from '../../server/db/client'
 import { createApp } from '../../server/app'
 import { loadEnv } from '../../server/env'
 import type { AppContext } from '../../server/context'
+import { silentLogger } from '../../server/logger'
 import { DEMO_PASSWORD } from '../../server/db/seed/people'
 import { migrateAndSeed, startPrivateDb, type PrivateDb } from './private-db'
 
@@ -70,7 +71,7 @@ beforeAll(async () => {
   await migrateAndSeed(url)
   const env = loadEnv({ ...process.env, DATABASE_URL: url, DATA_DIR: `${pdb.dir}/data`, SESSION_SECRET: 'junk-secret-junk-secret', LOG_LEVEL: 'silent', LOGIN_MAX_FAILURES: '1000' })
   const { pool, db } = createDb(url, 5)
-  const ctx: AppContext = { db, pool, env, log: () => {}, publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
+  const ctx: AppContext = { db, pool, env, log: silentLogger(), publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
   const { app, close } = createApp(ctx)
   t = { app, ctx, close: async () => { await close(); await pool.end() } }
   // sessions and sign-in throttle counters change on refusals by design (a failed sign-in counts)
