@@ -2,6 +2,7 @@ import { fileURLToPath } from 'node:url'
 import { defineConfig } from 'vite'
 import vue from '@vitejs/plugin-vue'
 import { quasar, transformAssetUrls } from '@quasar/vite-plugin'
+import { precompress } from './scripts/precompress'
 
 const fromRoot = (p: string) => fileURLToPath(new URL(p, import.meta.url))
 
@@ -19,6 +20,14 @@ export default defineConfig({
   plugins: [
     vue({ template: { transformAssetUrls } }),
     quasar({ sassVariables: fromRoot('./src/quasar-variables.sass') }),
+    // Brotli and gzip copies of the text assets, served as they are (server/middleware/client-files.ts).
+    {
+      name: 'overtone-precompress',
+      apply: 'build',
+      writeBundle(options) {
+        if (options.dir) precompress(options.dir)
+      },
+    },
   ],
   server: {
     host: '127.0.0.1',

@@ -3,10 +3,7 @@
  * evaluations per second with the tensor content cached per (group, cut); a cold new
  * (group, cut, order ≤ 3) in < 5 ms. The bare cost of as many JSON.parse calls is printed as a floor.
  */
-import { computeChannels, evaluateChannels, parseChannelRequest } from '../shared/engine'
-import { clearSampleTensorCache } from '../shared/engine/sample-tensor'
-import { clearTensorFormCache } from '../shared/engine/tensor-forms'
-import { clearChannelMemos } from '../shared/engine/channels'
+import { clearEngineCaches, computeChannels, evaluateChannels, parseChannelRequest } from '../shared/engine'
 
 /** One result row; `target` is in the same unit, and ratio = value / target is printed by the runner. */
 export interface BenchRow {
@@ -63,9 +60,7 @@ export function runEngineBench(iterations = 100_000): BenchRow[] {
     for (let round = 0; round < 5; round++) {
       let k = 0
       for (const group of ['-43m', '3m', '6mm', 'mm2', '1', '-42m', '32', '23']) {
-        if (clearForms) clearTensorFormCache()
-        clearSampleTensorCache()
-        clearChannelMemos()
+        clearEngineCaches({ keepForms: !clearForms })
         k++
         const req = { crystal: { pointGroup: group, normal: [1, 2 + k, 3 + round], reference: [1, 0, 0] }, structure: { rotationOrder: 0, mirrors: [0] }, pump: { type: 'linear', angle: 10 }, order }
         times.push(timeLoop(1, () => computeChannels(req)) * 1000)

@@ -8,10 +8,12 @@ import { fileURLToPath } from 'node:url'
 import type { AppContext } from './context'
 import { configurePassport } from './auth/passport'
 import { requestId } from './middleware/request-id'
+import { requestLogger } from './logger'
 import { originCheck } from './middleware/origin-check'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
 import { refuseDeepJson } from './middleware/json-depth'
 import { dbWatchdog } from './middleware/db-watchdog'
+import { clientFiles } from './middleware/client-files'
 import { authRoutes } from './routes/auth'
 import { userRoutes } from './routes/users'
 import { mailRoutes } from './routes/mail'
@@ -59,6 +61,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
     strictTransportSecurity: false,
   }))
   app.use(requestId)
+  app.use(requestLogger(ctx.log))
   // Health first: a load balancer's probe must get 503 (not a session-store error) when the DB is down.
   app.use('/api/health', healthRoutes(ctx))
   // Before the session store: a database that does not answer is a 503 within seconds, never a hang.
@@ -88,15 +91,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api', recordRoutes(ctx))
   app.use('/api', apiNotFound)
 
-  const clientDir = findClientDir()
-  app.use(express.static(clientDir, { index: false, maxAge: '1h', setHeaders: (res, p) => {
-    if (p.endsWith('index.html')) res.setHeader('Cache-Control', 'no-cache')
-  } }))
-  app.get('/{*splat}', (_req, res) => {
-    const index = path.join(clientDir, 'index.html')
-    if (fs.existsSync(index)) res.setHeader('Cache-Control', 'no-cache').sendFile(index)
-    else res.status(503).type('text').send('The client is not built yet: run `npm start` (or `npm run build`).')
-  })
+  app.use(clientFiles(findClientDir()))
 
   app.use(errorHandler(ctx.log))
   return { app, close: async () => { await store.close() } }

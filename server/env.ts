@@ -42,7 +42,8 @@ const envSchema = z.object({
   DATA_DIR: z.string().default('.data'),
   /** Failed sign-ins allowed per e-mail and address in a 10-minute window. */
   LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(8),
-  LOG_LEVEL: z.enum(['silent', 'error', 'info']).default('info'),
+  /** Least severe level of the JSON logs on stdout (server/logger.ts). */
+  LOG_LEVEL: z.enum(['silent', 'error', 'warn', 'info', 'debug']).default('info'),
   /** Excel import: megabytes an uploaded workbook may unpack to, and data rows per sheet. */
   IMPORT_MAX_EXPANDED_MB: z.coerce.number().positive().default(200),
   IMPORT_MAX_ROWS: z.coerce.number().int().min(1).default(100_000),

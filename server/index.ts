@@ -12,6 +12,7 @@ import { setNoticeBaseUrl } from './services/notices'
 import type { AppContext } from './context'
 import { sweepExports } from './services/excel-export'
 import { createFileStorage } from './services/storage'
+import { createLogger } from './logger'
 
 /** Keep one session secret per data dir so restarts keep people signed in. */
 function sessionSecret(dataDir: string): string {
@@ -34,7 +35,7 @@ function tcpAnswers(host: string, port: number): Promise<boolean> {
 async function main() {
   const dataDir = process.env.DATA_DIR ?? '.data'
   const env = loadEnv({ ...process.env, SESSION_SECRET: sessionSecret(dataDir) })
-  const log = env.LOG_LEVEL === 'silent' ? () => {} : (m: string) => console.error(`[overtone] ${m}`)
+  const log = createLogger(env.LOG_LEVEL)
   const { pool, db } = createDb(env.DATABASE_URL, 20)
 
   let smtpUrl = env.SMTP_URL
@@ -42,7 +43,7 @@ async function main() {
   if (!smtpUrl) {
     sink = await startMailSink(db, env.SMTP_SINK_PORT, log)
     smtpUrl = `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`
-    log(`local SMTP sink on 127.0.0.1:${sink.port} (messages appear under Admin → Mail outbox)`)
+    log.info({ port: sink.port }, `local SMTP sink on 127.0.0.1:${sink.port} (messages appear under Admin → Mail outbox)`)
   }
   const smtp = new URL(smtpUrl)
   const worker = new MailWorker(db, smtpUrl, env.MAIL_FROM, log)
@@ -59,19 +60,19 @@ async function main() {
   // Expired export jobs and their workbooks also go when nobody starts a new export.
   const exportStorage = createFileStorage(env.DATA_DIR, env)
   const exportSweep = setInterval(() => {
-    sweepExports(db, exportStorage, env.DATA_DIR).catch((e) => log(`export sweep: ${(e as Error).message}`))
+    sweepExports(db, exportStorage, env.DATA_DIR).catch((err) => log.error({ err }, 'export sweep failed'))
   }, 10 * 60 * 1000)
   exportSweep.unref()
   const { app, close } = createApp(ctx)
   const server = app.listen(env.PORT, env.HOST, () => {
-    log(`Overtone is running at ${ctx.publicUrl}`)
+    log.info({ url: ctx.publicUrl }, `Overtone is running at ${ctx.publicUrl}`)
   })
 
   let stopping = false
   const stop = async (signal: string) => {
     if (stopping) return
     stopping = true
-    log(`${signal}: shutting down`)
+    log.info({ signal }, `${signal}: shutting down`)
     server.close()
     server.closeAllConnections?.()
     clearInterval(exportSweep)

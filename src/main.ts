@@ -1,9 +1,7 @@
-// Fonts and icons come from npm packages and are bundled; nothing is loaded from a CDN.
-import '@fontsource/roboto-condensed/400.css'
-import '@fontsource/roboto-condensed/500.css'
-import '@fontsource/roboto-condensed/700.css'
+// Fonts and icons come from npm packages and are bundled; nothing is loaded from a CDN. One icon
+// font (Material Icons); the few MDI icons are inline SVG paths (src/icons.ts).
+import './styles/fonts.css'
 import '@quasar/extras/material-icons/material-icons.css'
-import '@quasar/extras/mdi-v7/mdi-v7.css'
 import 'quasar/src/css/index.sass'
 import './styles/app.sass'
 
@@ -15,6 +13,7 @@ import App from './App.vue'
 import { router } from './router'
 import { useAuthStore } from './stores/auth'
 import { readStoredDarkMode } from './composables/useDarkMode'
+import { iconMapFn } from './icons'
 
 const app = createApp(App)
 const pinia = createPinia()
@@ -23,6 +22,8 @@ app.use(Quasar, {
   plugins: { Notify, Dialog },
   config: { dark: readStoredDarkMode(), notify: { position: 'top', timeout: 3000 } },
 })
+// `mdi-*` names are drawn from SVG paths (src/icons.ts); everything else by the Material Icons font.
+app.config.globalProperties.$q.iconMapFn = iconMapFn
 app.use(abilitiesPlugin, useAuthStore(pinia).ability, { useGlobalProperties: true })
 app.use(router)
 app.mount('#app')

@@ -4,6 +4,7 @@ import { AppError } from '../errors'
 import type { ApiErrorBody } from '../../shared/types'
 import { EngineError } from '../../shared/engine'
 import { DB_UNAVAILABLE_MESSAGE } from './db-watchdog'
+import type { Logger } from '../logger'
 
 /** Map zod issues to `{ "field.path": ["message", …] }`. */
 export function zodFields(err: ZodError): Record<string, string[]> {
@@ -71,7 +72,7 @@ export const apiNotFound: RequestHandler = (req, res) => {
 }
 
 /** The one JSON error handler: zod → 400 with fields, AppError → its status, anything else → 500 (logged). */
-export function errorHandler(log: (msg: string) => void): ErrorRequestHandler {
+export function errorHandler(log: Logger): ErrorRequestHandler {
   return (err, req, res, _next) => {
     let status = 500
     let body: ApiErrorBody
@@ -103,7 +104,9 @@ export function errorHandler(log: (msg: string) => void): ErrorRequestHandler {
       status = (err as { status: number }).status
       body = { error: 'bad_request', message: (err as Error).message || 'Bad request' }
     } else {
-      log(`[${req.id}] ${req.method} ${req.originalUrl} failed: ${(err as Error)?.stack ?? String(err)}`)
+      // The request's own log line (server/logger.ts) then carries the error with its stack.
+      if (req.log) (res as unknown as { err?: unknown }).err = err
+      else log.error({ err, reqId: req.id, method: req.method, url: req.originalUrl }, 'request failed')
       body = { error: 'internal', message: 'Something went wrong on the server. The error was logged.' }
     }
     body.requestId = req.id

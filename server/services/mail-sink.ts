@@ -2,6 +2,7 @@ import { SMTPServer } from 'smtp-server'
 import { simpleParser, type AddressObject } from 'mailparser'
 import type { Db } from '../db/client'
 import { mailReceived } from '../db/schema/index'
+import type { Logger } from '../logger'
 
 function addresses(a: AddressObject | AddressObject[] | undefined): string {
   if (!a) return ''
@@ -12,7 +13,7 @@ function addresses(a: AddressObject | AddressObject[] | undefined): string {
  * A loopback SMTP server that stores every message it receives in `mail_received`, so development
  * and tests send real mail through nodemailer without any outside service.
  */
-export async function startMailSink(db: Db, port: number, log: (m: string) => void): Promise<{ port: number; close: () => Promise<void> }> {
+export async function startMailSink(db: Db, port: number, log: Logger): Promise<{ port: number; close: () => Promise<void> }> {
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ['STARTTLS', 'AUTH'],
@@ -30,7 +31,7 @@ export async function startMailSink(db: Db, port: number, log: (m: string) => vo
           })
           callback()
         })
-        .catch((err: Error) => { log(`mail sink: ${err.message}`); callback(err) })
+        .catch((err: Error) => { log.error({ err }, 'mail sink: storing a message failed'); callback(err) })
     },
   })
   await new Promise<void>((resolve, reject) => {

@@ -4,6 +4,7 @@ import { mailQueue, mailReceived } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { DbOrTx } from './audit'
 import type { MailMessage, MailSummary } from '../../shared/types'
+import type { Logger } from '../logger'
 
 export interface OutgoingMail { to: string; subject: string; text: string; html?: string }
 
@@ -24,7 +25,7 @@ export class MailWorker {
   private running = false
   private transport: Transporter
 
-  constructor(private db: Db, smtpUrl: string, private from: string, private log: (m: string) => void, private intervalMs = 1000) {
+  constructor(private db: Db, smtpUrl: string, private from: string, private log: Logger, private intervalMs = 1000) {
     this.transport = nodemailer.createTransport(smtpUrl)
   }
 
@@ -68,7 +69,7 @@ export class MailWorker {
         }
       }
     } catch (err) {
-      this.log(`mail worker: ${(err as Error).message}`)
+      this.log.error({ err }, 'mail worker: a pass failed')
     } finally {
       this.running = false
     }

@@ -5,6 +5,7 @@ import type { DbOrTx } from './audit'
 import { getNoticeBaseUrl, queueNotice, recipientsWithRole } from './notices'
 import { digestNotice, setupExpiringNotice } from './notice-templates'
 import { collectDigest, expiringSetups, previousDigestAt } from './notice-digest'
+import type { Logger } from '../logger'
 
 /**
  * Scheduled notices, run in-process by every app server: "sign-off expiring soon" to the safety
@@ -85,7 +86,7 @@ export class NoticeScheduler {
   private timer: NodeJS.Timeout | undefined
   private running: Promise<unknown> | null = null
 
-  constructor(private db: Db, private log: (m: string) => void, private intervalMs = 300_000) {}
+  constructor(private db: Db, private log: Logger, private intervalMs = 300_000) {}
 
   start(): void {
     this.timer = setInterval(() => void this.runOnce(new Date()), this.intervalMs)
@@ -104,10 +105,10 @@ export class NoticeScheduler {
     const pass = (async () => {
       let expiring = 0
       let digest: DigestOutcome | null = null
-      try { expiring = await queueExpiringNotices(this.db, now) } catch (err) { this.log(`notices: expiring sign-offs failed: ${(err as Error).message}`) }
+      try { expiring = await queueExpiringNotices(this.db, now) } catch (err) { this.log.error({ err }, 'notices: expiring sign-offs failed') }
       try {
         if (now >= digestTimeOfWeek(now)) digest = await queueDigest(this.db, now)
-      } catch (err) { this.log(`notices: digest failed: ${(err as Error).message}`) }
+      } catch (err) { this.log.error({ err }, 'notices: digest failed') }
       return { expiring, digest }
     })()
     this.running = pass

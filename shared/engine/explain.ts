@@ -30,9 +30,8 @@ export function formatSymmetricSet(values: readonly number[]): string {
 
 const pct = (w: number) => `${(100 * w).toFixed(w < 0.1 ? 1 : 0)}%`
 
-/** Derivation steps that depend only on the sample tensor (memoised on the sample). */
+/** Derivation steps that depend only on the sample tensor (the channel path keeps them with its cached sample). */
 export function explainSample(sample: SampleTensor, cut: { normal: Vec3; reference: Vec3; azimuthDeg: number }): string[] {
-  if (sample.notes.length > 0) return sample.notes
   const { group, form, content } = sample
   const N = form.order
   const notes: string[] = []
@@ -49,7 +48,6 @@ export function explainSample(sample: SampleTensor, cut: { normal: Vec3; referen
     const weights = content.weights.filter((w) => w.q >= 0).map((w) => `${w.q === 0 ? '0' : `±${w.q}`}: ${pct(w.q === 0 ? w.weight : 2 * w.weight)}`)
     notes.push(`${who} carries Δm = ${formatSymmetricSet(content.q)} only (weights ${weights.join(', ')}); Q does not depend on the in-plane azimuth`)
   }
-  sample.notes = notes
   return notes
 }
 

@@ -13,7 +13,7 @@ import type { ShapeSpec, LatticeSpec } from './structure'
 import { deriveArraySymmetry, structureGroupName, SHAPE_KINDS, LATTICE_KINDS } from './structure'
 import { parsePump } from './pump-request'
 import { pumpProjections, signed } from './pump'
-import { prepareSampleTensor } from './sample-tensor'
+import { sampleEntry } from './sample-tensor'
 import { getPointGroup } from './point-groups'
 import { parseDirection } from './directions'
 import { assertOrder } from './tensor-forms'
@@ -102,7 +102,7 @@ export function planFabrication(request: unknown): PlanOption[] {
   const sums = sumProjections(pumpProjections(pump), order)
   const options: PlanOption[] = []
   cuts.forEach((cut, cutIndex) => {
-    const sample = prepareSampleTensor({ pointGroup: group.symbol, normal: cut.normal, reference: cut.reference, order, surface })
+    const { sample } = sampleEntry({ pointGroup: group.symbol, normal: cut.normal, reference: cut.reference, order, surface })
     shapes.forEach((shape, si) =>
       lattices.forEach((lattice, li) => {
         const sym = deriveArraySymmetry(shape, lattice)

@@ -9,19 +9,19 @@ import { IDENTITY3, mulMat3, det3 } from './linalg'
 import { EngineError } from './errors'
 import { BoundedCache } from './bounded-cache'
 
-/** A point group with its generators and (for the 32 classes) every element. */
+/** A point group with its generators and (for the 32 classes) every element. Frozen: every caller shares it. */
 export interface PointGroup {
   /** Hermann–Mauguin symbol (ASCII, e.g. `-43m`; limiting groups `∞m`, `∞∞m`). */
-  symbol: string
-  schoenflies: string
-  system: CrystalSystem | 'limiting'
-  generators: readonly Mat3[]
+  readonly symbol: string
+  readonly schoenflies: string
+  readonly system: CrystalSystem | 'limiting'
+  readonly generators: readonly Mat3[]
   /** All elements (closure of the generators); empty for the infinite limiting groups. */
-  elements: readonly Mat3[]
+  readonly elements: readonly Mat3[]
   /** Number of elements (Infinity for limiting groups). */
-  order: number
-  isCentrosymmetric: boolean
-  isCubic: boolean
+  readonly order: number
+  readonly isCentrosymmetric: boolean
+  readonly isCubic: boolean
 }
 
 /** Hermann–Mauguin symbols of the 32 crystallographic classes, in the table's order. */
@@ -52,34 +52,35 @@ export function closeGroup(generators: readonly Mat3[], maxOrder = 48): Mat3[] {
   return elements
 }
 
-const cache = new Map<string, PointGroup>()
-
-/** Groups by the exact spelling a caller used (`m3m`, ` Td `…), so a known spelling is not normalised again. */
-const bySpelling = new BoundedCache<string, PointGroup>(1024)
-/** Longer spellings (padding) are not remembered, so the table stays small. */
+/**
+ * Groups by the spelling a caller used (`m3m`, ` Td `…) and by canonical symbol, so a known
+ * spelling is neither normalised nor closed again. Longer spellings (padding) are not kept.
+ */
+const groups = new BoundedCache<string, PointGroup>(1024)
 const MAX_SPELLING = 32
 
-function build(symbol: string): PointGroup | undefined {
+const frozenMatrices = (ms: readonly Mat3[]): readonly Mat3[] => Object.freeze(ms.map((m) => Object.freeze(m.slice())))
+
+function build(symbol: string): PointGroup {
   const entry = POINT_GROUP_TABLE.find((e) => e.symbol === symbol)
   if (entry) {
     const generators = entry.generators.map((name) => SYMMETRY_OPERATIONS[name])
     const elements = closeGroup(generators)
     const inv = matrixKey(SYMMETRY_OPERATIONS.I)
-    return {
-      symbol, schoenflies: entry.schoenflies, system: entry.system, generators, elements,
+    return Object.freeze({
+      symbol, schoenflies: entry.schoenflies, system: entry.system, generators: frozenMatrices(generators), elements: frozenMatrices(elements),
       order: elements.length,
       isCentrosymmetric: elements.some((g) => matrixKey(g) === inv),
       isCubic: entry.system === 'cubic',
-    }
+    })
   }
-  const limit = LIMIT_GROUP_TABLE.find((e) => e.symbol === symbol)
-  if (!limit) return undefined
-  return {
-    symbol, schoenflies: limit.schoenflies, system: 'limiting', generators: limit.generators, elements: [],
+  const limit = LIMIT_GROUP_TABLE.find((e) => e.symbol === symbol)!
+  return Object.freeze({
+    symbol, schoenflies: limit.schoenflies, system: 'limiting' as const, generators: frozenMatrices(limit.generators), elements: Object.freeze([]),
     order: Infinity,
     isCentrosymmetric: limit.generators.some((g) => det3(g) < 0 && matrixKey(g) === matrixKey(SYMMETRY_OPERATIONS.I)),
     isCubic: false,
-  }
+  })
 }
 
 /** Canonical symbol for a user-supplied symbol or alias (`m3m` → `m-3m`, `Td` → `-43m`), or undefined. */
@@ -96,7 +97,7 @@ export function normalizePointGroupSymbol(input: string): string | undefined {
  * Throws `UNKNOWN_POINT_GROUP` (field `field`) for anything else. Results are cached.
  */
 export function getPointGroup(symbol: string, field = 'pointGroup'): PointGroup {
-  const known = typeof symbol === 'string' ? bySpelling.get(symbol) : undefined
+  const known = typeof symbol === 'string' ? groups.get(symbol) : undefined
   if (known) return known
   const canonical = typeof symbol === 'string' ? normalizePointGroupSymbol(symbol) : undefined
   if (!canonical)
@@ -105,16 +106,12 @@ export function getPointGroup(symbol: string, field = 'pointGroup'): PointGroup 
       message: `unknown point group ${JSON.stringify(symbol)}; expected a Hermann–Mauguin symbol of one of the 32 classes`,
       hint: 'use ASCII Hermann–Mauguin symbols such as -43m, 3m, 6mm, m-3m, or ∞m for an isotropic interface',
     })
-  let group = cache.get(canonical)
-  if (!group) {
-    group = build(canonical)!
-    cache.set(canonical, group)
-  }
-  if (symbol.length <= MAX_SPELLING) bySpelling.set(symbol, group)
+  const group = groups.getOrSet(canonical, () => build(canonical))
+  if (symbol.length <= MAX_SPELLING) groups.set(symbol, group)
   return group
 }
 
-/** Forget the spellings remembered by {@link getPointGroup} (tests compare cold and warm answers). */
-export function clearPointGroupSpellings(): void {
-  bySpelling.clear()
+/** Forget the groups kept by {@link getPointGroup} (tests compare cold and warm answers). */
+export function clearPointGroupCache(): void {
+  groups.clear()
 }

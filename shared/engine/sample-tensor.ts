@@ -1,6 +1,8 @@
 /**
  * The χ(N) tensor of one sample in the lab frame, with its cylindrical content and mirror parities,
- * cached per (point group, cut, azimuth, order, surface, permutation symmetry). Bulk: the solved
+ * cached per (point group, cut, azimuth, order, surface, permutation symmetry) in one bounded
+ * cache. Inside the engine the cached record is shared (frozen, its typed arrays only read); the
+ * public {@link prepareSampleTensor} answers a copy. Bulk: the solved
  * crystal form rotated by the cut. Surface: the isotropic-interface (∞m) form, already in the lab
  * frame (z = normal), which replaces the bulk tensor.
  */
@@ -11,11 +13,13 @@ import type { PermutationSymmetry } from './tensor-space'
 import type { CylindricalContent } from './cylindrical-content'
 import type { Parity } from './mirror-parity'
 import { getPointGroup } from './point-groups'
-import { solveTensorForm } from './tensor-forms'
+import { cachedTensorForm } from './tensor-forms'
 import { labFrame, rotateToSample } from './cut-rotation'
 import { computeCylindricalContent } from './cylindrical-content'
 import { computeMirrorParity } from './mirror-parity'
 import { normalizeMirror } from './structure'
+import { explainSample, formatSymmetricSet } from './explain'
+import { BoundedCache } from './bounded-cache'
 
 /** What identifies a sample tensor. Vectors in the crystal Cartesian frame, azimuth in degrees. */
 export interface SampleTensorInput {
@@ -30,24 +34,35 @@ export interface SampleTensorInput {
 
 /** A lab-frame tensor subspace with its derived content (see module doc). */
 export interface SampleTensor {
-  key: string
-  group: PointGroup
+  readonly key: string
+  readonly group: PointGroup
   /** The solved form used (crystal form, or the ∞m form when `isSurface`). */
-  form: TensorForm
-  isSurface: boolean
-  frame: Mat3
-  rank: number
+  readonly form: TensorForm
+  readonly isSurface: boolean
+  readonly frame: Mat3
+  readonly rank: number
   /** Lab-frame basis tensors of the allowed subspace. */
-  tensors: readonly Float64Array[]
-  content: CylindricalContent
-  /** Memo of parities per normalised mirror azimuth. */
-  parities: Map<number, Parity>
-  /** Memo for derivation text that depends only on the sample. */
-  notes: string[]
+  readonly tensors: readonly Float64Array[]
+  readonly content: Readonly<CylindricalContent>
 }
 
-const cache = new Map<string, SampleTensor>()
-const MAX_CACHE = 10_000
+/**
+ * A cached sample with what the channel path derives from it alone: Q as text, the sample's
+ * derivation steps (made on first use) and its parities per mirror line (at most
+ * {@link MAX_PARITIES}). Never handed out of the engine.
+ */
+export interface SampleEntry {
+  readonly sample: SampleTensor
+  /** Q as `q.join(',')`, part of cache keys of the channel path. */
+  readonly qKey: string
+  readonly qText: string
+  notes?: readonly string[]
+  readonly parities: BoundedCache<number, Parity>
+}
+
+const MAX_SAMPLES = 10_000
+const MAX_PARITIES = 256
+const samples = new BoundedCache<string, SampleEntry>(MAX_SAMPLES)
 
 /** Cache key of a sample tensor. */
 export function sampleTensorKey(input: SampleTensorInput): string {
@@ -59,111 +74,51 @@ function vectorKey(v: Vec3): string {
   return v.length === 3 && typeof v[0] === 'number' && typeof v[1] === 'number' && typeof v[2] === 'number' ? `${v[0]},${v[1]},${v[2]}` : v.join(',')
 }
 
-/** The lab-frame χ(N) of a sample (cached). Throws EngineError for bad group, order or vectors. */
-export function prepareSampleTensor(input: SampleTensorInput): SampleTensor {
-  const slot = recentSlot(input)
-  const seen = slot < 0 ? undefined : recent[slot]
-  if (seen !== undefined && isSameInput(seen, input)) return seen.sample
+/** The cached entry of a sample (engine-internal). Throws EngineError for bad group, order or vectors. */
+export function sampleEntry(input: SampleTensorInput): SampleEntry {
   const key = sampleTensorKey(input)
-  const hit = cache.get(key)
-  if (hit) {
-    if (slot >= 0) recent[slot] = recentEntry(input, hit)
-    return hit
-  }
+  return samples.get(key) ?? samples.set(key, makeEntry(key, input))
+}
+
+function makeEntry(key: string, input: SampleTensorInput): SampleEntry {
   const group = getPointGroup(input.pointGroup, 'crystal.pointGroup')
   const frame = labFrame({ normal: input.normal, reference: input.reference, azimuthDeg: input.azimuthDeg })
   const symmetry = input.symmetry ?? 'intrinsic'
   const isSurface = input.surface === true
-  const form = solveTensorForm(isSurface ? '∞m' : group.symbol, input.order, { symmetry })
-  const tensors = isSurface ? form.tensors : form.tensors.map((t) => rotateToSample(t, form.rank, frame))
-  const sample: SampleTensor = {
-    key, group, form, isSurface, frame, rank: form.rank, tensors,
-    content: computeCylindricalContent(tensors, form.rank), parities: new Map(), notes: [],
-  }
-  if (cache.size >= MAX_CACHE) clearSampleTensorCache()
-  cache.set(key, sample)
-  if (slot >= 0) recent[slot] = recentEntry(input, sample)
-  return sample
+  const form = cachedTensorForm(isSurface ? '∞m' : group.symbol, input.order, { symmetry })
+  const tensors = isSurface ? form.tensors : Object.freeze(form.tensors.map((t) => rotateToSample(t, form.rank, frame)))
+  const c = computeCylindricalContent(tensors, form.rank)
+  const content = Object.freeze({ q: Object.freeze(c.q), weights: Object.freeze(c.weights.map((w) => Object.freeze(w))) }) as Readonly<CylindricalContent>
+  const sample: SampleTensor = Object.freeze({ key, group, form, isSurface, frame: Object.freeze(frame.slice()), rank: form.rank, tensors, content })
+  return { sample, qKey: content.q.join(','), qText: content.q.length ? formatSymmetricSet(content.q) : '', parities: new BoundedCache(MAX_PARITIES) }
 }
 
-/**
- * Recently used samples in front of the keyed cache, one per slot picked by a cheap hash of the
- * identifying fields and accepted only when every field is identical (===, which implies the same
- * cache key), so a repeated cut skips forming the key string. Every sample here is also in `cache`.
- */
-interface RecentEntry {
-  pointGroup: string
-  normal: readonly [number, number, number]
-  reference: readonly [number, number, number]
-  azimuthDeg: number
-  order: number
-  surface: boolean
-  symmetry: string
-  sample: SampleTensor
-}
-
-const RECENT_SLOTS = 256
-const recent: (RecentEntry | undefined)[] = new Array(RECENT_SLOTS).fill(undefined)
-
-/** Slot of an input, or −1 when its vectors are not three entries (those always take the keyed path). */
-function recentSlot(input: SampleTensorInput): number {
-  const n = input.normal
-  const r = input.reference
-  const g = input.pointGroup
-  if (n.length !== 3 || r.length !== 3 || typeof g !== 'string') return -1
-  let h = g.length * 31 + (g.length > 0 ? g.charCodeAt(g.length - 1) : 0)
-  h = mix(h, input.order)
-  h = mix(h, input.azimuthDeg ?? 0)
-  h = mix(h, n[0])
-  h = mix(h, n[1])
-  h = mix(h, n[2])
-  h = mix(h, r[0])
-  h = mix(h, r[1])
-  h = mix(h, r[2])
-  if (input.surface) h ^= 0x5bd1
-  return (h ^ (h >>> 16)) & (RECENT_SLOTS - 1)
-}
-
-function mix(h: number, x: number): number {
-  return Math.imul(h ^ ((x * 1024) | 0), 0x9e3779b1)
-}
-
-function isSameInput(e: RecentEntry, input: SampleTensorInput): boolean {
-  const n = input.normal
-  const r = input.reference
-  return e.pointGroup === input.pointGroup && e.order === input.order && e.azimuthDeg === (input.azimuthDeg ?? 0)
-    && e.surface === !!input.surface && e.symmetry === (input.symmetry ?? 'intrinsic')
-    && e.normal[0] === n[0] && e.normal[1] === n[1] && e.normal[2] === n[2]
-    && e.reference[0] === r[0] && e.reference[1] === r[1] && e.reference[2] === r[2]
-}
-
-/** A private copy of the identifying fields (a caller may change its arrays afterwards). */
-function recentEntry(input: SampleTensorInput, sample: SampleTensor): RecentEntry {
-  const n = input.normal
-  const r = input.reference
+/** The lab-frame χ(N) of a sample, the caller's own copy. Throws EngineError for bad group, order or vectors. */
+export function prepareSampleTensor(input: SampleTensorInput): SampleTensor {
+  const s = sampleEntry(input).sample
   return {
-    pointGroup: input.pointGroup, normal: [n[0], n[1], n[2]], reference: [r[0], r[1], r[2]], azimuthDeg: input.azimuthDeg ?? 0,
-    order: input.order, surface: !!input.surface, symmetry: input.symmetry ?? 'intrinsic', sample,
+    ...s, form: { ...s.form, space: { ...s.form.space, parameterOf: s.form.space.parameterOf.slice() }, tensors: s.form.tensors.map((t) => t.slice()) },
+    tensors: s.tensors.map((t) => t.slice()),
   }
 }
 
-/** Parity of the sample tensor under the vertical mirror at ψ degrees (lab frame), memoised. */
+/** The derivation steps that depend only on the sample, made once per cached sample. */
+export function sampleNotes(entry: SampleEntry, cut: { normal: Vec3; reference: Vec3; azimuthDeg: number }): readonly string[] {
+  return (entry.notes ??= Object.freeze(explainSample(entry.sample, cut)))
+}
+
+/** Parity of the sample tensor under the vertical mirror at ψ degrees (lab frame). */
 export function sampleParity(sample: SampleTensor, psiDeg: number): Parity {
-  return sampleParityAt(sample, normalizeMirror(psiDeg))
+  return computeMirrorParity(sample.tensors, sample.rank, normalizeMirror(psiDeg))
 }
 
-/** {@link sampleParity} for an azimuth already reduced by `normalizeMirror`. */
-export function sampleParityAt(sample: SampleTensor, psi: number): Parity {
-  let p = sample.parities.get(psi)
-  if (p === undefined) {
-    p = computeMirrorParity(sample.tensors, sample.rank, psi)
-    sample.parities.set(psi, p)
-  }
-  return p
+/** {@link sampleParity} of a cached sample for an azimuth already reduced by `normalizeMirror`, kept with the entry. */
+export function entryParity(entry: SampleEntry, psi: number): Parity {
+  const hit = entry.parities.get(psi)
+  return hit !== undefined ? hit : entry.parities.set(psi, computeMirrorParity(entry.sample.tensors, entry.sample.rank, psi))
 }
 
 /** Empty the sample-tensor cache (benchmarks measure cold evaluations with it). */
 export function clearSampleTensorCache(): void {
-  cache.clear()
-  recent.fill(undefined)
+  samples.clear()
 }

@@ -11,6 +11,7 @@ import type { ParameterSpace, PermutationSymmetry } from './tensor-space'
 import { expandParameters, parameterSpace, transformTensor } from './tensor-space'
 import { getPointGroup } from './point-groups'
 import { EngineError } from './errors'
+import { BoundedCache } from './bounded-cache'
 
 /** Lowest supported nonlinear order N (χ(2), rank 3). */
 export const MIN_ORDER = 2
@@ -83,7 +84,12 @@ export function solveInvariantSubspace(
   space.orbits.forEach((o, p) => {
     if (clean.some((v) => v[p] !== 0)) nonZeroCount += o.length
   })
-  return { rank, symmetry, space, basis: clean, tensors, pivots, independentCount: clean.length, nonZeroCount }
+  return { rank, symmetry, space: copySpace(space), basis: clean, tensors, pivots, independentCount: clean.length, nonZeroCount }
+}
+
+/** A caller's own copy of a parameter space (its index table is a typed array, which cannot be frozen). */
+function copySpace(space: ParameterSpace): ParameterSpace {
+  return { ...space, parameterOf: space.parameterOf.slice() }
 }
 
 /** Snap round-off: values within 1e-10 of an integer or of ±1/2 multiples become exact. */
@@ -93,25 +99,37 @@ function snap(v: number): number {
   return Math.abs(2 * v - twice) < 1e-10 ? twice / 2 : v
 }
 
-const formCache = new Map<string, TensorForm>()
+/** Solved forms per (group, order, symmetry): at most 34 groups × 4 orders × 3 modes are ever asked for. */
+const formCache = new BoundedCache<string, TensorForm>(512)
 
 /**
  * The χ(N) form of a point group (32 classes in standard settings, or the limiting groups `∞m`,
- * `∞∞m`), solved from the generators; cached per (group, order, symmetry).
+ * `∞∞m`), solved from the generators; cached per (group, order, symmetry). Each call answers the
+ * caller's own copy.
  * @param pointGroup Hermann–Mauguin symbol (crystal frame, IEEE Std 176 settings).
  * @param order N = 2…5.
  */
 export function solveTensorForm(pointGroup: string, order: number, options: TensorFormOptions = {}): TensorForm {
+  const form = cachedTensorForm(pointGroup, order, options)
+  return { ...form, space: copySpace(form.space), tensors: form.tensors.map((t) => t.slice()) }
+}
+
+/**
+ * {@link solveTensorForm} as kept in the cache, shared by every caller inside the engine: frozen,
+ * except the typed arrays (`tensors`, `space.parameterOf`), which engine code only reads.
+ */
+export function cachedTensorForm(pointGroup: string, order: number, options: TensorFormOptions = {}): TensorForm {
   assertOrder(order)
   const symmetry = options.symmetry ?? 'intrinsic'
   const group = getPointGroup(pointGroup)
-  const key = `${group.symbol}|${order}|${symmetry}`
-  let form = formCache.get(key)
-  if (!form) {
-    form = { pointGroup: group.symbol, order, ...solveInvariantSubspace(group.generators, order + 1, symmetry) }
-    formCache.set(key, form)
-  }
-  return form
+  return formCache.getOrSet(`${group.symbol}|${order}|${symmetry}`, () => {
+    const solved = solveInvariantSubspace(group.generators, order + 1, symmetry)
+    return Object.freeze({
+      pointGroup: group.symbol, order, ...solved,
+      space: Object.freeze(solved.space), basis: Object.freeze(solved.basis.map((row) => Object.freeze(row))),
+      tensors: Object.freeze(solved.tensors), pivots: Object.freeze(solved.pivots),
+    })
+  })
 }
 
 /** Empty the tensor-form cache (benchmarks measure cold solves with it). */

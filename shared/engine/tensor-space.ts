@@ -4,6 +4,7 @@
  * symmetry on them. Frame: whatever frame the tensor is expressed in.
  */
 import type { Mat3 } from './linalg'
+import { BoundedCache } from './bounded-cache'
 
 /** Index permutation symmetry imposed on χ(N) (rank N+1) before the point group is applied.
  * - `intrinsic`: symmetric in the last N indices (degenerate-frequency intrinsic permutation);
@@ -83,7 +84,8 @@ function orderKey(digits: number[]): number {
   return digits.reduce((f, d) => 3 * f + d, 0)
 }
 
-const spaceCache = new Map<string, ParameterSpace>()
+/** Per (rank, symmetry): a handful of entries (ranks 3–6, three modes). Orbits and labels are frozen; `parameterOf` never leaves the engine uncopied. */
+const spaceCache = new BoundedCache<string, ParameterSpace>(64)
 
 /** Parameter space of a rank-`rank` tensor under the given permutation symmetry (cached). */
 export function parameterSpace(rank: number, symmetry: PermutationSymmetry): ParameterSpace {
@@ -105,9 +107,8 @@ export function parameterSpace(rank: number, symmetry: PermutationSymmetry): Par
     const best = [...o].sort((a, b) => orderKey(indexDigits(a, rank)) - orderKey(indexDigits(b, rank)) || a - b)[0]
     return indexLabel(best, rank)
   })
-  const space: ParameterSpace = { rank, symmetry, orbits, labels, parameterOf }
-  spaceCache.set(cacheKey, space)
-  return space
+  const space: ParameterSpace = Object.freeze({ rank, symmetry, orbits: Object.freeze(orbits.map((o) => Object.freeze(o))), labels: Object.freeze(labels), parameterOf })
+  return spaceCache.set(cacheKey, space)
 }
 
 /** Full tensor of a parameter vector. */

@@ -8,6 +8,7 @@ import { createDb } from '../../server/db/client'
 import { createApp } from '../../server/app'
 import { loadEnv } from '../../server/env'
 import type { AppContext } from '../../server/context'
+import { silentLogger } from '../../server/logger'
 import { DEMO_PASSWORD } from '../../server/db/seed/people'
 import { freePort, migrateAndSeed, startPrivateDb, type PrivateDb } from './private-db'
 import { listRoutes } from '../server/route-list'
@@ -47,7 +48,7 @@ describe('MariaDB restart while the app runs', () => {
   it('reports unhealthy while the database is down, reconnects, and the old session still works', async () => {
     const env = loadEnv({ ...process.env, DATABASE_URL: url, DATA_DIR: path.join(pdb.dir, 'data'), SESSION_SECRET: 'faults-secret-faults-secret', LOG_LEVEL: 'silent' })
     const { pool, db } = createDb(url, 5)
-    const ctx: AppContext = { db, pool, env, log: () => {}, publicUrl: ORIGIN, mailUp: async () => true, startedAt: Date.now() }
+    const ctx: AppContext = { db, pool, env, log: silentLogger(), publicUrl: ORIGIN, mailUp: async () => true, startedAt: Date.now() }
     const { app, close } = createApp(ctx)
     try {
       const agent = request.agent(app)
@@ -79,7 +80,7 @@ describe('database down or frozen', () => {
   async function appOnPrivateDb() {
     const env = loadEnv({ ...process.env, DATABASE_URL: url, DATA_DIR: path.join(pdb.dir, 'data'), SESSION_SECRET: 'faults-secret-faults-secret', LOG_LEVEL: 'silent' })
     const { pool, db } = createDb(url, 5)
-    const ctx: AppContext = { db, pool, env, log: () => {}, publicUrl: ORIGIN, mailUp: async () => true, startedAt: Date.now() }
+    const ctx: AppContext = { db, pool, env, log: silentLogger(), publicUrl: ORIGIN, mailUp: async () => true, startedAt: Date.now() }
     const { app, close } = createApp(ctx)
     return { app, stop: async () => { await close().catch(() => {}); await pool.end().catch(() => {}) } }
   }

@@ -7,6 +7,7 @@ import { createDb } from '../../server/db/client'
 import { createApp } from '../../server/app'
 import { loadEnv } from '../../server/env'
 import type { AppContext } from '../../server/context'
+import { silentLogger } from '../../server/logger'
 import { DEMO_PASSWORD } from '../../server/db/seed/people'
 import { migrateAndSeed, startPrivateDb, type PrivateDb } from './private-db'
 import { listRoutes } from '../server/route-list'
@@ -21,8 +22,8 @@ import { listRoutes } from '../server/route-list'
  */
 const RUNS = Number(process.env.JUNK_RUNS ?? 10)
 const SEED = 20240607
-/** Not under /api: the client's history fallback (answers index.html or a text 503), not an API route. */
-const NOT_API = new Set(['GET /{*splat}'])
+/** Routes outside /api (none: the client's files and pages are one middleware, server/middleware/client-files.ts). */
+const NOT_API = new Set<string>([])
 
 const junkText = fc.oneof(
   fc.string({ maxLength: 40 }), fc.constantFrom('../../etc/passwd', '..%2F..%2F', '0', '-1', '1e309', '99999999999999999999', 'NaN', 'null', '<script>', "' OR 1=1 --", '%00', 'Ａ-０００１', '😀'.repeat(30)),
@@ -56,7 +57,7 @@ beforeAll(async () => {
   await migrateAndSeed(url)
   const env = loadEnv({ ...process.env, DATABASE_URL: url, DATA_DIR: `${pdb.dir}/data`, SESSION_SECRET: 'junk-secret-junk-secret', LOG_LEVEL: 'silent', LOGIN_MAX_FAILURES: '1000' })
   const { pool, db } = createDb(url, 5)
-  const ctx: AppContext = { db, pool, env, log: () => {}, publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
+  const ctx: AppContext = { db, pool, env, log: silentLogger(), publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
   const { app, close } = createApp(ctx)
   t = { app, ctx, close: async () => { await close(); await pool.end() } }
   // sessions and sign-in throttle counters change on refusals by design (a failed sign-in counts)

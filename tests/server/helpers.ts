@@ -6,6 +6,7 @@ import { loadEnv } from '../../server/env'
 import { startMailSink } from '../../server/services/mail-sink'
 import { MailWorker } from '../../server/services/mail'
 import type { AppContext } from '../../server/context'
+import { silentLogger } from '../../server/logger'
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../../server/db/seed/people'
 import type { Role } from '../../shared/roles'
 
@@ -17,9 +18,10 @@ import type { Role } from '../../shared/roles'
 export async function startTestApp(envOverrides: Record<string, string> = {}) {
   const env = loadEnv({ ...process.env, SESSION_SECRET: 'test-secret-test-secret', LOG_LEVEL: 'silent', LOGIN_MAX_FAILURES: '5', ...envOverrides })
   const { pool, db } = createDb(env.DATABASE_URL, 5)
-  const sink = await startMailSink(db, 0, () => {})
-  const worker = new MailWorker(db, `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`, env.MAIL_FROM, () => {})
-  const ctx: AppContext = { db, pool, env, log: () => {}, publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
+  const log = silentLogger()
+  const sink = await startMailSink(db, 0, log)
+  const worker = new MailWorker(db, `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`, env.MAIL_FROM, log)
+  const ctx: AppContext = { db, pool, env, log, publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
   const { app, close } = createApp(ctx)
   return {
     app, db, pool, worker, ctx,

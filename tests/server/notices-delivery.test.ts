@@ -34,7 +34,7 @@ async function tickUntil(worker: MailWorker, ids: number[], done: (m: typeof mai
 describe('mail server down', () => {
   it('a hand-off move and an invitation still succeed; the mail waits with its error and goes out when the server is back', async () => {
     const port = await closedPort()
-    const down = new MailWorker(t.db, `smtp://127.0.0.1:${port}?ignoreTLS=true&connectionTimeout=2000`, t.ctx.env.MAIL_FROM, () => {})
+    const down = new MailWorker(t.db, `smtp://127.0.0.1:${port}?ignoreTLS=true&connectionTimeout=2000`, t.ctx.env.MAIL_FROM, t.ctx.log)
     const fab = await signedInAs(t.app, 'fab_technician')
     const admin = await signedInAs(t.app, 'admin')
     const receiver = await makePerson(t.db, ['optics_staff'])
@@ -62,8 +62,8 @@ describe('mail server down', () => {
     await down.stop()
 
     // The mail server comes back on the same port and the back-off delay has passed.
-    const sink = await startMailSink(t.db, port, () => {})
-    const back = new MailWorker(t.db, `smtp://127.0.0.1:${port}?ignoreTLS=true`, t.ctx.env.MAIL_FROM, () => {})
+    const sink = await startMailSink(t.db, port, t.ctx.log)
+    const back = new MailWorker(t.db, `smtp://127.0.0.1:${port}?ignoreTLS=true`, t.ctx.env.MAIL_FROM, t.ctx.log)
     try {
       await t.db.update(mailQueue).set({ nextAttemptAt: new Date(Date.now() - 1000) }).where(inArray(mailQueue.id, ids))
       await tickUntil(back, ids, (m) => m.status === 'sent')

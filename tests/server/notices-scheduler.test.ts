@@ -5,15 +5,18 @@ import { startTestApp, demoEmail, signedInAs } from './helpers'
 import { makeLaserSetup, makeSample } from './fixtures-measurements'
 import { makePerson, mailTo, retirePeople } from './notices-helpers'
 import { NoticeScheduler, isoWeek, digestTimeOfWeek } from '../../server/services/notice-scheduler'
+import { createLogger } from '../../server/logger'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 let scheduler: NoticeScheduler
 const made: number[] = []
+/** The JSON lines the scheduler logs (level error and up). */
 const logged: string[] = []
+const log = createLogger('error', { write: (line: string) => { logged.push(line) } })
 const DAY = 24 * 3600 * 1000
 beforeAll(async () => {
   t = await startTestApp()
-  scheduler = new NoticeScheduler(t.db, (m) => logged.push(m))
+  scheduler = new NoticeScheduler(t.db, log)
 })
 afterAll(async () => { await retirePeople(t.db, made); await t.stop() })
 
@@ -122,8 +125,9 @@ describe('weekly digest', () => {
   })
 
   it('a failing pass is logged and never throws', async () => {
-    const broken = new NoticeScheduler({ select: () => { throw new Error('database gone') }, transaction: () => { throw new Error('database gone') } } as never, (msg) => logged.push(msg))
+    const broken = new NoticeScheduler({ select: () => { throw new Error('database gone') }, transaction: () => { throw new Error('database gone') } } as never, log)
     await expect(broken.runOnce(new Date())).resolves.toBeTruthy()
-    expect(logged.some((l) => l.includes('database gone'))).toBe(true)
+    const lines = logged.map((l) => JSON.parse(l) as { level: number; msg: string; err?: { message: string } })
+    expect(lines.some((l) => l.level === 50 && l.err?.message === 'database gone' && /notices/.test(l.msg))).toBe(true)
   })
 })

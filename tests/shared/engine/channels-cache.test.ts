@@ -1,22 +1,18 @@
 import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
-import { computeChannels, evaluateChannels, parseChannelRequest, findAllowedHarmonics, sumProjections } from '../../../shared/engine'
+import {
+  clearEngineCaches, computeChannels, evaluateChannels, parseChannelRequest, findAllowedHarmonics, sumProjections,
+  getPointGroup, solveTensorForm, prepareSampleTensor,
+} from '../../../shared/engine'
 import type { ChannelResponse } from '../../../shared/engine'
-import { clearSampleTensorCache } from '../../../shared/engine/sample-tensor'
-import { clearTensorFormCache } from '../../../shared/engine/tensor-forms'
-import { clearChannelMemos } from '../../../shared/engine/channels'
-import { clearPointGroupSpellings } from '../../../shared/engine/point-groups'
 import { BoundedCache } from '../../../shared/engine/bounded-cache'
 
 // Caching must never change an answer: every response computed with all engine caches and memos
 // emptied first (cold) must equal, field for field and in field order, the one served from warm caches.
 
-/** Empty every cache and memo of the channel path; the solved forms too unless `keepForms`. */
+/** Empty every cache of the engine; the solved forms too unless `keepForms`. */
 function clearAll(keepForms = false): void {
-  if (!keepForms) clearTensorFormCache()
-  clearSampleTensorCache()
-  clearChannelMemos()
-  clearPointGroupSpellings()
+  clearEngineCaches({ keepForms })
 }
 
 const CUTS = [
@@ -193,5 +189,44 @@ describe('BoundedCache', () => {
     expect([c.get('b'), c.get('c'), c.get('d')]).toEqual([1, 2, 3])
     c.set('b', 9) // replacing a key evicts nothing
     expect([c.size, c.get('c'), c.get('b')]).toEqual([3, 2, 9])
+  })
+
+  it('keeps an entry that is read while others come and go, and never holds more than `limit`', () => {
+    const c = new BoundedCache<number, number>(10)
+    c.set(-1, -1)
+    for (let i = 0; i < 1000; i++) {
+      c.set(i, i)
+      expect(c.get(-1)).toBe(-1) // in use: survives every turn-over
+      expect(c.size).toBeLessThanOrEqual(10)
+    }
+    expect(c.get(0)).toBeUndefined() // not read again: dropped
+    expect(c.get(999)).toBe(999)
+  })
+})
+
+describe('what the engine hands out is the caller\'s own', () => {
+  it('point groups are frozen', () => {
+    const g = getPointGroup('-43m')
+    expect(Object.isFrozen(g) && Object.isFrozen(g.elements) && Object.isFrozen(g.elements[0])).toBe(true)
+    expect(() => { (g.elements[1] as number[])[0] = 5 }).toThrow(TypeError)
+    expect(getPointGroup('Td').elements[1]).toEqual(getPointGroup('-43m').elements[1])
+  })
+
+  it('changing a solved form or a sample tensor changes neither later answers nor the channels', () => {
+    clearAll()
+    const req = { crystal: CUTS[0], pump: PUMPS[2], structure: STRUCTURES[0], order: 2 }
+    const before = text(computeChannels(req))
+    const form = solveTensorForm('-43m', 2)
+    const original = form.tensors[0].slice()
+    form.tensors[0].fill(7)
+    form.space.parameterOf.fill(0)
+    expect(solveTensorForm('-43m', 2).tensors[0]).toEqual(original)
+    const input = { pointGroup: CUTS[0].pointGroup, normal: CUTS[0].normal as [number, number, number], reference: CUTS[0].reference as [number, number, number], order: 2 }
+    const sample = prepareSampleTensor(input)
+    const rotated = sample.tensors[0].slice()
+    sample.tensors[0].fill(3)
+    expect(prepareSampleTensor(input).tensors[0]).toEqual(rotated)
+    expect(() => { (sample.content.q as number[]).push(9) }).toThrow(TypeError)
+    expect(text(computeChannels(req))).toBe(before)
   })
 })
