@@ -47,7 +47,7 @@ for (const size of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800, hei
     await expect(page.getByRole('alert').filter({ hasText: 'problem(s) found' })).toBeVisible()
     await expect(page.locator('[data-test="import-button"]')).toBeDisabled()
     await screen(page, `excel-import-dry-run-${size.tag}`)
-    await page.getByText('Errors only').click()
+    await page.getByText('Errors and conflicts only').click()
     await expect(page.locator('tbody tr[data-status]')).toHaveCount(1)
     await screen(page, `excel-import-errors-only-${size.tag}`)
   })

@@ -2,7 +2,8 @@ import ExcelJS from 'exceljs'
 import { fieldError } from '../errors'
 import { ZIP_LIMITS, ZipRefusal, checkZip } from './zip-guard'
 import { IMPORT_SHEETS, type ImportMessage, type ImportSheetName } from '../../shared/excel'
-import { EXPORT_ONLY, IMPORT_COLUMNS, matchesColumn, normHeader, type ColumnSpec } from './excel-columns'
+import { EXPORT_ONLY, IMPORT_COLUMNS, dimensionColumn, dimensionKey, matchesColumn, normHeader, type ColumnSpec } from './excel-columns'
+import { unguardText } from './excel-style'
 
 /**
  * Reading an uploaded workbook: check it IS an .xlsx (ZIP magic bytes, then exceljs must load it),
@@ -31,8 +32,13 @@ export interface ReadRow {
   messages: ImportMessage[]
   /** First cell is EXAMPLE (template example) or the row marks a retired record. */
   skip: string | null
+  skipKind?: 'example' | 'retired'
 }
-export interface ReadSheet { name: ImportSheetName; isPresent: boolean; messages: ImportMessage[]; rows: ReadRow[] }
+export interface ReadSheet {
+  name: ImportSheetName; isPresent: boolean; messages: ImportMessage[]; rows: ReadRow[]
+  /** Keys of the columns the sheet has (a record updated from a sheet without a column keeps that field). */
+  columns: Set<string>
+}
 
 /** Load the workbook, or a 400 on `file` when the bytes are not an .xlsx. */
 export async function loadWorkbook(buf: Buffer | undefined, limits: Partial<ImportLimits> = {}): Promise<ExcelJS.Workbook> {
@@ -66,7 +72,7 @@ type Plain = string | number | boolean | Date | null
 /** The plain value of a cell: formulas by their saved result, rich text and links as text. */
 function plainValue(v: ExcelJS.CellValue): { value: Plain; error?: string } {
   if (v === null || v === undefined) return { value: null }
-  if (typeof v === 'string') return { value: v.trim() === '' ? null : v.trim() }
+  if (typeof v === 'string') { const t = unguardText(v).trim(); return { value: t === '' ? null : t } }
   // A number in a date-formatted cell that no calendar date matches (e.g. 1E+20) reads as an invalid Date.
   if (v instanceof Date) return Number.isNaN(v.getTime()) ? { value: null, error: 'the cell is formatted as a date but its number is not a date Excel can show' } : { value: v }
   if (typeof v === 'number' || typeof v === 'boolean') return { value: v }
@@ -131,7 +137,7 @@ const err = (column: string | null, message: string): ImportMessage => ({ column
 
 /** Read one sheet: header mapping (missing/unknown columns once per sheet), then every non-empty row. */
 function readSheet(name: ImportSheetName, ws: ExcelJS.Worksheet | undefined, maxRows: number): ReadSheet {
-  const out: ReadSheet = { name, isPresent: !!ws, messages: [], rows: [] }
+  const out: ReadSheet = { name, isPresent: !!ws, messages: [], rows: [], columns: new Set() }
   if (!ws) return out
   const specs = IMPORT_COLUMNS[name]
   const byCol = new Map<number, ColumnSpec>()
@@ -140,12 +146,14 @@ function readSheet(name: ImportSheetName, ws: ExcelJS.Worksheet | undefined, max
   ws.getRow(1).eachCell((cell, col) => {
     const header = String(plainValue(cell.value).value ?? '').trim()
     if (!header) return
-    const spec = specs.find((s) => matchesColumn(s, header))
+    const dim = name === 'Arrays' && !specs.some((s) => matchesColumn(s, header)) ? dimensionKey(header) : null
+    const spec = dim ? ([...byCol.values()].find((s) => s.key === `dim:${dim}`) ?? dimensionColumn(dim)) : specs.find((s) => matchesColumn(s, header))
     if (spec && [...byCol.values()].includes(spec)) out.messages.push(err(header, `The column ${spec.header} appears twice`))
     else if (spec) byCol.set(col, spec)
     else if (normHeader(header) === 'retired(utc)') retiredCol = col
     else if (!EXPORT_ONLY[name].test(normHeader(header))) unknown.push(header)
   })
+  for (const spec of byCol.values()) out.columns.add(spec.key)
   if (unknown.length) out.messages.push({ column: null, message: `Unknown column(s) ignored: ${listOf(unknown)}`, level: 'warning' })
   const missing = specs.filter((s) => s.isRequired && ![...byCol.values()].includes(s))
   for (const s of missing) out.messages.push(err(s.header, `The required column ${s.header} is missing`))
@@ -175,9 +183,13 @@ function readSheet(name: ImportSheetName, ws: ExcelJS.Worksheet | undefined, max
       if (spec.isRequired && r.values[spec.key] == null && !r.messages.some((m) => m.column === spec.header)) r.messages.push(err(spec.header, `${spec.header} is required`))
     }
     const first = plainValue(row.getCell(1).value).value
-    if (typeof first === 'string' && first.toUpperCase() === 'EXAMPLE') r.skip = 'Example row (first cell EXAMPLE): skipped'
-    else if (r.values.status === 'retired') r.skip = 'Retired record: not imported'
-    else if (retiredCol && plainValue(row.getCell(retiredCol).value).value !== null) r.skip = 'Retired array: not imported'
+    if (typeof first === 'string' && first.toUpperCase() === 'EXAMPLE') {
+      // The template's example rows: skipped, and not checked (their messages would only confuse).
+      r.skip = 'Example row (first cell EXAMPLE): skipped'
+      r.skipKind = 'example'
+      r.messages = []
+    } else if (r.values.status === 'retired') { r.skip = 'Retired record: not imported'; r.skipKind = 'retired' }
+    else if (retiredCol && plainValue(row.getCell(retiredCol).value).value !== null) { r.skip = 'Retired array: not imported'; r.skipKind = 'retired' }
     out.rows.push(r)
   })
   return out

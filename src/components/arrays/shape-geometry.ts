@@ -62,19 +62,5 @@ export function shapeOutline(shape: string, d: Record<string, number> = {}): Sha
   return out
 }
 
-/** The named dimensions (nm) each shape asks for in the array form. */
-export const SHAPE_DIMENSIONS: Record<string, { key: string; label: string }[]> = {
-  disk: [{ key: 'diameterNm', label: 'Diameter' }],
-  ring: [{ key: 'innerDiameterNm', label: 'Inner diameter' }, { key: 'outerDiameterNm', label: 'Outer diameter' }],
-  ellipse: [{ key: 'lengthNm', label: 'Long axis (x)' }, { key: 'widthNm', label: 'Short axis (y)' }],
-  rectangle: [{ key: 'lengthNm', label: 'Length (x)' }, { key: 'widthNm', label: 'Width (y)' }],
-  square: [{ key: 'sideNm', label: 'Side' }],
-  triangle: [{ key: 'sideNm', label: 'Side' }],
-  hexagon: [{ key: 'sideNm', label: 'Side' }],
-  cross: [{ key: 'armLengthNm', label: 'Arm length' }, { key: 'armWidthNm', label: 'Arm width' }],
-  'l-shape': [{ key: 'armLengthNm', label: 'Arm length' }, { key: 'armWidthNm', label: 'Arm width' }],
-  'split-ring': [{ key: 'sideNm', label: 'Outer side' }, { key: 'widthNm', label: 'Line width' }, { key: 'gapNm', label: 'Gap' }],
-  gammadion: [{ key: 'armLengthNm', label: 'Arm length' }, { key: 'armWidthNm', label: 'Arm width' }],
-  dimer: [{ key: 'diameterNm', label: 'Disk diameter' }, { key: 'gapNm', label: 'Gap' }],
-  custom: [{ key: 'sizeNm', label: 'Overall size' }],
-}
+/** The named dimensions (nm) each shape asks for in the array form (shared with the Excel template and export). */
+export { SHAPE_DIMENSIONS } from '../../../shared/schemas/records'
