@@ -70,7 +70,7 @@ export async function importWorkbook(
   db: Db, actor: User, file: { buffer: Buffer; originalName: string } | undefined, dryRun: boolean, limits: Partial<ImportLimits> = {}, opts: ImportOptions = {},
 ): Promise<ImportReport> {
   const book = await loadWorkbook(file?.buffer, limits)
-  const { sheets, fileMessages } = readImportSheets(book, limits)
+  const { sheets, fileMessages } = await readImportSheets(book, limits)
   const plan = await checkImport(db, sheets)
   const fileSha = createHash('sha256').update(file!.buffer).digest('hex')
   const report = summarise(file!.originalName, fileSha, dryRun, sheets, fileMessages, plan)
