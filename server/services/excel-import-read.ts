@@ -228,7 +228,7 @@ export async function readImportSheets(book: LoadedWorkbook, limits: Partial<Imp
   const read = new Map<ImportSheetName, ReadSheet>()
   const all: { name: string; isHidden: boolean; isRead: boolean }[] = []
   try {
-    const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([orderedPackage(book.buffer)]), { sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'ignore' })
+    const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from(orderedPackage(book.buffer)), { sharedStrings: 'cache', styles: 'cache', hyperlinks: 'ignore', worksheets: 'emit', entries: 'ignore' })
     for await (const ws of reader) {
       const sheet = ws as unknown as AsyncIterable<ExcelJS.Row> & { name: string; state?: string }
       const isHidden = sheet.state === 'hidden' || sheet.state === 'veryHidden'

@@ -38,13 +38,17 @@ function summaryOf(rows: ImportRowReport[]): { summary: ImportSummary; skipped: 
 }
 
 /** Fingerprint of the plan: the file's bytes and every row's outcome (not the preview codes of new records). */
-function planHashOf(fileSha: string, rows: ImportRowReport[]): string {
+async function planHashOf(fileSha: string, rows: ImportRowReport[]): Promise<string> {
   const h = createHash('sha256').update(fileSha)
-  for (const r of rows) h.update(JSON.stringify([r.sheet, r.row, r.status, r.status === 'create' ? null : r.code, r.changes, r.versions ?? null]))
+  for (let i = 0; i < rows.length; i++) {
+    const r = rows[i]
+    h.update(JSON.stringify([r.sheet, r.row, r.status, r.status === 'create' ? null : r.code, r.changes, r.versions ?? null]))
+    if (i % 5000 === 4999) await new Promise<void>((resolve) => setImmediate(resolve)) // other requests get a turn
+  }
   return h.digest('hex')
 }
 
-function summarise(fileName: string, fileSha: string, dryRun: boolean, sheets: ReadSheet[], fileMessages: ImportReport['fileMessages'], plan: ImportPlan): ImportReport {
+async function summarise(fileName: string, fileSha: string, dryRun: boolean, sheets: ReadSheet[], fileMessages: ImportReport['fileMessages'], plan: ImportPlan): Promise<ImportReport> {
   const sheetReports: ImportSheetReport[] = sheets.map((s) => {
     const rows = plan.reports.filter((r) => r.sheet === s.name)
     return { name: s.name, isPresent: s.isPresent, rows: rows.length, messages: s.messages, ...summaryOf(rows) }
@@ -54,7 +58,7 @@ function summarise(fileName: string, fileSha: string, dryRun: boolean, sheets: R
   const errorCount = fileMessages.filter((m) => m.level === 'error').length + sheetErrors + summary.error
   return {
     dryRun, fileName, fileMessages, sheets: sheetReports, rows: plan.reports, summary, errorCount,
-    planHash: planHashOf(fileSha, plan.reports), imported: false, created: null, updated: null,
+    planHash: await planHashOf(fileSha, plan.reports), imported: false, created: null, updated: null,
   }
 }
 
@@ -73,7 +77,7 @@ export async function importWorkbook(
   const { sheets, fileMessages } = await readImportSheets(book, limits)
   const plan = await checkImport(db, sheets)
   const fileSha = createHash('sha256').update(file!.buffer).digest('hex')
-  const report = summarise(file!.originalName, fileSha, dryRun, sheets, fileMessages, plan)
+  const report = await summarise(file!.originalName, fileSha, dryRun, sheets, fileMessages, plan)
   if (dryRun || report.errorCount > 0 || report.summary.conflict > 0) return report
   if (opts.planHash && opts.planHash !== report.planHash) {
     throw new ConflictError('Nothing was imported: the file or the records in Overtone changed since the dry run. Check the file again, then import what that check shows.')
