@@ -46,6 +46,8 @@ for (const size of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800, hei
     await expect(page.locator('tr[data-status="create"]')).toHaveCount(3)
     await expect(page.getByRole('alert').filter({ hasText: 'problem(s) found' })).toBeVisible()
     await expect(page.locator('[data-test="import-button"]')).toBeDisabled()
+    await expect(page.locator('[data-test="import-button"]')).toContainText('Import (fix the file first)')
+    await expect(page.locator('[data-test="sheet-Wafers"]')).toContainText('1 to create')
     await screen(page, `excel-import-dry-run-${size.tag}`)
     await page.getByText('Errors and conflicts only').click()
     await expect(page.locator('tbody tr[data-status]')).toHaveCount(1)
