@@ -3,7 +3,7 @@
  */
 
 /** Where an export job is: counting rows, writing one sheet, done (file ready) or failed. */
-export const EXPORT_PHASES = ['queued', 'counting', 'About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'done', 'failed'] as const
+export const EXPORT_PHASES = ['queued', 'counting', 'About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'Fabrication', 'Laser setups', 'Moves', 'Files', 'done', 'failed'] as const
 export type ExportPhase = (typeof EXPORT_PHASES)[number]
 
 export interface ExportJob {

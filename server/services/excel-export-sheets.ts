@@ -1,7 +1,7 @@
 import { asc, eq, getTableColumns, gt, inArray, sql } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/mysql-core'
 import type ExcelJS from 'exceljs'
-import { arrays, chips, laserSetups, locations, materials, measurementSessions as ms, sessionResults, users, wafers } from '../db/schema/index'
+import { arrays, chips, fabSteps, files, laserSetups, locations, materials, measurementSessions as ms, moves, sessionResults, users, wafers } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { StoredChannel } from '../../shared/records'
 import { ENGINE_VERSION, type PumpSpec } from '../../shared/engine'
@@ -12,6 +12,7 @@ import { loadChannelSets } from './channel-sets'
 import { cutLabel } from './wafers'
 import { locationRefs } from './locations'
 import { loadArrayContexts, rememberingCompare } from './session-compare'
+import { withSignoffs } from './laser-setups'
 
 /**
  * The sheets of the inventory export. Each reads its table in keyset-paged batches (BATCH rows by
@@ -260,6 +261,83 @@ export async function writeLocations({ db, book, tick }: SheetContext) {
     for (const l of rows) {
       addSafeRow(ws, { ...l, parent: l.parentId ? refs.get(l.parentId)?.code : null, path: refs.get(l.id)?.path })
     }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+/*
+ * Read-only sheets (the importer does not read them): fabrication steps, laser setups with their
+ * register fields and sign-off state, moves, and the metadata of uploaded files.
+ */
+export async function writeFabSteps({ db, book, tick }: SheetContext) {
+  const ws = addStyledSheet(book, 'Fabrication', [
+    { header: 'Chip', key: 'chip', width: 14 }, { header: 'Step', key: 'kind', width: 12 }, { header: 'Parameters', key: 'params', width: 50 },
+    { header: 'Operator', key: 'operator', width: 18 }, utc('Performed', 'performedAt'), { header: 'Notes', key: 'notes', width: 30 }, utc('Recorded', 'createdAt'),
+  ])
+  await eachBatch(ws, (after) => db.select({ f: fabSteps, chip: chips.code, operator: users.name }).from(fabSteps).innerJoin(chips, eq(chips.id, fabSteps.chipId))
+    .innerJoin(users, eq(users.id, fabSteps.operatorId)).where(gt(fabSteps.id, after)).orderBy(asc(fabSteps.id)).limit(BATCH), (r) => r.f.id, (rows) => {
+    for (const { f, chip, operator } of rows) {
+      addSafeRow(ws, { chip, kind: f.kind.replace('_', '-'), params: Object.entries(f.params).map(([k, v]) => `${k}=${v}`).join('; '), operator, performedAt: f.performedAt, notes: f.notes, createdAt: f.createdAt })
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+const SIGNOFF_TEXT: Record<string, string> = { draft: 'draft (not submitted)', waiting: 'waiting for sign-off', approved: 'approved', expired: 'approval expired', rejected: 'rejected', revoked: 'revoked', voided: 'voided (hazard fields changed)' }
+
+export async function writeLaserSetups({ db, book, tick }: SheetContext) {
+  const ws = addStyledSheet(book, 'Laser setups', [
+    { header: 'Code', key: 'code', width: 10 }, { header: 'Name', key: 'name', width: 22 }, { header: 'Room', key: 'room', width: 10 }, { header: 'Source', key: 'sourceType', width: 12 },
+    { header: 'Wavelengths (nm)', key: 'wavelengths', width: 16 }, { header: 'Laser class', key: 'laserClass', width: 10 }, { header: 'Max average power (mW)', key: 'maxAvgPowerMw', width: 14 },
+    { header: 'Pulse duration (fs)', key: 'pulseDurationFs', width: 12 }, { header: 'Repetition rate (Hz)', key: 'repRateHz', width: 14 }, { header: 'Pulse energy (µJ)', key: 'pulseEnergyUj', width: 12 },
+    { header: 'Beam diameter (mm)', key: 'beamDiameterMm', width: 12 }, { header: 'Divergence (mrad)', key: 'divergenceMrad', width: 12 }, { header: 'Harmonic orders', key: 'harmonicOrders', width: 10 },
+    { header: 'Eyewear', key: 'eyewear', width: 40 }, { header: 'Interlocks', key: 'interlocks', width: 30 }, { header: 'Controlled area', key: 'controlledAreaNotes', width: 30 },
+    { header: 'Submitted by', key: 'submitter', width: 18 }, utc('Submitted', 'submittedAt'), { header: 'Sign-off', key: 'state', width: 20 }, { header: 'Sessions may be logged today', key: 'isValid', width: 12 },
+    { header: 'Decided by', key: 'by', width: 18 }, utc('Decided', 'at'), { header: 'Approval expires on', key: 'expiresOn', width: 13 }, { header: 'Decision note', key: 'note', width: 30 },
+    { header: 'Notes', key: 'notes', width: 30 }, utc('Retired', 'retiredAt'),
+  ])
+  await eachBatch(ws, (after) => db.select().from(laserSetups).where(gt(laserSetups.id, after)).orderBy(asc(laserSetups.id)).limit(BATCH), (r) => r.id, async (rows) => {
+    for (const l of await withSignoffs(db, rows)) {
+      const eyewear = l.eyewear.map((e) => [e.description, e.bandsNm && `${e.bandsNm} nm`, e.od !== null && `OD ${e.od}`, e.en207].filter(Boolean).join(', ')).join('; ')
+      addSafeRow(ws, {
+        ...l, wavelengths: l.wavelengthsNm.join(', '), harmonicOrders: l.harmonicOrders.join(', '), eyewear, submitter: l.submitter?.name ?? null,
+        submittedAt: l.submittedAt ? new Date(l.submittedAt) : null, state: SIGNOFF_TEXT[l.signoff.state] ?? l.signoff.state, isValid: l.signoff.isValid ? 'yes' : 'no',
+        by: l.signoff.by?.name ?? null, at: l.signoff.at ? new Date(l.signoff.at) : null, expiresOn: l.signoff.expiresOn, note: l.signoff.note,
+        retiredAt: l.retiredAt ? new Date(l.retiredAt) : null,
+      })
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+export async function writeMoves({ db, book, tick }: SheetContext) {
+  const refs = await locationRefs(db)
+  const handedTo = alias(users, 'handed_to')
+  const ws = addStyledSheet(book, 'Moves', [
+    { header: 'Item', key: 'itemKind', width: 9 }, { header: 'Code', key: 'itemCode', width: 14 }, { header: 'From', key: 'from', width: 30 }, { header: 'To', key: 'to', width: 30 },
+    { header: 'Handed to', key: 'handedTo', width: 18 }, { header: 'Moved by', key: 'movedBy', width: 18 }, utc('Moved', 'movedAt'), { header: 'Note', key: 'note', width: 30 },
+  ])
+  const place = (id: number | null) => (id ? (refs.get(id)?.path ?? refs.get(id)?.code ?? String(id)) : null)
+  await eachBatch(ws, (after) => db.select({ m: moves, by: users.name, to: handedTo.name }).from(moves).innerJoin(users, eq(users.id, moves.movedBy)).leftJoin(handedTo, eq(handedTo.id, moves.handedToId))
+    .where(gt(moves.id, after)).orderBy(asc(moves.id)).limit(BATCH), (r) => r.m.id, (rows) => {
+    for (const { m, by, to } of rows) addSafeRow(ws, { itemKind: m.itemKind, itemCode: m.itemCode, from: place(m.fromLocationId), to: place(m.toLocationId), handedTo: to, movedBy: by, movedAt: m.movedAt, note: m.note })
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+export async function writeFiles({ db, book, tick }: SheetContext) {
+  const ws = addStyledSheet(book, 'Files', [
+    { header: 'File name', key: 'originalName', width: 30 }, { header: 'Kind', key: 'kind', width: 10 }, { header: 'Type', key: 'mime', width: 18 }, { header: 'Size (bytes)', key: 'sizeBytes', width: 12 },
+    { header: 'SHA-256', key: 'sha256', width: 20 }, { header: 'Attached to', key: 'entity', width: 12 }, { header: 'Record id', key: 'entityId', width: 9 },
+    { header: 'Uploaded by', key: 'by', width: 18 }, utc('Uploaded', 'uploadedAt'), utc('Retired', 'retiredAt'),
+  ])
+  await eachBatch(ws, (after) => db.select({ f: files, by: users.name }).from(files).innerJoin(users, eq(users.id, files.uploadedBy))
+    .where(gt(files.id, after)).orderBy(asc(files.id)).limit(BATCH), (r) => r.f.id, (rows) => {
+    for (const { f, by } of rows) addSafeRow(ws, { ...f, by })
     tick(rows.length)
   })
   finish(ws)
