@@ -15,6 +15,7 @@ import { runEngineBench } from './engine'
 import type { BenchRow } from './engine'
 import { runApiBench } from './api'
 import { exportRows, type ExportFigures } from './export'
+import { importRows, type ImportFigures } from './import'
 import { runClientSizeBench } from './client-size'
 
 const env = process.env
@@ -68,6 +69,23 @@ async function main() {
       return exportRows(f, seed)
     })
   }
+  if (env.DATABASE_URL && !env.BENCH_ONLY) await add('Excel import (own process per figure)', () => {
+    // One child per figure so each peak RSS is its own. BENCH_IMPORT_ROWS (2000,20000,100000) and
+    // BENCH_IMPORT_HEAP_MB (384: V8's old-space cap of the child, 0 = Node's default) set the runs.
+    const sizes = (env.BENCH_IMPORT_ROWS ?? '2000,20000,100000').split(',').map(Number)
+    const heap = Number(env.BENCH_IMPORT_HEAP_MB ?? 384)
+    const figs: ImportFigures[] = []
+    for (const rows of sizes) {
+      for (const mode of ['floor', 'dry', 'import'] as const) {
+        log(`[bench] import ${rows} ${mode}`)
+        const flags = [...(heap > 0 ? [`--max-old-space-size=${heap}`] : []), '--expose-gc', '--import', 'tsx', path.join(here, 'import.ts'), String(rows), mode]
+        const child = spawnSync(process.execPath, flags, { env, encoding: 'utf8', timeout: 30 * 60_000, maxBuffer: 1 << 20 })
+        if (child.status !== 0) throw new Error(`import child (${rows} ${mode}) exited ${child.status}: ${child.stderr.slice(-400)}`)
+        figs.push(JSON.parse(child.stdout.trim().split('\n').pop()!) as ImportFigures)
+      }
+    }
+    return importRows(figs, heap)
+  })
   if (env.BENCH_CLIENT_DIR && !env.BENCH_ONLY) await add('client bundle (gzip)', () => runClientSizeBench(env.BENCH_CLIENT_DIR!))
   printTable(sections)
 }

@@ -5,7 +5,7 @@
  */
 
 /** The named dimensions (nm) each shape needs. */
-export const SHAPE_DIMENSIONS: Record<string, { key: string; label: string }[]> = {
+export const SHAPE_DIMENSIONS: Record<'disk' | 'ring' | 'ellipse' | 'rectangle' | 'square' | 'triangle' | 'hexagon' | 'cross' | 'l-shape' | 'split-ring' | 'gammadion' | 'dimer' | 'custom', { key: string; label: string }[]> = {
   disk: [{ key: 'diameterNm', label: 'Diameter' }],
   ring: [{ key: 'innerDiameterNm', label: 'Inner diameter' }, { key: 'outerDiameterNm', label: 'Outer diameter' }],
   ellipse: [{ key: 'lengthNm', label: 'Long axis (x)' }, { key: 'widthNm', label: 'Short axis (y)' }],
@@ -56,7 +56,7 @@ export function arraySenseIssues(a: ArrayGeometry): SenseIssue[] {
   const d = a.dimensionsNm
   const dim = (k: string) => `dimensionsNm.${k}`
   // A custom shape describes its symmetry itself; its size is optional.
-  const needed = a.shape === 'custom' ? [] : SHAPE_DIMENSIONS[a.shape] ?? []
+  const needed = a.shape === 'custom' ? [] : SHAPE_DIMENSIONS[a.shape as keyof typeof SHAPE_DIMENSIONS] ?? []
   for (const { key, label } of needed) if (!(d[key] > 0)) out.push({ path: dim(key), message: `A ${a.shape} needs its ${label.toLowerCase()}` })
   if (out.length) return out
 

@@ -26,7 +26,12 @@ function receiveUpload(req: Request, res: Response): Promise<void> {
 }
 
 const jobParams = z.object({ id: z.string().uuid('No such export') })
-const importQuery = z.object({ dryRun: z.enum(['true', 'false']).default('true').transform((v) => v === 'true') })
+const importQuery = z.object({
+  dryRun: z.enum(['true', 'false']).default('true').transform((v) => v === 'true'),
+  /** The dry run's planHash: the import then does exactly what that dry run showed, or nothing (409). */
+  plan: z.string().regex(/^[0-9a-f]{64}$/, 'Send the planHash of the dry run').optional(),
+})
+const importFields = z.object({ reason: z.string().trim().max(300, 'Use at most 300 characters').optional() })
 
 /** Mounted under /api/excel: inventory export (jobs with progress), import template, legacy import. */
 export function excelRoutes(ctx: AppContext): Router {
@@ -49,11 +54,12 @@ export function excelRoutes(ctx: AppContext): Router {
     res.set({ 'Content-Type': XLSX_MIME, 'Cache-Control': 'no-store' }).send(await buildTemplate(ctx.db))
   })
   r.post('/import', requireAbility('import', 'Inventory'), async (req, res) => {
-    const { dryRun } = parse(importQuery, req.query)
+    const { dryRun, plan } = parse(importQuery, req.query)
     await receiveUpload(req, res)
+    const { reason } = parse(importFields, req.body ?? {})
     const file = req.file ? { buffer: req.file.buffer, originalName: req.file.originalname } : undefined
     const limits = { maxExpandedBytes: Math.round(ctx.env.IMPORT_MAX_EXPANDED_MB * 1024 * 1024), maxRows: ctx.env.IMPORT_MAX_ROWS }
-    const report = await importWorkbook(ctx.db, currentUser(req), file, dryRun, limits)
+    const report = await importWorkbook(ctx.db, currentUser(req), file, dryRun, limits, { reason, planHash: plan })
     // A real import that was refused (errors in the file) answers 422 with the same report.
     res.status(!dryRun && !report.imported ? 422 : dryRun ? 200 : 201).json(report)
   })

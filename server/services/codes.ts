@@ -1,5 +1,6 @@
 import { sql, type SQL } from 'drizzle-orm'
 import type { DbOrTx } from './audit'
+import type { Db } from '../db/client'
 import { NotFoundError, fieldError } from '../errors'
 
 /**
@@ -23,13 +24,42 @@ export function codeNumber(code: string): number {
 }
 
 /**
- * Next number for `prefix` codes in `table`: max + 1, computed inside the caller's transaction with
- * the matching rows locked (SELECT … FOR UPDATE), so two concurrent creations cannot pick the same
- * number; the unique index on `code` is the last line of defence.
+ * Next number for `prefix` codes in `table`, inside the caller's transaction: the series row of
+ * `code_series` is moved on (locked until the caller commits, a short write), never the range of
+ * codes in the table, so a running Excel import that has reserved its numbers blocks nobody. The
+ * highest code already in the table (a plain, non-locking read) is taken into account, so rows
+ * written outside the app cannot be handed out twice; the unique index on `code` is the last line
+ * of defence.
  */
 export async function nextCodeNumber(tx: DbOrTx, table: 'wafers' | 'locations', prefix: string): Promise<number> {
-  const [rows] = (await tx.execute(sql`SELECT MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)) AS n FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'} FOR UPDATE`)) as unknown as [{ n: number | string | null }[]]
-  return Number(rows[0]?.n ?? 0) + 1
+  return takeCodeNumbers(tx, table, prefix, 1)
+}
+
+/** Take `count` consecutive numbers of the series in the caller's transaction; answers the first. */
+async function takeCodeNumbers(tx: DbOrTx, table: 'wafers' | 'locations', prefix: string, count: number): Promise<number> {
+  const [maxRows] = (await tx.execute(sql`SELECT COALESCE(MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)), 0) AS n FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'}`)) as unknown as [{ n: number | string }[]]
+  const max = Number(maxRows[0]?.n ?? 0)
+  await tx.execute(sql`INSERT INTO code_series (series, last_number) VALUES (${prefix}, ${max + count})
+    ON DUPLICATE KEY UPDATE last_number = GREATEST(last_number, ${max}) + ${count}`)
+  const [rows] = (await tx.execute(sql`SELECT last_number AS n FROM code_series WHERE series = ${prefix}`)) as unknown as [{ n: number | string }[]]
+  return Number(rows[0].n) - count + 1
+}
+
+/**
+ * Reserve `count` numbers of a series in a transaction of their own that commits at once (an
+ * import, before its long insert transaction). Numbers of an import that then fails stay unused:
+ * codes are never reused, gaps are allowed.
+ */
+export async function reserveCodeNumbers(db: Db, table: 'wafers' | 'locations', prefix: string, count: number): Promise<number> {
+  if (count <= 0) return 0
+  return db.transaction((tx) => takeCodeNumbers(tx, table, prefix, count))
+}
+
+/** The number the next creation would get now (a preview; nothing is reserved or locked). */
+export async function peekCodeNumber(db: DbOrTx, table: 'wafers' | 'locations', prefix: string): Promise<number> {
+  const [rows] = (await db.execute(sql`SELECT GREATEST(COALESCE((SELECT MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)) FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'}), 0),
+    COALESCE((SELECT last_number FROM code_series WHERE series = ${prefix}), 0)) AS n`)) as unknown as [{ n: number | string }[]]
+  return Number(rows[0].n) + 1
 }
 
 /** Escape a user's text for LIKE. */

@@ -1,17 +1,18 @@
-import { asc, eq, getTableColumns, gt, inArray } from 'drizzle-orm'
+import { asc, eq, getTableColumns, gt, inArray, sql } from 'drizzle-orm'
 import { alias } from 'drizzle-orm/mysql-core'
 import type ExcelJS from 'exceljs'
-import { arrays, chips, laserSetups, locations, materials, measurementSessions as ms, sessionResults, users, wafers } from '../db/schema/index'
+import { arrays, chips, fabSteps, files, laserSetups, locations, materials, measurementSessions as ms, moves, sessionResults, users, wafers } from '../db/schema/index'
 import type { Db } from '../db/client'
 import type { StoredChannel } from '../../shared/records'
 import { ENGINE_VERSION, type PumpSpec } from '../../shared/engine'
-import { ARRAY_COLUMNS, CHIP_COLUMNS, WAFER_COLUMNS } from './excel-columns'
-import { DATE_FMT, DATE_TIME_FMT, addStyledSheet, dateOnly, vectorText, type SheetColumn } from './excel-style'
+import { ARRAY_COLUMNS, CHIP_COLUMNS, WAFER_COLUMNS, dimensionColumn, dimensionsOf, FORM_DIMENSIONS } from './excel-columns'
+import { DATE_FMT, DATE_TIME_FMT, addSafeRow, addStyledSheet, dateOnly, vectorText, type SheetColumn } from './excel-style'
 import { STANDARD_PUMPS, STORED_ORDERS } from './array-channels'
 import { loadChannelSets } from './channel-sets'
 import { cutLabel } from './wafers'
 import { locationRefs } from './locations'
 import { loadArrayContexts, rememberingCompare } from './session-compare'
+import { withSignoffs } from './laser-setups'
 
 /**
  * The sheets of the inventory export. Each reads its table in keyset-paged batches (BATCH rows by
@@ -24,8 +25,10 @@ type Book = Pick<ExcelJS.Workbook, 'addWorksheet'>
 export interface SheetContext { db: Db; book: Book; tick: (rows: number) => void }
 
 /** Copy the importable columns' headers (so an export can be imported again), then the export-only ones. */
-const importable = (cols: typeof WAFER_COLUMNS, rename: Record<string, string> = {}): SheetColumn[] =>
-  cols.map((c) => ({ header: rename[c.key] ?? c.header, key: c.key, width: c.width, numFmt: c.kind === 'date' ? DATE_FMT : undefined }))
+const importable = (cols: typeof WAFER_COLUMNS): SheetColumn[] =>
+  cols.filter((c) => !c.isLegacy).map((c) => ({ header: c.header, key: c.key, width: c.width, numFmt: c.kind === 'date' ? DATE_FMT : undefined }))
+/** The record's version as the Version column shows it (the importer compares it with the record's). */
+const versionOf = (updatedAt: Date) => updatedAt.toISOString()
 const utc = (header: string, key: string): SheetColumn => ({ header: `${header} (UTC)`, key, width: 17, numFmt: DATE_TIME_FMT })
 
 /**
@@ -74,7 +77,6 @@ function finish(ws: ExcelJS.Worksheet) {
   const w = ws as ExcelJS.Worksheet & { commit?: () => void }
   if (typeof w.commit === 'function') w.commit()
 }
-const commitRow = (row: ExcelJS.Row) => (row as ExcelJS.Row & { commit?: () => void }).commit?.()
 
 export async function writeMaterials({ db, book, tick }: SheetContext) {
   const ws = addStyledSheet(book, 'Materials', [
@@ -86,7 +88,7 @@ export async function writeMaterials({ db, book, tick }: SheetContext) {
   await eachBatch(ws, (after) => db.select().from(materials).where(gt(materials.id, after)).orderBy(asc(materials.id)).limit(BATCH), (r) => r.id, (rows) => {
     for (const m of rows) {
       const coefficients = m.coefficients.map((c) => `${c.component}=${c.valuePmV} @ ${c.wavelengthNm} nm${c.isTypical ? ' (typical)' : ''}`).join('; ')
-      commitRow(ws.addRow({ ...m, coefficients }))
+      addSafeRow(ws, { ...m, coefficients })
     }
     tick(rows.length)
   })
@@ -96,7 +98,7 @@ export async function writeMaterials({ db, book, tick }: SheetContext) {
 export async function writeWafers({ db, book, tick }: SheetContext) {
   const refs = await locationRefs(db)
   const ws = addStyledSheet(book, 'Wafers', [
-    ...importable(WAFER_COLUMNS, { ref: 'Code' }),
+    ...importable(WAFER_COLUMNS),
     { header: 'Point group', key: 'pointGroup', width: 11 }, { header: 'Cut', key: 'cut', width: 10 }, { header: 'Chips', key: 'chips', width: 8 },
     { header: 'Created by', key: 'createdBy', width: 20 }, utc('Created', 'createdAt'),
   ])
@@ -105,11 +107,11 @@ export async function writeWafers({ db, book, tick }: SheetContext) {
     .where(gt(wafers.id, after)).orderBy(asc(wafers.id)).limit(BATCH), (r) => r.w.id, async (rows) => {
     const counts = await db.select({ waferId: chips.waferId, id: chips.id }).from(chips).where(inArray(chips.waferId, rows.map((r) => r.w.id)))
     for (const { w, material, pointGroup, by } of rows) {
-      commitRow(ws.addRow({
+      addSafeRow(ws, {
         ref: w.code, material, cutNormal: vectorText(w.cutNormal), flatDirection: vectorText(w.flatDirection), diameterMm: w.diameterMm, thicknessUm: w.thicknessUm,
         lot: w.lot, supplier: w.supplier, receivedOn: dateOnly(w.receivedOn), location: w.locationId ? refs.get(w.locationId)?.code : null, status: w.status,
-        notes: w.notes, pointGroup, cut: cutLabel(pointGroup, w.cutNormal), chips: counts.filter((c) => c.waferId === w.id).length, createdBy: by, createdAt: w.createdAt,
-      }))
+        notes: w.notes, version: versionOf(w.updatedAt), pointGroup, cut: cutLabel(pointGroup, w.cutNormal), chips: counts.filter((c) => c.waferId === w.id).length, createdBy: by, createdAt: w.createdAt,
+      })
     }
     tick(rows.length)
   })
@@ -119,17 +121,17 @@ export async function writeWafers({ db, book, tick }: SheetContext) {
 export async function writeChips({ db, book, tick }: SheetContext) {
   const refs = await locationRefs(db)
   const ws = addStyledSheet(book, 'Chips', [
-    ...importable(CHIP_COLUMNS, { ref: 'Code' }),
+    ...importable(CHIP_COLUMNS),
     { header: 'Material', key: 'material', width: 18 }, { header: 'Holder', key: 'holder', width: 18 }, utc('Created', 'createdAt'),
   ])
   await eachBatch(ws, (after) => db.select({ c: chips, wafer: wafers.code, material: materials.name, holder: users.name }).from(chips)
     .innerJoin(wafers, eq(wafers.id, chips.waferId)).innerJoin(materials, eq(materials.id, wafers.materialId)).leftJoin(users, eq(users.id, chips.holderId))
     .where(gt(chips.id, after)).orderBy(asc(chips.id)).limit(BATCH), (r) => r.c.id, (rows) => {
     for (const { c, wafer, material, holder } of rows) {
-      commitRow(ws.addRow({
+      addSafeRow(ws, {
         ref: c.code, wafer, index: c.index, rotationDeg: c.rotationDeg, widthMm: c.widthMm, heightMm: c.heightMm,
-        location: c.locationId ? refs.get(c.locationId)?.code : null, status: c.status, notes: c.notes, material, holder, createdAt: c.createdAt,
-      }))
+        location: c.locationId ? refs.get(c.locationId)?.code : null, status: c.status, notes: c.notes, version: versionOf(c.updatedAt), material, holder, createdAt: c.createdAt,
+      })
     }
     tick(rows.length)
   })
@@ -153,15 +155,23 @@ export async function writeArrays({ db, book, tick }: SheetContext) {
     { header: `${HARMONIC(order)} ${PUMP_LABEL[key]}: allowed m`, key: `${order}|${key}|m`, width: 16 },
     { header: `${HARMONIC(order)} ${PUMP_LABEL[key]}: normal emission`, key: `${order}|${key}|n`, width: 16 },
   ]))
+  // One numeric column per dimension of the shapes present (and any other dimension stored), after Shape.
+  const [shapeRows] = (await db.execute(sql`SELECT DISTINCT shape FROM arrays`)) as unknown as [{ shape: string }[]]
+  const [keyRows] = (await db.execute(sql`SELECT DISTINCT JSON_KEYS(dimensions_nm) AS k FROM arrays`)) as unknown as [{ k: string | string[] | null }[]]
+  const stored = new Set(keyRows.flatMap((r) => (typeof r.k === 'string' ? (JSON.parse(r.k) as string[]) : (r.k ?? []))))
+  const dims = [...dimensionsOf(shapeRows.map((r) => r.shape)), ...[...stored].filter((k) => !FORM_DIMENSIONS.includes(k)).sort()]
+  const dimCols: SheetColumn[] = dims.map((k) => { const c = dimensionColumn(k); return { header: c.header, key: c.key, width: c.width } })
+  const base = importable(ARRAY_COLUMNS)
+  const atShape = base.findIndex((c) => c.key === 'shape') + 1
   const ws = addStyledSheet(book, 'Arrays', [
-    ...importable(ARRAY_COLUMNS, { ref: 'Code' }),
+    ...base.slice(0, atShape), ...dimCols, ...base.slice(atShape),
     { header: 'Symmetry', key: 'symmetry', width: 10 }, { header: 'Engine version', key: 'engineVersion', width: 10 }, { header: 'Stale', key: 'stale', width: 7 },
     utc('Channels computed', 'channelsComputedAt'), utc('Retired', 'retiredAt'), utc('Created', 'createdAt'), ...channelCols,
   ])
   // Arrays share a few distinct channel sets (stored once, see channel-sets.ts): each set is read
   // and turned into cells once for the whole sheet (and not kept in the channel-set cache after).
   const cells = new Map<string, Record<string, string>>()
-  const { chipId: _chip, updatedAt: _updated, ...arrayColumns } = getTableColumns(arrays) // the columns the sheet writes
+  const { chipId: _chip, ...arrayColumns } = getTableColumns(arrays) // the columns the sheet writes
   await eachBatch(ws, (after) => db.select({ a: arrayColumns, chip: chips.code }).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId))
     .where(gt(arrays.id, after)).orderBy(asc(arrays.id)).limit(BATCH), (r) => r.a.id, async (rows) => {
     const sets = await loadChannelSets(db, rows.map((r) => r.a.channelSetKey).filter((k) => k && !cells.has(k)), { remember: false })
@@ -177,14 +187,14 @@ export async function writeArrays({ db, book, tick }: SheetContext) {
     }
     for (const { a, chip } of rows) {
       const row: Record<string, unknown> = {
-        ref: a.code, chip, position: a.position, shape: a.shape, dimensionsNm: Object.entries(a.dimensionsNm).map(([k, v]) => `${k}=${v}`).join('; '),
+        ref: a.code, chip, position: a.position, shape: a.shape, ...Object.fromEntries(Object.entries(a.dimensionsNm).map(([k, v]) => [`dim:${k}`, v])),
         shapeAzimuthDeg: a.shapeAzimuthDeg, lattice: a.lattice, periodXNm: a.periodXNm, periodYNm: a.periodYNm, azimuthDeg: a.azimuthDeg, count: a.count,
-        customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors?.join(', ') ?? null, notes: a.notes,
+        customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors?.join(', ') ?? null, notes: a.notes, version: versionOf(a.updatedAt),
         symmetry: a.symmetryName, engineVersion: a.engineVersion, stale: a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash ? 'yes' : 'no',
         channelsComputedAt: a.channelsComputedAt, retiredAt: a.retiredAt, createdAt: a.createdAt,
       }
       Object.assign(row, cellsOf(a.channelSetKey))
-      commitRow(ws.addRow(row))
+      addSafeRow(ws, row)
     }
     tick(rows.length)
   })
@@ -228,11 +238,11 @@ export async function writeSessions({ db, book, tick }: SheetContext) {
             flags = cmp.flags.length ? cmp.flags.join(' ') : 'consistent'
           }
         } catch (err) { flags = `no prediction: ${(err as Error).message}` }
-        commitRow(ws.addRow({
+        addSafeRow(ws, {
           code: s.code, performedAt: s.performedAt, setup, operator, wavelengthNm: s.wavelengthNm, order: s.harmonicOrder, pump: pumpText(s.pump),
           avgPowerMw: s.avgPowerMw, array: a?.code ?? r.arrayId, harmonicPowerW: r.harmonicPowerW, observedNormal: r.observedNormal,
           observedM: r.observedM.join(', '), predictedM: predicted, predictedNormal, flags, notes: r.notes,
-        }))
+        })
       }
     }
     tick(results.length)
@@ -249,8 +259,85 @@ export async function writeLocations({ db, book, tick }: SheetContext) {
   ])
   await eachBatch(ws, (after) => db.select().from(locations).where(gt(locations.id, after)).orderBy(asc(locations.id)).limit(BATCH), (r) => r.id, (rows) => {
     for (const l of rows) {
-      commitRow(ws.addRow({ ...l, parent: l.parentId ? refs.get(l.parentId)?.code : null, path: refs.get(l.id)?.path }))
+      addSafeRow(ws, { ...l, parent: l.parentId ? refs.get(l.parentId)?.code : null, path: refs.get(l.id)?.path })
     }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+/*
+ * Read-only sheets (the importer does not read them): fabrication steps, laser setups with their
+ * register fields and sign-off state, moves, and the metadata of uploaded files.
+ */
+export async function writeFabSteps({ db, book, tick }: SheetContext) {
+  const ws = addStyledSheet(book, 'Fabrication', [
+    { header: 'Chip', key: 'chip', width: 14 }, { header: 'Step', key: 'kind', width: 12 }, { header: 'Parameters', key: 'params', width: 50 },
+    { header: 'Operator', key: 'operator', width: 18 }, utc('Performed', 'performedAt'), { header: 'Notes', key: 'notes', width: 30 }, utc('Recorded', 'createdAt'),
+  ])
+  await eachBatch(ws, (after) => db.select({ f: fabSteps, chip: chips.code, operator: users.name }).from(fabSteps).innerJoin(chips, eq(chips.id, fabSteps.chipId))
+    .innerJoin(users, eq(users.id, fabSteps.operatorId)).where(gt(fabSteps.id, after)).orderBy(asc(fabSteps.id)).limit(BATCH), (r) => r.f.id, (rows) => {
+    for (const { f, chip, operator } of rows) {
+      addSafeRow(ws, { chip, kind: f.kind.replace('_', '-'), params: Object.entries(f.params).map(([k, v]) => `${k}=${v}`).join('; '), operator, performedAt: f.performedAt, notes: f.notes, createdAt: f.createdAt })
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+const SIGNOFF_TEXT: Record<string, string> = { draft: 'draft (not submitted)', waiting: 'waiting for sign-off', approved: 'approved', expired: 'approval expired', rejected: 'rejected', revoked: 'revoked', voided: 'voided (hazard fields changed)' }
+
+export async function writeLaserSetups({ db, book, tick }: SheetContext) {
+  const ws = addStyledSheet(book, 'Laser setups', [
+    { header: 'Code', key: 'code', width: 10 }, { header: 'Name', key: 'name', width: 22 }, { header: 'Room', key: 'room', width: 10 }, { header: 'Source', key: 'sourceType', width: 12 },
+    { header: 'Wavelengths (nm)', key: 'wavelengths', width: 16 }, { header: 'Laser class', key: 'laserClass', width: 10 }, { header: 'Max average power (mW)', key: 'maxAvgPowerMw', width: 14 },
+    { header: 'Pulse duration (fs)', key: 'pulseDurationFs', width: 12 }, { header: 'Repetition rate (Hz)', key: 'repRateHz', width: 14 }, { header: 'Pulse energy (µJ)', key: 'pulseEnergyUj', width: 12 },
+    { header: 'Beam diameter (mm)', key: 'beamDiameterMm', width: 12 }, { header: 'Divergence (mrad)', key: 'divergenceMrad', width: 12 }, { header: 'Harmonic orders', key: 'harmonicOrders', width: 10 },
+    { header: 'Eyewear', key: 'eyewear', width: 40 }, { header: 'Interlocks', key: 'interlocks', width: 30 }, { header: 'Controlled area', key: 'controlledAreaNotes', width: 30 },
+    { header: 'Submitted by', key: 'submitter', width: 18 }, utc('Submitted', 'submittedAt'), { header: 'Sign-off', key: 'state', width: 20 }, { header: 'Sessions may be logged today', key: 'isValid', width: 12 },
+    { header: 'Decided by', key: 'by', width: 18 }, utc('Decided', 'at'), { header: 'Approval expires on', key: 'expiresOn', width: 13 }, { header: 'Decision note', key: 'note', width: 30 },
+    { header: 'Notes', key: 'notes', width: 30 }, utc('Retired', 'retiredAt'),
+  ])
+  await eachBatch(ws, (after) => db.select().from(laserSetups).where(gt(laserSetups.id, after)).orderBy(asc(laserSetups.id)).limit(BATCH), (r) => r.id, async (rows) => {
+    for (const l of await withSignoffs(db, rows)) {
+      const eyewear = l.eyewear.map((e) => [e.description, e.bandsNm && `${e.bandsNm} nm`, e.od !== null && `OD ${e.od}`, e.en207].filter(Boolean).join(', ')).join('; ')
+      addSafeRow(ws, {
+        ...l, wavelengths: l.wavelengthsNm.join(', '), harmonicOrders: l.harmonicOrders.join(', '), eyewear, submitter: l.submitter?.name ?? null,
+        submittedAt: l.submittedAt ? new Date(l.submittedAt) : null, state: SIGNOFF_TEXT[l.signoff.state] ?? l.signoff.state, isValid: l.signoff.isValid ? 'yes' : 'no',
+        by: l.signoff.by?.name ?? null, at: l.signoff.at ? new Date(l.signoff.at) : null, expiresOn: l.signoff.expiresOn, note: l.signoff.note,
+        retiredAt: l.retiredAt ? new Date(l.retiredAt) : null,
+      })
+    }
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+export async function writeMoves({ db, book, tick }: SheetContext) {
+  const refs = await locationRefs(db)
+  const handedTo = alias(users, 'handed_to')
+  const ws = addStyledSheet(book, 'Moves', [
+    { header: 'Item', key: 'itemKind', width: 9 }, { header: 'Code', key: 'itemCode', width: 14 }, { header: 'From', key: 'from', width: 30 }, { header: 'To', key: 'to', width: 30 },
+    { header: 'Handed to', key: 'handedTo', width: 18 }, { header: 'Moved by', key: 'movedBy', width: 18 }, utc('Moved', 'movedAt'), { header: 'Note', key: 'note', width: 30 },
+  ])
+  const place = (id: number | null) => (id ? (refs.get(id)?.path ?? refs.get(id)?.code ?? String(id)) : null)
+  await eachBatch(ws, (after) => db.select({ m: moves, by: users.name, to: handedTo.name }).from(moves).innerJoin(users, eq(users.id, moves.movedBy)).leftJoin(handedTo, eq(handedTo.id, moves.handedToId))
+    .where(gt(moves.id, after)).orderBy(asc(moves.id)).limit(BATCH), (r) => r.m.id, (rows) => {
+    for (const { m, by, to } of rows) addSafeRow(ws, { itemKind: m.itemKind, itemCode: m.itemCode, from: place(m.fromLocationId), to: place(m.toLocationId), handedTo: to, movedBy: by, movedAt: m.movedAt, note: m.note })
+    tick(rows.length)
+  })
+  finish(ws)
+}
+
+export async function writeFiles({ db, book, tick }: SheetContext) {
+  const ws = addStyledSheet(book, 'Files', [
+    { header: 'File name', key: 'originalName', width: 30 }, { header: 'Kind', key: 'kind', width: 10 }, { header: 'Type', key: 'mime', width: 18 }, { header: 'Size (bytes)', key: 'sizeBytes', width: 12 },
+    { header: 'SHA-256', key: 'sha256', width: 20 }, { header: 'Attached to', key: 'entity', width: 12 }, { header: 'Record id', key: 'entityId', width: 9 },
+    { header: 'Uploaded by', key: 'by', width: 18 }, utc('Uploaded', 'uploadedAt'), utc('Retired', 'retiredAt'),
+  ])
+  await eachBatch(ws, (after) => db.select({ f: files, by: users.name }).from(files).innerJoin(users, eq(users.id, files.uploadedBy))
+    .where(gt(files.id, after)).orderBy(asc(files.id)).limit(BATCH), (r) => r.f.id, (rows) => {
+    for (const { f, by } of rows) addSafeRow(ws, { ...f, by })
     tick(rows.length)
   })
   finish(ws)

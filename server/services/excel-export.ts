@@ -10,7 +10,7 @@ import { ENGINE_VERSION } from '../../shared/engine'
 import { NotFoundError, ConflictError } from '../errors'
 import type { FileStorage } from './storage'
 import { addStyledSheet, rememberPlainStyles } from './excel-style'
-import { writeArrays, writeChips, writeLocations, writeMaterials, writeSessions, writeWafers, type SheetContext } from './excel-export-sheets'
+import { writeArrays, writeChips, writeFabSteps, writeFiles, writeLaserSetups, writeLocations, writeMaterials, writeMoves, writeSessions, writeWafers, type SheetContext } from './excel-export-sheets'
 
 /**
  * Inventory export jobs. A job streams one workbook (exceljs WorkbookWriter, rows committed as they
@@ -89,7 +89,8 @@ export async function sweepExports(db: Db, storage: FileStorage, dataDir: string
 
 async function countRows(db: Db): Promise<number> {
   const [rows] = (await db.execute(sql`SELECT (SELECT count(*) FROM materials) + (SELECT count(*) FROM wafers) + (SELECT count(*) FROM chips)
-    + (SELECT count(*) FROM arrays) + (SELECT count(*) FROM session_results) + (SELECT count(*) FROM locations) AS n`)) as unknown as [{ n: number | string }[]]
+    + (SELECT count(*) FROM arrays) + (SELECT count(*) FROM session_results) + (SELECT count(*) FROM locations)
+    + (SELECT count(*) FROM fab_steps) + (SELECT count(*) FROM laser_setups) + (SELECT count(*) FROM moves) + (SELECT count(*) FROM files) AS n`)) as unknown as [{ n: number | string }[]]
   return Number(rows[0].n)
 }
 
@@ -99,7 +100,9 @@ function writeAbout(book: Pick<ExcelJS.Workbook, 'addWorksheet'>, actor: User, a
     ['Exported (UTC)', at], ['Exported by', `${actor.name} <${actor.email}>`], ['Engine version', ENGINE_VERSION],
     ['Dates', 'All date-time cells are in UTC.'],
     ['Computed channels', 'The allowed m, normal-emission and symmetry columns of the Arrays sheet and the predicted columns of the Sessions sheet are MODEL PREDICTIONS of the Overtone engine (selection rules from symmetry), not measurements. "Stale" = computed by another engine version or for inputs that have changed since.'],
-    ['Re-import', 'The Wafers, Chips and Arrays sheets can be imported again (Admin → Export & import); their extra columns are ignored.'],
+    ['Re-import', 'The Wafers, Chips and Arrays sheets can be imported again (Admin → Export & import): a row whose Code is an Overtone code updates that record, and its Version shows whether the record changed in Overtone since this export (then the row is a conflict, not written). Their extra columns are ignored.'],
+    ['Read-only sheets', 'Sessions, Locations, Fabrication, Laser setups (register and sign-off state), Moves and Files (metadata only) are for reading; the import does not read them.'],
+    ['Text cells', 'Text that begins with =, +, - or @ is written with a leading apostrophe so that no spreadsheet program takes it for a formula, also after saving as CSV; the import removes it again.'],
   ]
   for (const [item, value] of lines) {
     const row = ws.addRow({ item, value })
@@ -169,6 +172,7 @@ async function run(db: Db, storage: FileStorage, actor: User, id: string, file: 
     const ctx: SheetContext = { db, book, tick: job.tick }
     const sheets: [ExportPhase, (c: SheetContext) => Promise<void>][] = [
       ['Materials', writeMaterials], ['Wafers', writeWafers], ['Chips', writeChips], ['Arrays', writeArrays], ['Sessions', writeSessions], ['Locations', writeLocations],
+      ['Fabrication', writeFabSteps], ['Laser setups', writeLaserSetups], ['Moves', writeMoves], ['Files', writeFiles],
     ]
     for (const [phase, write] of sheets) { await job.phase(phase); await write(ctx) }
     await book.commit()

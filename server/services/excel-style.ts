@@ -79,3 +79,24 @@ export function rememberPlainStyles(book: object): void {
     return id
   }
 }
+
+/**
+ * Text that a spreadsheet program could take for a formula once the workbook is saved as CSV and
+ * opened again: it begins with =, +, - or @ (or a tab / carriage return, which some programs strip
+ * before looking). Such text is written with a leading apostrophe, the usual defence against
+ * formula injection (OWASP, "CSV Injection"), so it stays text in any program; the importer takes
+ * that one apostrophe off again (`unguardText`), so a round trip leaves the value unchanged.
+ */
+const FORMULA_START = /^[=+\-@\t\r]/
+export const guardText = (s: string): string => (FORMULA_START.test(s) ? `'${s}` : s)
+/** The text as it was before `guardText`. */
+export const unguardText = (s: string): string => (s.length > 1 && s.charCodeAt(0) === 39 && FORMULA_START.test(s.slice(1)) ? s.slice(1) : s)
+
+/** Add a row of values, with every text guarded against formula injection, and commit it when streaming. */
+export function addSafeRow(ws: ExcelJS.Worksheet, values: Record<string, unknown>): ExcelJS.Row {
+  const safe: Record<string, unknown> = {}
+  for (const k in values) { const v = values[k]; safe[k] = typeof v === 'string' ? guardText(v) : v }
+  const row = ws.addRow(safe)
+  ;(row as ExcelJS.Row & { commit?: () => void }).commit?.()
+  return row
+}

@@ -2,7 +2,7 @@ import ExcelJS from 'exceljs'
 import { asc, isNull } from 'drizzle-orm'
 import { materials } from '../db/schema/index'
 import type { Db } from '../db/client'
-import { IMPORT_COLUMNS, type ColumnSpec } from './excel-columns'
+import { FORM_DIMENSIONS, IMPORT_COLUMNS, dimensionColumn, type ColumnSpec } from './excel-columns'
 import { DATE_FMT, addStyledSheet, columnLetter } from './excel-style'
 import { IMPORT_SHEETS } from '../../shared/excel'
 
@@ -17,9 +17,10 @@ const LIST_ROWS = 2000
 
 const INSTRUCTIONS = [
   'How to fill this workbook',
-  '1. Wafers: one row per wafer. "Ref" is your own key for the row (e.g. W1, or the code from the old spreadsheet); Overtone gives each wafer a new code W-NNNN.',
-  '2. Chips: one row per chip. "Wafer" is a Ref from the Wafers sheet, or the code of a wafer already in Overtone (e.g. W-0003) to add chips to it.',
-  '3. Arrays: one row per nanostructure array. "Chip" is a Ref from the Chips sheet, or the code of a chip already in Overtone (e.g. C-0003-02).',
+  '1. Wafers: one row per wafer. "Code" is empty or your own key for the row (e.g. W1, or the code from the old spreadsheet); Overtone gives each new wafer a code W-NNNN.',
+  '2. Chips: one row per chip. "Wafer" is a Code from the Wafers sheet (W1), or the code of a wafer already in Overtone (e.g. W-0003) to add chips to it.',
+  '3. Arrays: one row per nanostructure array. "Chip" is a Code from the Chips sheet, or the code of a chip already in Overtone (e.g. C-0003-02). Fill the dimension columns (nm) the shape has, as in the array form.',
+  'Updating: export the inventory, change cells, and import that workbook again. A row whose Code is an Overtone code updates that record; the dry run shows every change (before → after), and a row whose record was changed in Overtone after the export is a conflict and is not written.',
   'Rows whose first cell is EXAMPLE are skipped. Rows with status "retired" are skipped. Empty rows are ignored.',
   'Units are in the column headers; hover a header to read what it means. Dates: a date cell or text YYYY-MM-DD. Directions: three numbers, e.g. 0 0 1.',
   'Formulas are allowed only where Excel saved their result. Text in a number column is an error.',
@@ -46,6 +47,18 @@ function addSheet(book: ExcelJS.Workbook, name: string, cols: ColumnSpec[], mate
   return ws
 }
 
+/**
+ * The template's columns: the form's fields (no Version, which only an export writes, and no old
+ * text column of dimensions); on Arrays one numeric column per dimension the array form asks for,
+ * over all shapes, after Shape.
+ */
+function templateColumns(name: (typeof IMPORT_SHEETS)[number]): ColumnSpec[] {
+  const cols = IMPORT_COLUMNS[name].filter((c) => c.inTemplate !== false && !c.isLegacy)
+  if (name !== 'Arrays') return cols
+  const at = cols.findIndex((c) => c.key === 'shape') + 1
+  return [...cols.slice(0, at), ...FORM_DIMENSIONS.map((k) => dimensionColumn(k, k === 'diameterNm' ? 450 : null)), ...cols.slice(at)]
+}
+
 /** Build the template workbook (material names from the database for the drop-down). */
 export async function buildTemplate(db: Db): Promise<Buffer> {
   const names = (await db.select({ name: materials.name }).from(materials).where(isNull(materials.retiredAt)).orderBy(asc(materials.name))).map((m) => m.name)
@@ -60,7 +73,7 @@ export async function buildTemplate(db: Db): Promise<Buffer> {
     cell.alignment = { wrapText: true }
     if (i === 0) cell.font = { bold: true, size: 14 }
   })
-  for (const name of IMPORT_SHEETS) addSheet(book, name, IMPORT_COLUMNS[name], names.length)
+  for (const name of IMPORT_SHEETS) addSheet(book, name, templateColumns(name), names.length)
   const lists = book.addWorksheet('Lists', { state: 'hidden' })
   lists.getCell('A1').value = 'Materials'
   names.forEach((n, i) => { lists.getCell(i + 2, 1).value = n })

@@ -18,6 +18,8 @@ export interface ZipEntry {
   /** Uncompressed size as declared in the central directory. */
   size: number
   localOffset: number
+  /** CRC-32 of the uncompressed content, from the central directory. */
+  crc32: number
 }
 
 export interface ZipLimits {
@@ -97,7 +99,7 @@ export function readZipDirectory(buf: Buffer, maxEntries = Infinity): ZipEntry[]
     if (next > buf.length) throw damaged('a ZIP directory header runs past the end of the file')
     const e: ZipEntry = {
       name: buf.toString('utf8', p + 46, p + 46 + nameLen), flags: buf.readUInt16LE(p + 8), method: buf.readUInt16LE(p + 10),
-      compressedSize: buf.readUInt32LE(p + 20), size: buf.readUInt32LE(p + 24), localOffset: buf.readUInt32LE(p + 42),
+      compressedSize: buf.readUInt32LE(p + 20), size: buf.readUInt32LE(p + 24), localOffset: buf.readUInt32LE(p + 42), crc32: buf.readUInt32LE(p + 16),
     }
     // ZIP64 extra field (id 1): 8-byte values, present only for the fields that hold 0xFFFFFFFF, in
     // this order. Walked like jszip walks extra fields (a later field of the same id wins).

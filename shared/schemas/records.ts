@@ -125,6 +125,8 @@ export type FabStepInput = z.infer<typeof fabStepSchema>
 
 // ---------- arrays ----------
 export const SHAPES = ['disk', 'ring', 'ellipse', 'rectangle', 'square', 'triangle', 'hexagon', 'cross', 'l-shape', 'split-ring', 'gammadion', 'dimer', 'custom'] as const
+/** The named dimensions (nm) each shape asks for (the form, the Excel columns and the server's checks use one list). */
+export { SHAPE_DIMENSIONS } from '../array-sense'
 export const LATTICES = ['single', 'square', 'hexagonal', 'rectangular', 'custom'] as const
 export const arraySchema = z.object({
   chipId: id,

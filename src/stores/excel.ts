@@ -38,10 +38,10 @@ export const useExcelStore = defineStore('excel', () => {
   }
 
   /** Check a file (dryRun) or import it; the report replaces the previous one. */
-  async function send(file: File, dryRun: boolean): Promise<ImportReport> {
+  async function send(file: File, dryRun: boolean, opts: { planHash?: string; reason?: string } = {}): Promise<ImportReport> {
     isChecking.value = true
     try {
-      report.value = await excelApi.importWorkbook(file, dryRun)
+      report.value = await excelApi.importWorkbook(file, dryRun, opts)
       return report.value
     } finally {
       isChecking.value = false

@@ -81,7 +81,7 @@ describe('two app servers, each with its own disk, sharing MariaDB and an S3 buc
       expect(bytes.length).toBe(job.sizeBytes)
       const book = new ExcelJS.Workbook()
       await book.xlsx.load(bytes as unknown as ArrayBuffer)
-      expect(book.worksheets.map((w) => w.name)).toEqual(['About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations'])
+      expect(book.worksheets.map((w) => w.name)).toEqual(['About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'Fabrication', 'Laser setups', 'Moves', 'Files'])
 
       // The workbook is in the bucket under its hash; neither server's disk keeps it.
       const row = await jobRow(job.id)

@@ -26,7 +26,15 @@ describe('inventory export', () => {
     const { job, book } = await runExport(lead)
     expect(job.fileName).toMatch(/^overtone-inventory-\d{8}-\d{4}\.xlsx$/)
     expect(job.done).toBe(job.total)
-    expect(book.worksheets.map((w) => w.name)).toEqual(['About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations'])
+    expect(book.worksheets.map((w) => w.name)).toEqual(['About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'Fabrication', 'Laser setups', 'Moves', 'Files'])
+    // read-only sheets: the demo lab's laser setups with their sign-off state
+    const setups = book.getWorksheet('Laser setups')!
+    const sHeader = (setups.getRow(1).values as unknown[]).slice(1)
+    expect(sHeader).toEqual(expect.arrayContaining(['Code', 'Laser class', 'Sign-off', 'Sessions may be logged today', 'Approval expires on']))
+    expect(setups.rowCount).toBeGreaterThan(1)
+    expect(String(setups.getRow(2).getCell(sHeader.indexOf('Sign-off') + 1).value)).toMatch(/^(draft|waiting|approved|approval expired|rejected|revoked|voided)/)
+    expect((book.getWorksheet('Files')!.getRow(1).values as unknown[]).slice(1)).toEqual(expect.arrayContaining(['File name', 'SHA-256', 'Attached to']))
+    expect((book.getWorksheet('Moves')!.getRow(1).values as unknown[]).slice(1)).toEqual(expect.arrayContaining(['Code', 'From', 'To', 'Moved by']))
     for (const ws of book.worksheets) {
       expect(ws.views[0]).toMatchObject({ state: 'frozen', ySplit: 1 })
       expect(ws.getRow(1).getCell(1).font?.bold).toBe(true)

@@ -113,7 +113,7 @@ describe('Excel import: ZIP bombs and damaged packages (reader)', () => {
     expect(await refusal(zip(padded(parts, 10, gb)))).toBe('The workbook expands to 1.2 GB of data; at most 200 MB can be read: split the file')
     expect(await refusal(zip(padded(parts, 10, 5 * 2 ** 30), { zip64: true }))).toBe('The workbook expands to 5 GB of data; at most 200 MB can be read: split the file')
     const honest64 = await loadWorkbook(zip(parts, { zip64: true }))
-    expect(readImportSheets(honest64).sheets[0].rows).toHaveLength(1)
+    expect((await readImportSheets(honest64)).sheets[0].rows).toHaveLength(1)
   })
 
   it('a part holding more than its header declares, a cut-short file, an encrypted part, too many parts, a password-protected file', async () => {
@@ -133,13 +133,13 @@ describe('Excel import: ZIP bombs and damaged packages (reader)', () => {
 
   it('rows over the limit: the sheet is refused with a clear message; formatted and blank rows do not count', async () => {
     const rows = (n: number) => Array.from({ length: n }, (_, i) => ['W-0001', i + 1, 5, 5])
-    const over = readImportSheets(workbookOf({ Chips: [['Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ...rows(4)] }), { maxRows: 3 })
+    const over = await readImportSheets(await loadWorkbook(await toBuffer(workbookOf({ Chips: [['Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ...rows(4)] }))), { maxRows: 3 })
     expect(over.sheets[1].messages).toEqual([{ column: null, message: 'The sheet has 4 rows; at most 3 can be imported at once: split the file', level: 'error' }])
     expect(over.sheets[1].rows).toEqual([])
     const book = workbookOf({ Chips: [['Wafer', 'Index', 'Width (mm)', 'Height (mm)'], ...rows(3), ['', '  ', null, null], ['', '', '', '']] })
     const ws = book.getWorksheet('Chips')!
     for (let r = 10; r < 200; r++) ws.getRow(r).getCell(2).fill = { type: 'pattern', pattern: 'solid', fgColor: { argb: 'FFFFFF00' } }
-    const within = readImportSheets(await loadWorkbook(await toBuffer(book)), { maxRows: 3 })
+    const within = await readImportSheets(await loadWorkbook(await toBuffer(book)), { maxRows: 3 })
     expect(within.sheets[1].messages).toEqual([])
     expect(within.sheets[1].rows.map((r) => r.row)).toEqual([2, 3, 4])
   })
@@ -164,7 +164,7 @@ describe('Excel import: hostile workbooks through the API', () => {
     // The same padding below the limit is an ordinary workbook.
     const ok = await upload(lead, zip(padded(parts, 2 ** 20)), true)
     expect(ok.status).toBe(200)
-    expect(ok.body.createCount).toBe(1)
+    expect(ok.body.summary.create).toBe(1)
   })
 
   it('a sheet with more rows than allowed is refused with the sheet-level message; nothing is written', async () => {
@@ -216,7 +216,7 @@ describe('Excel import: hostile workbooks through the API', () => {
     expect(first('Wafers', 4)).toMatchObject({ column: 'Thickness (µm)', message: 'the cell holds the error #DIV/0!' })
     expect(first('Wafers', 5)).toMatchObject({ column: 'Lot', message: 'expected text, found TRUE/FALSE' })
     expect(first('Wafers', 6)).toMatchObject({ column: 'Received on', message: expect.stringMatching(/formatted as a date but its number is not a date/) })
-    expect(first('Wafers', 7)).toMatchObject({ column: 'Diameter (mm)', message: 'the cell holds the error #DIV/0!' })
+    expect(first('Wafers', 7)).toMatchObject({ column: 'Diameter (mm)', message: expect.stringMatching(/^formula without a value .*an error such as #DIV\/0!/) })
     expect(first('Wafers', 8)).toMatchObject({ column: 'Thickness (µm)', message: expect.stringMatching(/^formula without a value/) })
     expect(at('Wafers', 9).messages).toEqual(expect.arrayContaining([
       expect.objectContaining({ column: 'Notes', message: 'the text has 3,000 characters; at most 2,000 are read' }),
@@ -225,7 +225,7 @@ describe('Excel import: hostile workbooks through the API', () => {
     expect(first('Wafers', 10)).toMatchObject({ column: 'Received on', message: 'expected a date, found the date is outside the years 1900–9999' })
     expect(first('Wafers', 11)).toMatchObject({ column: 'Diameter (mm)', message: 'expected a number in mm, found a date' })
     expect(at('Chips', 2)).toMatchObject({ status: 'create' })
-    expect(first('Chips', 3)).toMatchObject({ column: 'Wafer', message: 'No wafer 5 on the Wafers sheet (Ref) or in Overtone (code)' })
+    expect(first('Chips', 3)).toMatchObject({ column: 'Wafer', message: 'No wafer 5: neither a Code on the Wafers sheet nor a wafer in Overtone' })
     expect(first('Chips', 4)).toMatchObject({ column: 'Index', message: 'expected a number, found text "two"' })
     expect(first('Chips', 5)).toMatchObject({ column: 'Width (mm)', message: 'expected a number in mm, found TRUE/FALSE' })
     expect(first('Chips', 6)).toMatchObject({ column: 'Location', message: expect.stringMatching(/^No location 7 in Overtone/) })

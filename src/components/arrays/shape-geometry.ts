@@ -62,5 +62,5 @@ export function shapeOutline(shape: string, d: Record<string, number> = {}): Sha
   return out
 }
 
-/** The named dimensions (nm) each shape asks for in the array form (one list for the form and the server's checks). */
-export { SHAPE_DIMENSIONS } from '../../../shared/array-sense'
+/** The named dimensions (nm) each shape asks for in the array form (shared with the Excel template and export and the server's checks). */
+export { SHAPE_DIMENSIONS } from '../../../shared/schemas/records'

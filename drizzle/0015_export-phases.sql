@@ -1,0 +1,1 @@
+ALTER TABLE `export_jobs` MODIFY COLUMN `phase` enum('queued','counting','About','Materials','Wafers','Chips','Arrays','Sessions','Locations','Fabrication','Laser setups','Moves','Files','done','failed') NOT NULL;
