@@ -5,8 +5,8 @@ CREATE TABLE `code_series` (
 );
 --> statement-breakpoint
 INSERT INTO `code_series` (`series`, `last_number`) VALUES
-  ('W', (SELECT COALESCE(MAX(CAST(SUBSTRING(`code`, 3) AS UNSIGNED)), 0) FROM `wafers` WHERE `code` LIKE 'W-%')),
-  ('L', (SELECT COALESCE(MAX(CAST(SUBSTRING(`code`, 3) AS UNSIGNED)), 0) FROM `locations` WHERE `code` LIKE 'L-%'));
+  ('W', (SELECT COALESCE(MAX(CAST(SUBSTRING(`code`, 3) AS UNSIGNED)), 0) FROM `wafers` WHERE `code` REGEXP '^W-[0-9]+$')),
+  ('L', (SELECT COALESCE(MAX(CAST(SUBSTRING(`code`, 3) AS UNSIGNED)), 0) FROM `locations` WHERE `code` REGEXP '^L-[0-9]+$'));
 --> statement-breakpoint
 -- updated_at is the version an Excel export writes beside each row: make every UPDATE move it, also one that forgets to set it.
 ALTER TABLE `wafers` MODIFY `updated_at` datetime(3) NOT NULL DEFAULT CURRENT_TIMESTAMP(3) ON UPDATE CURRENT_TIMESTAMP(3);

@@ -30,7 +30,7 @@ describe('Excel import and other people’s writes', () => {
       Wafers: [['Code', 'Material', 'Cut normal', 'Flat direction', 'Diameter (mm)', 'Thickness (µm)', 'Lot'],
         ...[1, 2, 3].map((n) => [`W${n}`, material.name, '0 0 1', '1 -1 0', 50.8, 350, lot])],
       Chips: [['Code', 'Wafer', 'Width (mm)', 'Height (mm)'], ['K1', 'W1', 5, 5], ['K2', 'W2', 5, 5]],
-      Arrays: [['Chip', 'Position', 'Shape', 'Lattice', 'Diameter (nm)'], ['K1', 'A1', 'disk', 'square', 450], [chip.code, 'Q7', 'disk', 'square', 450]],
+      Arrays: [['Chip', 'Position', 'Shape', 'Lattice', 'Diameter (nm)', 'Period X (nm)'], ['K1', 'A1', 'disk', 'square', 450, 900], [chip.code, 'Q7', 'disk', 'square', 450, 900]],
     }))
     const dry = (await upload(lead, bytes, true)).body as ImportReport
     expect(dry.summary).toMatchObject({ create: 7, error: 0 })
