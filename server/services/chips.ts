@@ -1,3 +1,4 @@
+import { DEFAULT_KERF_MM, maxChipsOnWafer } from '../../shared/wafer-fit'
 import { and, asc, count, desc, eq, like, or, sql } from 'drizzle-orm'
 import { chips, wafers, materials, users, locations, arrays, type User } from '../db/schema/index'
 import type { SelectResultFields } from 'drizzle-orm/query-builders/select.types'
@@ -94,12 +95,30 @@ export async function getChipDetail(db: Db, id: number): Promise<Chip & { arrays
 }
 
 /**
+ * The new chips, with the saw's kerf, must fit the wafer beside the chips already cut from it
+ * (counted in units of the new chip's cell): a chip larger than the wafer, or more chips than its
+ * area holds, is refused on the field to fix.
+ */
+async function requireChipsFit(tx: Db, wafer: { id: number; code: string; diameterMm: number }, input: DiceInput): Promise<void> {
+  const d = Number(wafer.diameterMm), k = DEFAULT_KERF_MM
+  if (Math.hypot(input.widthMm, input.heightMm) > d)
+    throw fieldError('widthMm', `A ${input.widthMm} × ${input.heightMm} mm chip does not fit a ${d} mm wafer`)
+  const capacity = maxChipsOnWafer(d, input.widthMm, input.heightMm, k)
+  const cell = (input.widthMm + k) * (input.heightMm + k)
+  const cut = await tx.select({ w: chips.widthMm, h: chips.heightMm }).from(chips).where(eq(chips.waferId, wafer.id))
+  const used = cut.reduce((sum, c) => sum + ((Number(c.w) + k) * (Number(c.h) + k)) / cell, 0)
+  const left = Math.max(0, Math.floor(capacity - used + 1e-9))
+  if (input.count > left)
+    throw fieldError('count', `A ${d} mm wafer holds at most ${capacity} chips of ${input.widthMm} × ${input.heightMm} mm (${k * 1000} µm kerf); ${cut.length ? `with the ${cut.length} already cut, ${left} more fit` : `${left} fit`}`)
+}
+
+/**
  * Dice `count` chips from a wafer in ONE transaction: the wafer row is locked, numbering continues
  * after its existing chips (C-0001-01…); a count past index 99 or a bad location writes nothing.
  */
 export async function diceChips(db: Db, actor: User, input: DiceInput): Promise<number[]> {
   const run = async (tx: Db) => {
-    const [w] = (await tx.execute(sql`SELECT id, code, status FROM wafers WHERE id = ${input.waferId} FOR UPDATE`)) as unknown as [{ id: number; code: string; status: string }[]]
+    const [w] = (await tx.execute(sql`SELECT id, code, status, diameter_mm AS diameterMm FROM wafers WHERE id = ${input.waferId} FOR UPDATE`)) as unknown as [{ id: number; code: string; status: string; diameterMm: number }[]]
     const wafer = w[0]
     if (!wafer) throw fieldError('waferId', 'No such wafer')
     if (wafer.status === 'retired') throw fieldError('waferId', `${wafer.code} is retired; it cannot be diced`)
@@ -109,6 +128,7 @@ export async function diceChips(db: Db, actor: User, input: DiceInput): Promise<
     }
     const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${chips.index}), 0)` }).from(chips).where(eq(chips.waferId, wafer.id))
     const first = Number(last) + 1
+    await requireChipsFit(tx, wafer, input)
     if (first + input.count - 1 > MAX_CHIP_INDEX)
       throw fieldError('count', `${wafer.code} already has ${first - 1} chip(s); chip numbers stop at ${MAX_CHIP_INDEX}, so at most ${Math.max(0, MAX_CHIP_INDEX - first + 1)} more can be diced`)
     const rows = Array.from({ length: input.count }, (_, k) => ({
