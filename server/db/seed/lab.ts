@@ -101,7 +101,8 @@ export async function seedLab(db: Db): Promise<void> {
       materialId: materialIds.get(w.m)!, cutNormal: w.n as [number, number, number], flatDirection: w.f as [number, number, number], diameterMm: w.d, thicknessUm: w.t,
       lot: w.lot, supplier: w.s, receivedOn: `2025-0${1 + (k % 9)}-1${k % 10}`, locationId: boxes[k % boxes.length], status: 'in_process', notes: w.notes,
     })
-    const size = w.d < 20 ? 4 : 8
+    // Chips sized so that seven of them fit the wafer with the saw's kerf (dicing refuses more).
+    const size = w.d < 20 ? 2 : w.d < 30 ? 5 : 8
     for (const [rotationDeg, count] of [[0, 3], [45, 2], [90, 2]])
       chipIds.push(...await diceChips(db, fab, { waferId: wafer.id, count, rotationDeg, widthMm: size, heightMm: size, locationId: boxes[(k + 1) % boxes.length], notes: null }))
     k++
