@@ -14,7 +14,7 @@ export default defineConfig({
   build: {
     outDir: fromRoot('./dist/client'),
     emptyOutDir: true,
-    // The JS `sass` compiler trips rolldown's plugin-timing note on every build (STACK.md §7).
+    // The JS `sass` compiler trips rolldown's plugin-timing note on every build.
     rolldownOptions: { checks: { bundlerTimings: false } },
   },
   plugins: [

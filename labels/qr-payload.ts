@@ -4,11 +4,11 @@
  *
  * Payload: `<PUBLIC_URL>/S/<CODE>`, all upper case, e.g. `HTTPS://LAB.EXAMPLE/S/W-0001`. Upper
  * case keeps every character in QR alphanumeric mode (0–9 A–Z space $ % * + - . / :), which needs
- * a smaller version than byte mode (FACTS.md §3.1). Scheme and host are case-insensitive, so
+ * a smaller version than byte mode (ISO/IEC 18004; docs/labels.md §2). Scheme and host are case-insensitive, so
  * phones still open the page; the client answers both `/s/<code>` and `/S/<code>`.
  */
 
-/** The characters of QR alphanumeric mode (ISO/IEC 18004, via FACTS.md §3.1). */
+/** The characters of QR alphanumeric mode (ISO/IEC 18004, alphanumeric mode). */
 export const QR_ALPHANUMERIC = /^[0-9A-Z $%*+\-./:]*$/
 
 /** A record code as printed: letters, digits and hyphens, e.g. W-0001, C-0001-01, A-0001-01-B2, LS-001. */

@@ -2,8 +2,8 @@
  * Label templates, as data. The server renders them to SVG (server/services/label-svg.ts) and the
  * client uses the same sizes for true-size previews and the print view's `@page` rule.
  *
- * All lengths are millimetres. Print and QR conventions (FACTS.md §3.1, team note after
- * ISO/IEC 18004):
+ * All lengths are millimetres. Print and QR conventions (ISO/IEC 18004 for the symbol; print rules
+ * are common practice, docs/labels.md §3):
  * - the QR quiet zone is 4 modules on every side and is part of `qrSizeMm`'s square;
  * - a module is a whole number of printer dots at 300 dpi (1 dot = 25.4 / 300 = 0.0847 mm) and at
  *   least 3 dots (0.254 mm), the smallest a phone camera reads reliably at close range;

@@ -2,7 +2,7 @@
 import type { AppAbility } from '../shared/abilities'
 
 // Lets vue-tsc type `$can(...)` in templates; the global properties come from
-// `abilitiesPlugin(..., { useGlobalProperties: true })` in main.ts (STACK.md §7).
+// `abilitiesPlugin(..., { useGlobalProperties: true })` in main.ts.
 declare module 'vue' {
   interface ComponentCustomProperties {
     $ability: AppAbility

@@ -23,7 +23,7 @@ const escapeXml = (s: string) => s.replace(/[<>&'"]/g, (c) => ({ '<': '&lt;', '>
 
 /**
  * The QR symbol for `payload` fitted into a square of `sizeMm` (quiet zone included), with the
- * module a whole number of 300-dpi dots, at least MIN_MODULE_DOTS (FACTS.md §3.1). The path's
+ * module a whole number of 300-dpi dots, at least MIN_MODULE_DOTS (docs/labels.md §3). The path's
  * origin is the symbol's top-left corner, quiet zone included.
  */
 export function qrSymbol(payload: string, ecc: LabelTemplate['ecc'], sizeMm: number): QrSymbol {

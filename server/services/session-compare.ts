@@ -64,7 +64,7 @@ export function compareObserved(predicted: ChannelResponse, observed: Observed, 
 }
 
 /**
- * Derived quantities (FACTS.md §4.2): η = P_N / P_pump with average powers, and for SHG the
+ * Derived quantities (docs/physics.md §5): η = P_N / P_pump with average powers, and for SHG the
  * normalised P_2 / P_pump² in W⁻¹. Pump power is stored in mW; null when a power is missing or zero.
  */
 export function deriveEfficiency(avgPowerMw: number | null | undefined, harmonicPowerW: number | null, order: number) {

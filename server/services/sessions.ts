@@ -16,7 +16,7 @@ import { plainRows } from '../db/plain-rows'
 
 /**
  * Measurement sessions: one session (pump, detection) on one or more arrays, with the observed
- * channels per array compared against the engine. Contemporaneous records (FACTS.md §3.2 item 6):
+ * channels per array compared against the engine. Contemporaneous records (docs/records.md §3):
  * createdAt is the entry time, performedAt the activity time; entries more than 24 h after the
  * activity are flagged, and edits to entries older than 24 h need a reason.
  */

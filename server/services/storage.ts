@@ -9,7 +9,7 @@ import { AppError } from '../errors'
 /**
  * Content-addressed blob storage for uploaded files and finished Excel exports. A blob is named by
  * the SHA-256 of its bytes, so the same content uploaded twice is stored once and a stored blob
- * never changes (originals are kept unchanged with their checksum: FACTS.md §3.2 behaviour 7).
+ * never changes (originals are kept unchanged with their checksum: docs/records.md §4).
  * Only expired export workbooks are ever removed (excel-export.ts, never one a `files` row names).
  *
  * Only this interface is used by the services. `LocalDiskStorage` keeps blobs under

@@ -1,6 +1,6 @@
 /**
  * Plain-language flags that compare a measured harmonic peak with the engine's selection rules
- * for the same sample and pump (emission along the normal, rule 6 of the physics contract).
+ * for the same sample and pump (emission along the normal, rule 6 of docs/physics.md §3).
  */
 import type { ChannelResponse } from '../engine'
 import type { HarmonicPeak } from './spectrum'

@@ -1,5 +1,5 @@
 /**
- * Rules 4–7 of the physics contract (shared/ENGINE.md): allowed projections m of the N-th
+ * Rules 4–7 of the physics contract (docs/physics.md §3): allowed projections m of the N-th
  * harmonic, their mirror parity, emission along the normal and allowed multipoles. Lab frame;
  * m is the projection on +z; mirror azimuths in degrees.
  */

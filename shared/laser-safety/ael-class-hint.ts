@@ -4,7 +4,8 @@
  * Anything else yields `outside-table` ("outside the table, ask the LSO"). A hint is not a
  * classification: the manufacturer's label and the LSO govern.
  *
- * A class is met when every applicable requirement of IEC 60825-1 4.3 f (FACTS.md §1.1) holds:
+ * A class is met when every applicable requirement of IEC 60825-1:2014 4.3 f holds
+ * (docs/laser-safety.md §6):
  * the average power against the CW AEL, each pulse against the single-pulse AEL, and each
  * effective (grouped) pulse against the pulse AEL × C5. Class 3B uses the first two only.
  */

@@ -1,8 +1,9 @@
 /**
  * Accessible emission limits (AEL) of IEC 60825-1:2014 for the common cases, as data plus small
- * functions. Point source (C6 = 1). Source: FACTS.md §1.1 ([V] H visible, [S] M near-IR and
- * Class 3B pulses). The Class 1 pulse AEL is derived as MPE × limiting-aperture area, the relation
- * FACTS.md §1.3 states for Class 1.
+ * functions. Point source (C6 = 1). Source: IEC 60825-1:2014 Tables 3–8 (docs/laser-safety.md §6;
+ * checked for the visible rows, secondary for the near infrared and the Class 3B pulses). The Class 1
+ * pulse AEL is derived as MPE × limiting-aperture area, a relation built into the standard
+ * (docs/laser-safety.md §3).
  */
 import { correctionC4, correctionC7 } from './correction-factors'
 import { limitingApertureMm, ocularMpe } from './mpe'
@@ -78,6 +79,6 @@ function class3BPulse(nm: number, durationS: number): Ael {
     text = '0.125 J (> 1400 nm)'
   }
   if (durationS >= 1e-9) return { value: energy, formula: `AEL(3B) = ${text}` }
-  // Below 1 ns FACTS.md gives peak-power limits equal to the 1 ns energy limit / 1 ns ([S] M, unverified).
+  // Below 1 ns: a peak-power limit equal to the 1 ns energy limit / 1 ns (our reading, unconfirmed).
   return { value: (energy / 1e-9) * durationS, formula: `AEL(3B) = (${text} / 1 ns) × τ, a peak-power limit (IEC 60825-1:2014 Table 8)` }
 }

@@ -1,7 +1,7 @@
 /**
  * Derived beam quantities: pulse energy, peak power, peak intensity and fluence at a Gaussian
- * focus, and the nominal ocular hazard distance (NOHD). Plain physics; sources FACTS.md §4.2
- * [M] H (from memory) and §1.5 (NOHD [M] H). SI results; use `perM2ToPerCm2` for lab units.
+ * focus, and the nominal ocular hazard distance (NOHD). Plain physics (Siegman, Lasers, 1986)
+ * and the NOHD form of ANSI Z136.1 / IEC TR 60825-14 (from memory; docs/laser-safety.md §8). SI results; use `perM2ToPerCm2` for lab units.
  */
 import { computed, fmt, si, type Computed } from './computed'
 import { requireNonNegative, requirePositive, SafetyInputError } from './errors'
@@ -10,7 +10,7 @@ import { mmToM, mradToRad, umToM } from './units'
 /** Temporal pulse shape; sets k in P_pk = k·E/τ (τ = FWHM). */
 export type PulseShape = 'gaussian' | 'sech2'
 
-/** k = 0.94 for a Gaussian and 0.88 for a sech² pulse (FACTS.md §4.2 [M] H). */
+/** k = 0.94 for a Gaussian and 0.88 for a sech² pulse (peak of that pulse shape at FWHM τ). */
 export const PEAK_POWER_FACTOR: Readonly<Record<PulseShape, number>> = { gaussian: 0.94, sech2: 0.88 }
 
 const SRC_DERIVED = 'Gaussian beam and pulse relations (Siegman, Lasers, 1986)'
@@ -66,7 +66,7 @@ export interface NohdInput {
 
 /**
  * Nominal ocular hazard distance NOHD = (√(4P/(π·MPE)) − a)/φ (m), 0 when the beam is already
- * below the MPE at the exit (FACTS.md §1.5 [M] H, ANSI Z136.1 / IEC 60825-14 form).
+ * below the MPE at the exit (ANSI Z136.1 / IEC TR 60825-14 form).
  */
 export function nohd(input: NohdInput): Computed {
   requirePositive('averagePowerW', input.averagePowerW)

@@ -5,7 +5,7 @@ import { formatNumber, formatSi } from '../format'
  * where that formula comes from, so screens can show the working (issue 5).
  */
 
-/** Exposure-limit edition used for MPE-based results (see FACTS.md §1.3). */
+/** Exposure-limit edition used for MPE-based results (docs/laser-safety.md §1). */
 export type MpeEdition = 'EU-2006/25/EC' | 'IEC-60825-1:2014'
 
 /** All editions the library knows, in display order. */
@@ -18,7 +18,7 @@ export interface Computed<V = number> {
   unit: string
   /** The formula in plain text, with the numbers substituted where that helps. */
   formula: string
-  /** Section of FACTS.md (with its provenance tag) or `derived` for plain physics. */
+  /** The published clause or table (or textbook) the formula comes from; shown to users. */
   source: string
   /** Present on every result that depends on an exposure-limit table. */
   edition?: MpeEdition

@@ -1,7 +1,8 @@
 /**
  * Wavelength correction factors and pulse-grouping windows for the retinal hazard region and the
  * near-IR bands covered by the MPE table. Names follow IEC 60825-1:2014 (C4, C7, T_i); the
- * Directive/ICNIRP names (C_A, C_C, T_min) are given beside them. Source: FACTS.md §1.2.
+ * Directive/ICNIRP names (C_A, C_C, T_min) are given beside them. Sources: Directive 2006/25/EC Annex II
+ * Table 2.5, IEC 60825-1:2014 Table A.1 (docs/laser-safety.md §2).
  */
 import { computed, fmt, si, type Computed, type MpeEdition } from './computed'
 import { outsideTable, requirePositive } from './errors'
@@ -25,8 +26,8 @@ export function correctionC4(wavelengthNm: number): Computed {
 
 /**
  * C7 (= C_C), dimensionless. 1 for 700–1150 nm; 10^(0.018(λ−1150)) for 1150–1200 nm; 8 above.
- * For IEC 2014 the 1250–1400 nm range uses 8 + 10^(0.04(λ−1250)) (FACTS.md §1.2 [S] M, from two
- * implementations). Below 700 nm C7 is taken as 1 (it is only applied from 700 nm on).
+ * For IEC 2014 the 1250–1400 nm range uses 8 + 10^(0.04(λ−1250)) (seen in two public
+ * implementations, not yet in the standard). Below 700 nm C7 is taken as 1 (it is only applied from 700 nm on).
  */
 export function correctionC7(wavelengthNm: number, edition: MpeEdition): Computed {
   requirePositive('wavelengthNm', wavelengthNm)
@@ -56,8 +57,8 @@ const GROUPING_WINDOWS: readonly (readonly [number, number, number, number])[] =
 
 /**
  * Pulse-grouping window in seconds: pulses closer together than this count as one pulse in the
- * repetitive-pulse rule. T_i for IEC 2014 (FACTS.md §1.2 [S] M), T_min for the Directive
- * (Table 2.6 [V] H). Bands are closed below and open above, except that 1400 nm belongs to the
+ * repetitive-pulse rule. T_i for IEC 2014 (secondary source, docs/laser-safety.md §2), T_min for the Directive
+ * (Annex II Table 2.6). Bands are closed below and open above, except that 1400 nm belongs to the
  * 1050–1400 nm band (as in the MPE table).
  */
 export function groupingWindow(wavelengthNm: number, edition: MpeEdition): Computed {

@@ -1,7 +1,7 @@
 /**
- * Exposure at the eye compared with the MPE, rule by rule (FACTS.md §1.4, §1.5). The exposure is
+ * Exposure at the eye compared with the MPE, rule by rule (docs/laser-safety.md §5, §7). The exposure is
  * averaged over the limiting aperture: a beam no larger than the aperture counts in full over the
- * aperture area (Φ/A_aperture, FACTS.md §1.5 [V] H); a larger beam, taken as Gaussian with the
+ * aperture area (Φ/A_aperture, common practice); a larger beam, taken as Gaussian with the
  * given 1/e² diameter, counts only the share through a centred aperture.
  */
 import { computed, fmt, si, type Computed, type MpeEdition } from './computed'

@@ -1,6 +1,7 @@
 /**
  * EN 207 scale numbers (LB1–LB10) for laser protective filters, by mode D/I/R/M.
- * Source: FACTS.md §1.5 [V] M–H (public summaries of EN 207; UCC guideline implementation).
+ * Source: EN 207:2017 Annex B, read through public summaries and a public implementation of a
+ * university laser safety guideline (docs/laser-safety.md §7).
  * EN 207 and EN 208 are superseded by ISO 19818-1:2021; an LSO must confirm the numbers.
  */
 import { computed, fmt, si, type Computed } from './computed'
@@ -19,9 +20,9 @@ export interface En207Input {
   averagePowerW?: number
   beamDiameterMm: number
   pulse?: { durationS: number, repetitionRateHz?: number | null, energyJ?: number | null }
-  /** Interval (s) over which pulses are counted for N^(1/4); default 10 s (UCC). FACTS.md §5.2 open. */
+  /** Interval (s) over which pulses are counted for N^(1/4); default 10 s; open until confirmed (docs/laser-safety.md §7). */
   countingIntervalS?: number
-  /** Beams narrower than this are evaluated over this diameter (mm); default 1 mm. FACTS.md §5.2 open. */
+  /** Beams narrower than this are evaluated over this diameter (mm); default 1 mm; open until confirmed. */
   referenceDiameterMm?: number
 }
 

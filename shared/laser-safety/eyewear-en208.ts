@@ -1,6 +1,6 @@
 /**
  * EN 208 alignment eyewear (400–700 nm only): RB1–RB5 reduce the beam to about the Class 2 level.
- * Source: FACTS.md §1.5 [V] M–H (public EN 208 summary). Only the power passing a 7 mm aperture
+ * Source: EN 208:2009 Annex B via a public summary (docs/laser-safety.md §7). Only the power passing a 7 mm aperture
  * counts (the share of a Gaussian beam, see `apertureFraction`).
  */
 import { computed, fmt, si, type Computed } from './computed'

@@ -1,6 +1,7 @@
 /**
  * Required optical density of laser eyewear: OD = log10(H/MPE) (or E/MPE for irradiance), worked
- * out for the single-pulse, average and pulse-train rules and maximised (FACTS.md §1.5 [V] H).
+ * out for the single-pulse, average and pulse-train rules and maximised (common practice,
+ * docs/laser-safety.md §7).
  * The exposure is averaged over the limiting aperture (see `exposure.ts`).
  */
 import { computed, si, type Computed } from './computed'

@@ -1,8 +1,8 @@
 /**
  * Ocular MPE table (point source, C6 = C_E = 1) for the two editions, as typed constant data.
- * Source: FACTS.md §1.3. Directive 2006/25/EC Table 2.2 [V] H (ICNIRP 1996/2000 basis);
- * IEC 60825-1:2014 Table A.1 / ANSI Z136.1-2014 [S] M–H (ICNIRP 2013 basis). The 1400–1800 nm
- * rows are the same in both editions [V] H. Durations are in seconds.
+ * Sources (docs/laser-safety.md §3): Directive 2006/25/EC Annex II Table 2.2 (ICNIRP 1996/2000
+ * basis, regulation text); IEC 60825-1:2014 Table A.1 / ANSI Z136.1-2014 (ICNIRP 2013 basis, from
+ * public excerpts). The 1400–1800 nm rows are the same in both editions. Durations are in seconds.
  *
  * A row gives either a radiant exposure H = k·factor·t^exponent (J/m²) or an irradiance
  * E = k·factor (W/m², so H = E·t).
@@ -48,7 +48,7 @@ const visibleOrNearIr = (f: MpeFactor): Record<MpeEdition, readonly MpeRow[]> =>
     e(10, MPE_MAX_DURATION_S, 10, f),
   ],
   'IEC-60825-1:2014': [
-    // FACTS.md §1.3: the sub-10 ps row has no C4 in IEC 2014 (1.0×10⁻³ J/m² for 400–1050 nm).
+    // IEC 60825-1:2014 Table A.1: the sub-10 ps row has no C4 in IEC 2014 (1.0×10⁻³ J/m² for 400–1050 nm).
     h(1e-13, 1e-11, 1e-3, 0, '1'),
     h(1e-11, 5e-6, 2e-3, 0, f),
     h(5e-6, 10, 18, 0.75, f),

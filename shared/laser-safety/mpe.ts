@@ -1,6 +1,6 @@
 /**
  * Ocular maximum permissible exposure (MPE) for a point source, 400–1800 nm, in either edition.
- * Source: FACTS.md §1.3 (table in `mpe-table.ts`). Every result records the edition.
+ * Sources in `mpe-table.ts` (docs/laser-safety.md §3). Every result records the edition.
  */
 import { computed, fmt, si, type Computed, type MpeEdition } from './computed'
 import { correctionC4, correctionC7 } from './correction-factors'
@@ -79,7 +79,8 @@ export function ocularMpeIrradiance(input: MpeInput): Computed {
 
 /**
  * Limiting aperture diameter (mm) over which exposure is averaged: 7 mm for 400–1400 nm; beyond
- * 1400 nm 1 mm for t ≤ 0.3 s, 1.5·t^0.375 mm for 0.3–10 s, 3.5 mm from 10 s (FACTS.md §1.3 [V] H).
+ * 1400 nm 1 mm for t ≤ 0.3 s, 1.5·t^0.375 mm for 0.3–10 s, 3.5 mm from 10 s (IEC 60825-1:2014 Annex A,
+ * as reproduced in public excerpts).
  */
 export function limitingApertureMm(wavelengthNm: number, durationS: number): Computed {
   requirePositive('wavelengthNm', wavelengthNm)

@@ -1,5 +1,6 @@
 /**
- * Exposure limits for repetitively pulsed beams: the three rules of FACTS.md §1.4.
+ * Exposure limits for repetitively pulsed beams: the three rules of IEC 60825-1:2014 4.3 f / Annex A and
+ * Directive 2006/25/EC Annex II Table 2.6 (docs/laser-safety.md §5).
  *
  * 1. Single pulse: each pulse ≤ MPE(τ).
  * 2. Average: the train over T ≤ MPE(T), expressed here as a mean irradiance MPE(T)/T.
@@ -59,7 +60,8 @@ export function groupPulses(input: PulseTrainInput): PulseGrouping {
 }
 
 /**
- * C5 of IEC 60825-1:2014 for a point source (FACTS.md §1.4 [S] M, to be verified in 4.3 f).
+ * C5 of IEC 60825-1:2014 for a point source (read from a public implementation of 4.3 f; to be
+ * confirmed in the standard, docs/laser-safety.md §5).
  * Effective pulses no longer than T_i: 1 if T ≤ 0.25 s or N ≤ 600, else max(0.4, 5·N^−0.25).
  * Longer pulses: 1 (a point source has α ≤ 5 mrad).
  */
@@ -75,14 +77,14 @@ export function correctionC5(grouping: PulseGrouping, exposureDurationS: number)
   return computed(Math.max(0.4, raw), '1', `C5 = max(0.4, 5·N^−0.25) = max(0.4, ${fmt(raw)}), N = ${fmt(n)}`, src, { edition })
 }
 
-/** C_P = N^−0.25 of the Directive (Table 2.6, FACTS.md §1.4 [V] H); thermal limits only. */
+/** C_P = N^−0.25 of the Directive (Annex II Table 2.6); thermal limits only. */
 export function correctionCP(grouping: PulseGrouping): Computed {
   const n = grouping.effectivePulseCount
   return computed(n ** -0.25, '1', `C_P = N^−0.25 = ${fmt(n)}^−0.25`, 'Directive 2006/25/EC Annex II Table 2.6',
     { edition: 'EU-2006/25/EC', notes: ['applies to thermal limits only'] })
 }
 
-/** The three repetitive-pulse limits for a train (rules 1–3 of FACTS.md §1.4). */
+/** The three repetitive-pulse limits for a train (rules 1–3 of docs/laser-safety.md §5). */
 export function pulseTrainLimits(input: PulseTrainInput): PulseTrainLimits {
   const edition = requireEdition(input.edition)
   requirePositive('wavelengthNm', input.wavelengthNm)

@@ -23,7 +23,7 @@ afterAll(async () => { await t.stop() })
 
 const unique = (s: string) => `${s} ${Date.now()}-${Math.floor(Math.random() * 1e6)}`
 const day = (n: number) => new Date(Date.now() + n * 86400_000).toISOString().slice(0, 10)
-/** FACTS.md §1.6 worked example A: Ti:sapphire 800 nm, 100 fs, 80 MHz, 1 W, 2 mm, 1 mrad, with SH. */
+/** Check case A (docs/laser-safety.md §9): Ti:sapphire 800 nm, 100 fs, 80 MHz, 1 W, 2 mm, 1 mrad, with SH. */
 const exampleA = (extra: Record<string, unknown> = {}) => ({
   name: unique('Ti:Sa example A'), room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [800], notes: 'Worked example A',
   pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000, beamDiameterMm: 2, divergenceMrad: 1, harmonicOrders: [2], laserClass: '4',
@@ -145,7 +145,7 @@ describe('GET /api/laser-setups/queue', () => {
   })
 })
 
-describe('computed figures through the API (FACTS.md §1.6 worked example A)', () => {
+describe('computed figures through the API (check case A, docs/laser-safety.md §9)', () => {
   it('800 nm, 100 fs, 80 MHz, 1 W: E_p = 12.5 nJ, P_pk ≈ 117 kW, Class 4 hint, OD ≈ 3.21, D 800 LB5 + M 800 LB4; 400 nm uncovered', async () => {
     const s = await create()
     const { body } = await safety.get(`/api/laser-setups/${s.id}?spotUm=2`)

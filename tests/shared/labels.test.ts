@@ -12,8 +12,8 @@ function symbolOf(text: string, ecc: 'L' | 'M' | 'Q' | 'H') {
   return { version: qr.version, size: qr.modules.size, modes: qr.segments.map((s) => s.mode.id) }
 }
 
-// Source: ISO/IEC 18004 capacity tables via FACTS.md §3.1 (team note), checked against the qrcode package.
-describe('QR capacity check values (ISO/IEC 18004 capacity tables via FACTS.md §3.1, team note)', () => {
+// Source: ISO/IEC 18004 capacity tables (public version tables), checked against the qrcode package.
+describe('QR capacity check values (ISO/IEC 18004 capacity tables)', () => {
   it('HTTPS://LAB.EXAMPLE/S/7K2QX9 (28 alphanumeric chars) fits version 2 at Q (29)', () => {
     expect(symbolOf('HTTPS://LAB.EXAMPLE/S/7K2QX9', 'Q')).toEqual({ version: 2, size: 25, modes: ['Alphanumeric'] })
   })

@@ -17,8 +17,8 @@ import { arrayCode } from '../../services/codes'
  * The invented Kestrel Nanophotonics Group's inventory: materials with typical coefficients,
  * a storage tree, wafers of several crystals and cuts, chips diced through the services (one
  * transaction per dicing), a few hundred arrays (batched inserts, channels derived) and three
- * laser setups. Records are created by the fab technician. Values from /work/shared/FACTS.md §4.4
- * where given; the others are marked "from memory, verify".
+ * laser setups. Records are created by the fab technician. Each coefficient names its published
+ * source; values not checked against it are marked "from memory, verify".
  */
 const TYP = 'typical value, verify for your wavelength'
 const c = (component: string, valuePmV: number, wavelengthNm: number, ref: string): Coefficient =>

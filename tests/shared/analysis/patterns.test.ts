@@ -49,7 +49,7 @@ describe('D3h monolayer rotational anisotropy (Li et al., Nano Lett. 13, 3329 (2
 
 // Zinc blende (-43m) on (111), lab x ∥ [1-10], z ∥ [111]: in units of d14 the in-plane d-matrix is
 // d16 = d21 = −d22 = √(2/3), d11 = d12 = d26 = 0 (SHAARP, npj Comput. Mater. 8, 246 (2022), suppl.
-// note 5; restated in shared/ENGINE.md). With E = (cos θ, sin θ): P_x = 2 d16 E_x E_y = √(2/3) sin 2θ,
+// note 5; docs/physics.md §4). With E = (cos θ, sin θ): P_x = 2 d16 E_x E_y = √(2/3) sin 2θ,
 // P_y = d21 E_x² + d22 E_y² = √(2/3) cos 2θ, so P·e_θ = √(2/3) sin 3θ and P·e_θ+90° = √(2/3) cos 3θ:
 // I_par = (2/3) sin²(3θ) (six lobes), I_perp = (2/3) cos²(3θ), and without analyser 2/3 (isotropic).
 describe('(111) zinc-blende six-fold pattern (closed form from the SHAARP d-matrix)', () => {
@@ -74,9 +74,9 @@ describe('(111) zinc-blende six-fold pattern (closed form from the SHAARP d-matr
 // (P_x = 2 d14 E_y E_z, P_y = 2 d14 E_x E_z), so at normal incidence the bulk gives NO in-plane
 // harmonic field; the generated P_z = 2 d14 E_x E_y = d14 sin 2θ has the four-fold sin²(2θ)
 // dependence familiar from (001) GaAs rotational-anisotropy work (common practice), which is seen
-// only off the normal (oblique incidence or high-NA collection). Consistent with shared/ENGINE.md:
+// only off the normal (oblique incidence or high-NA collection). Consistent with docs/physics.md §4:
 // a (001) disk emits no SH along the normal.
-describe('(001) zinc blende at normal incidence (common practice; shared/ENGINE.md)', () => {
+describe('(001) zinc blende at normal incidence (common practice; docs/physics.md §4)', () => {
   const p = predictPattern({ pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0], order: 2 }, undefined, 0, angles)
 
   it('radiates nothing along the normal for any analyser', () => {

@@ -53,7 +53,7 @@ describe('harmonic peak in a spectrum (Gaussian on a sloped background, analytic
   })
 })
 
-// shared/ENGINE.md (common practice for -43m): a (001) zinc-blende disk under a linear pump has SH
+// Common practice for -43m (docs/physics.md §4): a (001) zinc-blende disk under a linear pump has SH
 // m ∈ {−4, −2, 0, 2, 4}: no emission along the normal. On (111) (Q = {0, ±3}) it is allowed.
 describe('flag: a harmonic peak where the engine forbids emission along the normal', () => {
   const request = (normal: number[], reference: number[]) => ({

@@ -151,7 +151,7 @@ describe('caches never change an answer', () => {
 })
 
 describe('rule 4 fast path (seeded)', () => {
-  // Reference: rule 4 written out term by term (m = Σ m_i + q + k·n, |m| ≤ window), from ENGINE.md.
+  // Reference: rule 4 written out term by term (m = Σ m_i + q + k·n, |m| ≤ window), docs/physics.md §3.
   function reference(pump: number[], order: number, q: number[], n: number, window: number): number[] {
     const out = new Set<number>()
     for (const s of sumProjections(pump, order))

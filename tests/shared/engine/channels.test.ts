@@ -5,7 +5,7 @@ import { computeChannels, deriveArraySymmetry, getPointGroup, POINT_GROUP_SYMBOL
 const zb001 = { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0] }
 const revolution = { rotationOrder: 0, mirrors: [0, 90] }
 
-// Common practice / standard results for the zinc-blende tensor (ENGINE.md, published facts).
+// Common practice / standard results for the zinc-blende tensor (docs/physics.md §4).
 describe('zinc-blende (001) channels (common practice)', () => {
   it('circular pump m = +1 on a body of revolution: SH m ∈ {0, 4} only', () => {
     const r = computeChannels({ crystal: zb001, structure: revolution, pump: { type: 'circular', m: 1 }, order: 2 })

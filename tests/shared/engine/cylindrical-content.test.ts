@@ -14,7 +14,7 @@ describe('cylindrical content Q', () => {
     expect(Q('-43m', [1, 1, 1], [1, -1, 0])).toEqual([-3, 0, 3])
   })
 
-  it('isotropic interface χ(2): Q = {0} (ENGINE.md rule 2)', () => {
+  it('isotropic interface χ(2): Q = {0} (docs/physics.md §3 rule 2)', () => {
     expect(Q('m-3m', [0, 0, 1], [1, 0, 0], 2, true)).toEqual([0])
   })
 

@@ -4,7 +4,7 @@ import { prepareSampleTensor, sampleParity, computeMirrorParity } from '../../..
 const parity = (normal: [number, number, number], reference: [number, number, number], psi: number) =>
   sampleParity(prepareSampleTensor({ pointGroup: '-43m', normal, reference, order: 2 }), psi)
 
-describe('mirror parity of the rotated tensor (ENGINE.md published facts, common practice)', () => {
+describe('mirror parity of the rotated tensor (common practice; docs/physics.md §4)', () => {
   it('(001) with x ∥ [100]: odd under both axis mirrors', () => {
     expect(parity([0, 0, 1], [1, 0, 0], 0)).toBe(-1)
     expect(parity([0, 0, 1], [1, 0, 0], 90)).toBe(-1)

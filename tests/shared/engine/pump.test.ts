@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { pumpProjections, pumpParity, describeCircularHandedness, parsePump, EngineError } from '../../../shared/engine'
 
-// Pump conventions: ENGINE.md "Frames and conventions" (m on +z, e^{−imα} under rotation by α).
+// Pump conventions: docs/physics.md §1 (m on +z, e^{−imα} under rotation by α).
 describe('pump projections and parity', () => {
   it('projections of each pump kind', () => {
     expect(pumpProjections({ type: 'circular', m: -1 })).toEqual([-1])

@@ -18,7 +18,7 @@ describe('structure symmetry from shape and lattice', () => {
     expect(structureGroupName(latticeSymmetry({ kind: 'rectangular' }))).toBe('C2v')
   })
 
-  it('array = common subgroup (ENGINE.md rule 3): triangles on a square lattice keep only the mirror at 90°', () => {
+  it('array = common subgroup (docs/physics.md §3 rule 3): triangles on a square lattice keep only the mirror at 90°', () => {
     expect(deriveArraySymmetry({ kind: 'triangle' }, { kind: 'square' })).toEqual({ rotationOrder: 1, mirrors: [90] })
     expect(deriveArraySymmetry({ kind: 'triangle' }, { kind: 'hexagonal' })).toEqual({ rotationOrder: 3, mirrors: [30, 90, 150] })
     expect(deriveArraySymmetry({ kind: 'disk' }, { kind: 'square' })).toEqual(deriveArraySymmetry({ kind: 'square' }, { kind: 'square' }))

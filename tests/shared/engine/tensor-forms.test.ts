@@ -11,7 +11,7 @@ const CHI2_COUNTS: Record<string, number> = {
 }
 
 // χ(3) without any permutation symmetry: [non-zero elements, independent elements].
-// Cubic rows: Boyd, Nonlinear Optics, §1.5 (stated in ENGINE.md). Other rows: Boyd §1.5 table,
+// Cubic rows: Boyd, Nonlinear Optics, §1.5. Other rows: Boyd §1.5 table,
 // reproduced from memory.
 const CHI3_GENERAL: Record<string, [number, number]> = {
   '432': [21, 4], '-43m': [21, 4], 'm-3m': [21, 4], '23': [21, 7], 'm-3': [21, 7],

@@ -28,7 +28,7 @@ describe('d-matrix equalities (handbook forms)', () => {
     expect(describeDMatrixEqualities(solveTensorForm('-42m', 2))).toEqual(['d14 = d25', 'd36'])
   })
 
-  it('trap: SHG d-matrix has no factor 2 where piezoelectric tables have d16 = −2 d22 (ENGINE.md traps)', () => {
+  it('trap: SHG d-matrix has no factor 2 where piezoelectric tables have d16 = −2 d22 (Nye; IEEE Std 176-1987; docs/physics.md §4)', () => {
     const t = solveTensorForm('3m', 2).tensors
     const withD22 = t.find((x) => toVoigt(x)[1][1] !== 0)!
     const d = toVoigt(withD22)
@@ -36,7 +36,7 @@ describe('d-matrix equalities (handbook forms)', () => {
     expect(d[1][0] / d[1][1]).toBe(-1)
   })
 
-  it('trap: x along the armchair direction relabels the -6m2 family as d11 = −d12 = −d26 (ENGINE.md traps)', () => {
+  it('trap: x along the armchair direction relabels the -6m2 family as d11 = −d12 = −d26 (Nye; IEEE Std 176-1987; docs/physics.md §4)', () => {
     const [t] = solveTensorForm('-6m2', 2).tensors
     const d = toVoigt(rotateToSample(t, 3, rotationAboutAxis([0, 0, 1], -Math.PI / 2)))
     expect(d[1][1]).toBeCloseTo(0, 12)

@@ -1,8 +1,8 @@
 import { describe, it, expect } from 'vitest'
 import { nohd, peakFluence, peakIntensity, peakPower, perM2ToPerCm2, pulseEnergy } from '../../../shared/laser-safety'
 
-// FACTS.md §4.2 derived-quantity check [M] H (from memory; arithmetic re-done here).
-describe('derived quantities: 100 mW, 80 MHz, 100 fs, w₀ = 1 µm (FACTS.md §4.2)', () => {
+// Derived-quantity check (plain physics, Siegman, Lasers, 1986; values from memory, arithmetic re-done here).
+describe('derived quantities: 100 mW, 80 MHz, 100 fs, w₀ = 1 µm (Gaussian pulse and focus)', () => {
   const ep = pulseEnergy(0.1, 80e6)
   const ppk = peakPower(ep.value, 100e-15)
   const i0 = peakIntensity(ppk.value, 1)
@@ -16,13 +16,13 @@ describe('derived quantities: 100 mW, 80 MHz, 100 fs, w₀ = 1 µm (FACTS.md §4
   })
 })
 
-describe('pulse shape and fluence (FACTS.md §4.2 [M] H)', () => {
+describe('pulse shape and fluence (Siegman, Lasers, 1986; from memory)', () => {
   it('sech² uses k = 0.88', () => expect(peakPower(1e-9, 1e-13, 'sech2').value).toBeCloseTo(8800, 6))
   it('peak fluence 2E/(π w₀²): 1 nJ into w₀ = 1 µm → 63.7 mJ/cm²', () =>
     expect(perM2ToPerCm2(peakFluence(1e-9, 1).value)).toBeCloseTo(0.0637, 4))
 })
 
-describe('NOHD (FACTS.md §1.5 [M] H, from memory)', () => {
+describe('NOHD (ANSI Z136.1 form, from memory)', () => {
   it('is 0 when the exit beam is already below the MPE', () =>
     expect(nohd({ averagePowerW: 1e-6, mpeWm2: 16, exitDiameterMm: 2, divergenceMrad: 1 }).value).toBe(0))
   it('scales inversely with divergence', () => {

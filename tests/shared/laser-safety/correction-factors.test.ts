@@ -1,11 +1,11 @@
 import { describe, it, expect } from 'vitest'
 import { correctionC4, correctionC7, groupingWindow } from '../../../shared/laser-safety'
 
-// FACTS.md §1.2, Directive 2006/25/EC Annex II Table 2.5 [V] H.
+// Directive 2006/25/EC Annex II Table 2.5 (regulation text).
 describe('C4 (C_A)', () => {
   it('is 1 below 700 nm', () => expect(correctionC4(633).value).toBe(1))
-  it('is 1.585 at 800 nm (FACTS.md §1.2 check value)', () => expect(correctionC4(800).value).toBeCloseTo(1.585, 3))
-  it('is 5 at 1064 nm (FACTS.md §1.2 check value)', () => expect(correctionC4(1064).value).toBe(5))
+  it('is 1.585 at 800 nm (arithmetic of the Table 2.5 formula)', () => expect(correctionC4(800).value).toBeCloseTo(1.585, 3))
+  it('is 5 at 1064 nm (arithmetic of the Table 2.5 formula)', () => expect(correctionC4(1064).value).toBe(5))
   it('shows its formula and source', () => {
     const c = correctionC4(800)
     expect(c.formula).toContain('10^(0.002·(λ − 700))')
@@ -14,7 +14,8 @@ describe('C4 (C_A)', () => {
   })
 })
 
-// FACTS.md §1.2: Directive form [V] H; IEC 2014 1250–1400 nm form [S] M (two implementations).
+// Directive Table 2.5 form (regulation text); IEC 2014 1250–1400 nm form seen in two public
+// implementations (docs/laser-safety.md §2).
 describe('C7 (C_C)', () => {
   it('is 1 up to 1150 nm in both editions', () => {
     expect(correctionC7(1064, 'EU-2006/25/EC').value).toBe(1)
@@ -29,7 +30,7 @@ describe('C7 (C_C)', () => {
   it('records the edition', () => expect(correctionC7(1300, 'IEC-60825-1:2014').edition).toBe('IEC-60825-1:2014'))
 })
 
-// FACTS.md §1.2: T_i (IEC 2014) [S] M; T_min (Directive Table 2.6) [V] H.
+// T_i (IEC 60825-1:2014, secondary source); T_min (Directive Annex II Table 2.6, regulation text).
 describe('pulse-grouping window', () => {
   it.each([
     [800, 'IEC-60825-1:2014', 5e-6], [800, 'EU-2006/25/EC', 18e-6],

@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest'
 import { en207Labels, en207ModeFor, en207ScaleNumbers, en208ScaleNumber, requiredOpticalDensity, circleAreaM2, ocularMpeIrradiance } from '../../../shared/laser-safety'
 
-describe('EN 207 scale numbers (FACTS.md §1.5 [V] M–H)', () => {
+describe('EN 207 scale numbers (EN 207:2017 Annex B via public summaries; docs/laser-safety.md §7)', () => {
   // Published cross-check: nanoy42 lasersafety docs, from the UCC Laser Safety Guidelines [V].
   it('UCC cross-check: 800 nm, 4.5 µJ, 200 kHz, 200 fs, 3 mm → D LB5, M LB6', () => {
     const req = en207ScaleNumbers({ wavelengthNm: 800, averagePowerW: 4.5e-6 * 200e3, beamDiameterMm: 3, pulse: { durationS: 200e-15, repetitionRateHz: 200e3 } })
@@ -48,7 +48,7 @@ describe('EN 207 scale numbers (FACTS.md §1.5 [V] M–H)', () => {
   })
 })
 
-describe('EN 208 alignment eyewear (FACTS.md §1.5 [V] M–H)', () => {
+describe('EN 208 alignment eyewear (EN 208:2009 Annex B via a public summary; docs/laser-safety.md §7)', () => {
   it('CW: RBn allows 10^(n−3) W; 5 mW → RB1, 10 mW → RB1, 11 mW → RB2, 100 W → RB5', () => {
     const rb = (w: number) => en208ScaleNumber({ wavelengthNm: 633, averagePowerW: w, beamDiameterMm: 1 }).rb.value
     expect([rb(5e-3), rb(0.01), rb(0.011), rb(100)]).toEqual([1, 1, 2, 5])
@@ -70,14 +70,14 @@ describe('EN 208 alignment eyewear (FACTS.md §1.5 [V] M–H)', () => {
     expect(() => en208ScaleNumber({ wavelengthNm: 800, averagePowerW: 1e-3, beamDiameterMm: 1 })).toThrow(/wavelengthNm: .*ask the LSO/))
 })
 
-describe('required OD (FACTS.md §1.5 [V] H)', () => {
+describe('required OD (common practice: OD = log10(exposure/MPE))', () => {
   it('CW beam smaller than 7 mm: OD = log10(Φ / (MPE·A_aperture))', () => {
     const r = requiredOpticalDensity({ edition: 'IEC-60825-1:2014', wavelengthNm: 1064, averagePowerW: 5, beamDiameterMm: 3 })
     const mpe = ocularMpeIrradiance({ edition: 'IEC-60825-1:2014', wavelengthNm: 1064, durationS: 10 }).value
     expect(r.od.value).toBeCloseTo(Math.log10(5 / (mpe * circleAreaM2(7))), 12)
     expect(r.byRule.singlePulse).toBeUndefined()
   })
-  it('amplified kHz system (FACTS.md §1.4: pulse limits matter there): the pulse-train rule governs, C5 = 5·(10⁴)^−0.25 = 0.5; OD is the maximum', () => {
+  it('amplified kHz system (docs/laser-safety.md §5: pulse limits matter there): the pulse-train rule governs, C5 = 5·(10⁴)^−0.25 = 0.5; OD is the maximum', () => {
     const r = requiredOpticalDensity({ edition: 'IEC-60825-1:2014', wavelengthNm: 800, averagePowerW: 4, beamDiameterMm: 8, pulse: { durationS: 100e-15, repetitionRateHz: 1e3 } })
     const rules = [r.byRule.average!, r.byRule.singlePulse!, r.byRule.pulseTrain!]
     expect(r.od.value).toBeCloseTo(Math.max(...rules), 12)

@@ -5,8 +5,8 @@ const IEC = 'IEC-60825-1:2014' as const
 const EU = 'EU-2006/25/EC' as const
 const A7 = circleAreaM2(7)
 
-describe('ocular MPE table values (FACTS.md §1.3)', () => {
-  it('7 mm aperture area is 3.8485×10⁻⁵ m² (FACTS.md §1.6 A)', () => expect(A7).toBeCloseTo(3.8485e-5, 9))
+describe('ocular MPE table values (Directive 2006/25/EC Annex II Table 2.2; IEC 60825-1:2014 Table A.1)', () => {
+  it('7 mm aperture area is 3.8485×10⁻⁵ m² (π·(3.5 mm)², arithmetic)', () => expect(A7).toBeCloseTo(3.8485e-5, 9))
 
   // Directive Table 2.2 [V] H versus IEC 2014 Table A.1 [S] M–H: 100 fs, 800 nm.
   it('100 fs at 800 nm: IEC 1.0×10⁻³ J/m² (no C4); Directive 1.5×10⁻⁴·C_A = 2.38×10⁻⁴ J/m²', () => {
@@ -14,20 +14,20 @@ describe('ocular MPE table values (FACTS.md §1.3)', () => {
     expect(ocularMpe({ edition: EU, wavelengthNm: 800, durationS: 100e-15 }).value).toBeCloseTo(2.38e-4, 6)
   })
 
-  it('ns pulses, visible: Directive 5×10⁻³ J/m², IEC 2×10⁻³ J/m² (FACTS.md §1.3)', () => {
+  it('ns pulses, visible: Directive 5×10⁻³ J/m², IEC 2×10⁻³ J/m² (Directive Table 2.2; IEC Table A.1)', () => {
     expect(ocularMpe({ edition: EU, wavelengthNm: 532, durationS: 10e-9 }).value).toBeCloseTo(5e-3, 12)
     expect(ocularMpe({ edition: IEC, wavelengthNm: 532, durationS: 10e-9 }).value).toBeCloseTo(2e-3, 12)
   })
 
-  it('1064 nm ns pulse: Directive 5×10⁻²·C_C, IEC 2×10⁻²·C7 (FACTS.md §1.3)', () => {
+  it('1064 nm ns pulse: Directive 5×10⁻²·C_C, IEC 2×10⁻²·C7 (Directive Table 2.2; IEC Table A.1)', () => {
     expect(ocularMpe({ edition: EU, wavelengthNm: 1064, durationS: 10e-9 }).value).toBeCloseTo(5e-2, 12)
     expect(ocularMpe({ edition: IEC, wavelengthNm: 1064, durationS: 10e-9 }).value).toBeCloseTo(2e-2, 12)
   })
 
-  it('t ≥ 10 s at 800 nm: E = 10·C4 = 15.85 W/m² (FACTS.md §1.3 [S] H)', () =>
+  it('t ≥ 10 s at 800 nm: E = 10·C4 = 15.85 W/m² (IEC Table A.1, secondary source)', () =>
     expect(ocularMpeIrradiance({ edition: IEC, wavelengthNm: 800, durationS: 100 }).value).toBeCloseTo(15.85, 2))
 
-  it('1500–1800 nm, 1 ns–10 s: H = 10⁴ J/m²; t ≥ 10 s: 1000 W/m² (FACTS.md §1.3 [V] H, same in both editions)', () => {
+  it('1500–1800 nm, 1 ns–10 s: H = 10⁴ J/m²; t ≥ 10 s: 1000 W/m² (Directive Table 2.2, same in both editions)', () => {
     for (const edition of [IEC, EU]) {
       expect(ocularMpe({ edition, wavelengthNm: 1550, durationS: 1e-6 }).value).toBe(1e4)
       expect(ocularMpeIrradiance({ edition, wavelengthNm: 1550, durationS: 100 }).value).toBeCloseTo(1000, 9)
@@ -35,7 +35,8 @@ describe('ocular MPE table values (FACTS.md §1.3)', () => {
   })
 
   it('at an exact row boundary the lower (more protective) row is used: 10 s at 800 nm gives 15.85, not 16.04 W/m²', () => {
-    // FACTS.md §1.6 A quotes 16.04 W/m² "at T = 10 s" from the t < 10 s row; the library takes the minimum.
+    // The t < 10 s row gives 16.04 W/m² at T = 10 s and the t ≥ 10 s row 15.85; the library takes the
+    // minimum (docs/laser-safety.md §3).
     expect(ocularMpeIrradiance({ edition: IEC, wavelengthNm: 800, durationS: 9.999 }).value).toBeCloseTo(16.04, 1)
     expect(ocularMpeIrradiance({ edition: IEC, wavelengthNm: 800, durationS: 10 }).value).toBeCloseTo(15.85, 2)
   })
@@ -48,7 +49,7 @@ describe('ocular MPE table values (FACTS.md §1.3)', () => {
   })
 })
 
-describe('consistency checks built into the standard (FACTS.md §1.3)', () => {
+describe('consistency checks built into the standard (IEC 60825-1:2014: Class AEL = MPE × 7 mm aperture)', () => {
   it('MPE(0.25 s, visible) × 7 mm aperture ≈ 0.98 mW ≈ the 1 mW Class 2 AEL', () => {
     const watts = ocularMpeIrradiance({ edition: IEC, wavelengthNm: 633, durationS: 0.25 }).value * A7
     expect(watts).toBeCloseTo(0.98e-3, 5)
@@ -65,11 +66,11 @@ describe('consistency checks built into the standard (FACTS.md §1.3)', () => {
     expect(Math.abs(at1550 / aelCw('1', 1550).value! - 1)).toBeLessThan(0.05)
   })
 
-  it('Class 1 AEL at 800 nm is 0.618 mW (FACTS.md §1.1 [S] H)', () => expect(aelCw('1', 800).value).toBeCloseTo(0.618e-3, 5))
-  it('Class 3R AEL at 800 nm is 3.17 mW (FACTS.md §1.1 [S] M)', () => expect(aelCw('3R', 800).value).toBeCloseTo(3.17e-3, 5))
+  it('Class 1 AEL at 800 nm is 0.618 mW (IEC 60825-1:2014 Tables 3–8, secondary source)', () => expect(aelCw('1', 800).value).toBeCloseTo(0.618e-3, 5))
+  it('Class 3R AEL at 800 nm is 3.17 mW (IEC 60825-1:2014 Tables 3–8, secondary source)', () => expect(aelCw('3R', 800).value).toBeCloseTo(3.17e-3, 5))
 })
 
-describe('limiting aperture (FACTS.md §1.3 [V] H)', () => {
+describe('limiting aperture (IEC 60825-1:2014 Annex A via public excerpts)', () => {
   it.each([[800, 1, 7], [1550, 0.1, 1], [1550, 10, 3.5], [1550, 100, 3.5]])('%s nm, %s s → %s mm', (nm, t, d) =>
     expect(limitingApertureMm(nm, t).value).toBe(d))
   it('1.5·t^0.375 mm between 0.3 and 10 s', () => expect(limitingApertureMm(1550, 1).value).toBe(1.5))

@@ -4,19 +4,19 @@ import {
   peakPower, pulseEnergy, pulseTrainLimits, requiredOpticalDensity, circleAreaM2,
 } from '../../../shared/laser-safety'
 
-// FACTS.md §1.6 worked example A: Ti:sapphire, 800 nm, 100 fs, 80 MHz, 1 W, 2 mm beam, 1 mrad.
+// Check case A (docs/laser-safety.md §9, worked by hand): Ti:sapphire, 800 nm, 100 fs, 80 MHz, 1 W, 2 mm beam, 1 mrad.
 const beam = { wavelengthNm: 800, averagePowerW: 1, beamDiameterMm: 2, pulse: { durationS: 100e-15, repetitionRateHz: 80e6 } }
 const IEC = 'IEC-60825-1:2014' as const
 const EU = 'EU-2006/25/EC' as const
 
-describe('worked example A: common inputs (FACTS.md §1.6 A)', () => {
+describe('worked example A: common inputs (check case A, docs/laser-safety.md §9)', () => {
   it('C4 = 10^0.2 = 1.5849', () => expect(correctionC4(800).value).toBeCloseTo(1.5849, 4))
   it('pulse energy P/f = 12.5 nJ', () => expect(pulseEnergy(1, 80e6).value).toBeCloseTo(12.5e-9, 15))
   it('Gaussian peak power 0.94·E/τ ≈ 117 kW', () => expect(peakPower(12.5e-9, 100e-15).value / 1e3).toBeCloseTo(117.5, 1))
   it('class hint: Class 4 (1 W > 0.5 W)', () => expect(classHint(beam).hint.value).toBe('4'))
 })
 
-describe('worked example A: the three rules and the edition difference (FACTS.md §1.6 A)', () => {
+describe('worked example A: the three rules and the edition difference (check case A, docs/laser-safety.md §9)', () => {
   it('rule 1, single pulse: H = 3.25×10⁻⁴ J/m² at the 7 mm aperture', () =>
     expect(checkExposure({ ...beam, edition: IEC }).singlePulse!.exposure.value).toBeCloseTo(3.25e-4, 6))
 
@@ -48,7 +48,7 @@ describe('worked example A: the three rules and the edition difference (FACTS.md
     expect(l.grouping.pulsesPerGroup).toBeCloseTo(400, 6)
     expect(l.grouping.effectivePulseCount).toBeCloseTo(2e6, 0)
     expect(l.trainFactor.value).toBe(0.4)
-    // FACTS.md gives 1.27×10⁻³ J/m² (upper row at 5 µs: 2×10⁻³·C4); the library takes the lower
+    // The upper row at 5 µs gives 1.27×10⁻³ J/m² (2×10⁻³·C4); the library takes the lower
     // row at the boundary (18·C4·t^0.75 = 1.90×10⁻³·C4), i.e. 1.21×10⁻³ J/m². Both lie in this range.
     expect(l.pulseTrain.value).toBeGreaterThan(1.2e-3)
     expect(l.pulseTrain.value).toBeLessThanOrEqual(1.27e-3)
@@ -64,7 +64,7 @@ describe('worked example A: the three rules and the edition difference (FACTS.md
   })
 })
 
-describe('worked example A: eyewear and hazard distance (FACTS.md §1.6 A)', () => {
+describe('worked example A: eyewear and hazard distance (check case A, docs/laser-safety.md §9)', () => {
   it('required OD = log10(1 W / 0.617 mW) = 3.21, both editions (average rule governs)', () => {
     for (const edition of [IEC, EU]) {
       const r = requiredOpticalDensity({ ...beam, edition })
