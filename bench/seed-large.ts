@@ -9,7 +9,7 @@
 import mysql from 'mysql2/promise'
 import { pathToFileURL } from 'node:url'
 import { ENGINE_VERSION } from '../shared/engine'
-import { deriveChannels, type ChannelInputs } from '../server/services/array-channels'
+import { deriveChannels, type ChannelInputs } from '../server/services/inventory/array-channels'
 
 export const LARGE = { wafers: 100, chipsPerWafer: 50, arraysPerChip: 20, sessions: 20_000 }
 const BATCH = 2000

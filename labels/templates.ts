@@ -1,5 +1,5 @@
 /**
- * Label templates, as data. The server renders them to SVG (server/services/label-svg.ts) and the
+ * Label templates, as data. The server renders them to SVG (server/services/labels/label-svg.ts) and the
  * client uses the same sizes for true-size previews and the print view's `@page` rule.
  *
  * All lengths are millimetres. Print and QR conventions (ISO/IEC 18004 for the symbol; print rules

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 
-/** Where uploaded files are kept (see server/services/storage.ts). */
+/** Where uploaded files are kept (see server/services/files/storage.ts). */
 const fileStorageFields = {
   /** local: content-addressed under DATA_DIR/uploads; s3: an S3-compatible bucket (S3_* below). */
   FILE_STORAGE: z.enum(['local', 's3']).default('local'),

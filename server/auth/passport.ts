@@ -2,7 +2,7 @@ import passport from 'passport'
 import { Strategy as LocalStrategy } from 'passport-local'
 import type { Db } from '../db/client'
 import type { User } from '../db/schema/index'
-import { findUserByEmail, findUserById } from '../services/users'
+import { findUserByEmail, findUserById } from '../services/people/users'
 import { getDummyHash, verifyPassword } from './passwords'
 
 declare global {

@@ -1,8 +1,12 @@
 import mysql from 'mysql2/promise'
 import { drizzle } from 'drizzle-orm/mysql2'
+import type { MySqlTransaction } from 'drizzle-orm/mysql-core'
 import * as schema from './schema/index'
 
 export type Db = ReturnType<typeof createDb>['db']
+
+/** A Drizzle handle that can run statements: the db itself or an open transaction. */
+export type DbOrTx = Db | MySqlTransaction<any, any, any, any>
 
 /**
  * One mysql2 pool shared by Drizzle and the session store. `mode: 'planetscale'` because MariaDB

@@ -4,9 +4,9 @@ import { barePatternSchema, fitRequestSchema, patternQuerySchema, spectrumReques
 import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { currentUser, requireAbility } from '../auth/guards'
-import { createFileStorage } from '../services/storage'
-import { arrayPattern, barePattern, chipPattern, fitSession, listSessionAnalyses, spectrumSession } from '../services/analysis'
-import { sheetSessions } from '../services/analysis-sheet'
+import { createFileStorage } from '../services/files/create-storage'
+import { arrayPattern, barePattern, chipPattern, fitSession, listSessionAnalyses, spectrumSession } from '../services/analysis/analysis'
+import { sheetSessions } from '../services/analysis/analysis-sheet'
 
 /**
  * /api/analysis (issue 6): predicted polar patterns (arrays, chips, bare crystals), polar fits

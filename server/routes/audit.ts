@@ -5,14 +5,14 @@ import { parse } from '../middleware/validate'
 import { abilityOf, requireAbility, requireUser } from '../auth/guards'
 import { ForbiddenError, fieldError } from '../errors'
 import { AUDIT_ENTITIES, auditSearchSchema, type AuditEntity } from '../../shared/audit'
-import { recordHistory, searchAudit } from '../services/audit-query'
+import { recordHistory, searchAudit } from '../services/audit/audit-query'
 import { idValue } from '../../shared/schemas/common'
 
 const historyParams = z.object({ entity: z.string().max(40), id: idValue() })
 
 /**
  * Mounted under /api/audit: record history and audit search. Read-only on purpose: the audit
- * trail has no route that changes or removes a row (tests/server/audit.test.ts checks it).
+ * trail has no route that changes or removes a row (tests/server/audit/audit.test.ts checks it).
  */
 export function auditRoutes(ctx: AppContext): Router {
   const r = Router()

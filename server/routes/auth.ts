@@ -5,12 +5,12 @@ import { loginSchema, changePasswordSchema, acceptInviteSchema } from '../../sha
 import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { currentUser, requireUser } from '../auth/guards'
-import { acceptInvitation, changePassword, describeInvitation, toPublicUser } from '../services/users'
+import { acceptInvitation, changePassword, describeInvitation, toPublicUser } from '../services/people/users'
 import { UnauthorizedError, AppError } from '../errors'
 import type { User } from '../db/schema/index'
 import { preferencesSchema } from '../../shared/schemas/notices'
-import { getPreferences, setPreferences } from '../services/notices'
-import { MariaDbThrottleStore } from '../services/throttle-store'
+import { getPreferences, setPreferences } from '../services/mail/notices'
+import { MariaDbThrottleStore } from '../services/people/throttle-store'
 
 /** How long an account stays throttled after too many failed sign-ins from anywhere. */
 export const ACCOUNT_WINDOW_MIN = 5

@@ -5,11 +5,11 @@ import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { currentUser, requireAbility } from '../auth/guards'
 import { BadRequestError, fieldError } from '../errors'
-import { XLSX_MIME } from '../services/excel-style'
-import { getExport, openExport, startExport } from '../services/excel-export'
-import { createFileStorage } from '../services/storage'
-import { buildTemplate } from '../services/excel-template'
-import { importWorkbook } from '../services/excel-import'
+import { XLSX_MIME } from '../services/excel/excel-style'
+import { getExport, openExport, startExport } from '../services/excel/excel-export'
+import { createFileStorage } from '../services/files/create-storage'
+import { buildTemplate } from '../services/excel/excel-template'
+import { importWorkbook } from '../services/excel/excel-import'
 
 const MAX_IMPORT_BYTES = 20 * 1024 * 1024
 const receive = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_IMPORT_BYTES, files: 1, fields: 5 } }).single('file')

@@ -2,7 +2,8 @@ import { Router } from 'express'
 import type { AppContext } from '../context'
 import type { HealthStatus } from '../../shared/types'
 import { dbMonitorOf } from '../middleware/db-watchdog'
-import { createFileStorage, storageFailure } from '../services/storage'
+import { createFileStorage } from '../services/files/create-storage'
+import { storageFailure } from '../services/files/storage'
 
 /**
  * Liveness, database, mail and file-storage status. 503 when the database does not answer (nothing

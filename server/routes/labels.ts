@@ -4,7 +4,7 @@ import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { currentUser, requireAbility } from '../auth/guards'
 import { labelJobSchema, renderLabelsSchema, templateIdSchema } from '../../labels/schemas'
-import { listLabelJobs, listTemplates, recordLabelJob, renderLabels } from '../services/labels'
+import { listLabelJobs, listTemplates, recordLabelJob, renderLabels } from '../services/labels/labels'
 
 const downloadParams = z.object({ template: templateIdSchema, code: z.string().trim().toUpperCase().min(1).max(40) })
 

@@ -3,9 +3,9 @@ import { idParamSchema } from '../../shared/schemas/auth'
 import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { currentUser, requireAbility, requireUser } from '../auth/guards'
-import { getReceived, listQueue, listReceived } from '../services/mail'
+import { getReceived, listQueue, listReceived } from '../services/mail/mail'
 import { ForbiddenError, NotFoundError } from '../errors'
-import { queueDigest } from '../services/notice-scheduler'
+import { queueDigest } from '../services/mail/notice-scheduler'
 
 /** The local sink's received mail and the outgoing queue (admins). */
 export function mailRoutes(ctx: AppContext): Router {

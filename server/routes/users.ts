@@ -3,7 +3,7 @@ import { accountActionSchema, idParamSchema, inviteSchema, updateUserSchema } fr
 import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { currentUser, requireAbility } from '../auth/guards'
-import { endSessionsOf, inviteUser, listUsers, sendPasswordReset, updateUser } from '../services/users'
+import { endSessionsOf, inviteUser, listUsers, sendPasswordReset, updateUser } from '../services/people/users'
 
 export function userRoutes(ctx: AppContext): Router {
   const r = Router()

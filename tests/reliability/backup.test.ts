@@ -4,7 +4,7 @@ import { createHash, randomBytes } from 'node:crypto'
 import fs from 'node:fs'
 import path from 'node:path'
 import mysql from 'mysql2/promise'
-import { LocalDiskStorage } from '../../server/services/storage'
+import { LocalDiskStorage } from '../../server/services/files/storage'
 import { migrateAndSeed, startPrivateDb, type PrivateDb } from './private-db'
 
 /**

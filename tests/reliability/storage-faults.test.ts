@@ -6,7 +6,7 @@ import path from 'node:path'
 import type TestAgent from 'supertest/lib/agent'
 import request from 'supertest'
 import { startTestApp, signedInAs } from '../server/helpers'
-import { makeSample } from '../server/fixtures-measurements'
+import { makeSample } from '../server/measurements/fixtures-measurements'
 
 /**
  * Upload storage that is full or read-only: an upload answers 507 (full) or 503 (read-only) with

@@ -4,7 +4,7 @@ import jsQR from 'jsqr'
 import { PNG } from 'pngjs'
 import { qrPayload, extractCode, QR_ALPHANUMERIC } from '../../labels/qr-payload'
 import { LABEL_TEMPLATES, DOT_MM, MIN_MODULE_DOTS } from '../../labels/templates'
-import { labelSvg, qrSymbol, sheetSvgs } from '../../server/services/label-svg'
+import { labelSvg, qrSymbol, sheetSvgs } from '../../server/services/labels/label-svg'
 
 /** Version, mode and module count of a QR symbol, computed by the `qrcode` package (a reference library we did not write). */
 function symbolOf(text: string, ecc: 'L' | 'M' | 'Q' | 'H') {

@@ -1,7 +1,9 @@
 import { mysqlTable, int, varchar, json, datetime, mysqlEnum, index } from 'drizzle-orm/mysql-core'
 import { sql } from 'drizzle-orm'
 import { users } from './users'
-import { arrays, files, measurementSessions } from './records'
+import { arrays } from './inventory'
+import { files } from './files'
+import { measurementSessions } from './measurements'
 
 /**
  * Saved analyses of a measurement session (issue 6): a polar fit of a polarisation sweep, or a

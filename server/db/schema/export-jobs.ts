@@ -3,7 +3,7 @@ import { users } from './users'
 import { EXPORT_PHASES } from '../../../shared/excel'
 
 /**
- * Inventory export jobs (server/services/excel-export.ts), shared by every app server on this
+ * Inventory export jobs (server/services/excel/excel-export.ts), shared by every app server on this
  * database: whichever server a person's progress poll or download reaches reads the job here. The
  * server writing the workbook updates its row (progress, phase, and `updated_at` as a heartbeat);
  * the finished workbook is a blob of the FileStorage, named by `blob_sha256`. Rows and blobs are

@@ -5,8 +5,8 @@ import { arraySchema, listQuerySchema, reasonSchema, LATTICES, SHAPES } from '..
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createArray, getArray, listArrays, recomputeArrays, retireArray, updateArray } from '../../services/arrays'
-import { getChip } from '../../services/chips'
+import { createArray, getArray, listArrays, recomputeArrays, retireArray, updateArray } from '../../services/inventory/arrays'
+import { getChip } from '../../services/inventory/chips'
 import { idValue } from '../../../shared/schemas/common'
 
 const arrayListSchema = listQuerySchema.extend({

@@ -4,7 +4,7 @@ import { chipUpdateSchema, listQuerySchema, reasonSchema } from '../../../shared
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { getChipDetail, listChips, retireChip, updateChip } from '../../services/chips'
+import { getChipDetail, listChips, retireChip, updateChip } from '../../services/inventory/chips'
 
 /** /api/chips: list, detail (with arrays and fab steps), update (audited), retire; chips are made by dicing a wafer. */
 export function chipRoutes(ctx: AppContext): Router {

@@ -4,8 +4,8 @@ import { fabStepSchema } from '../../../shared/schemas/records'
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { getChip } from '../../services/chips'
-import { createFabStep, listFabSteps } from '../../services/fab-steps'
+import { getChip } from '../../services/inventory/chips'
+import { createFabStep, listFabSteps } from '../../services/inventory/fab-steps'
 
 /** /api/chips/:id/fab-steps: a chip's fabrication steps (SEM images attach through the files API). */
 export function fabStepRoutes(ctx: AppContext): Router {

@@ -6,8 +6,8 @@ import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { BadRequestError, fieldError } from '../../errors'
-import { createFileStorage } from '../../services/storage'
-import { MAX_UPLOAD_BYTES, getFile, listFiles, openFile, previewFile, retireFile, uploadFile } from '../../services/files'
+import { createFileStorage } from '../../services/files/create-storage'
+import { MAX_UPLOAD_BYTES, getFile, listFiles, openFile, previewFile, retireFile, uploadFile } from '../../services/files/files'
 
 // defParamCharset: a part's file name without an explicit charset is read as UTF-8 (what browsers
 // send), not busboy's default latin1, which stored `µm_ä` as `Âµm_Ã¤`.

@@ -5,8 +5,8 @@ import { listQuerySchema, locationSchema, moveSchema, reasonSchema } from '../..
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createLocation, getLocation, listLocations, retireLocation, updateLocation } from '../../services/locations'
-import { listMoves, moveItem } from '../../services/moves'
+import { createLocation, getLocation, listLocations, retireLocation, updateLocation } from '../../services/inventory/locations'
+import { listMoves, moveItem } from '../../services/inventory/moves'
 import { safeString } from '../../../shared/schemas/common'
 
 const movesQuerySchema = z.object({ itemCode: safeString().min(1, 'Give the item code').max(40) })

@@ -3,7 +3,7 @@ import { z } from 'zod'
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { requireUser } from '../../auth/guards'
-import { resolveCode } from '../../services/resolve'
+import { resolveCode } from '../../services/search/resolve'
 import { safeString } from '../../../shared/schemas/common'
 
 const codeParamSchema = z.object({ code: safeString().min(1).max(200) })

@@ -5,8 +5,8 @@ import { diceSchema, listQuerySchema, reasonSchema, waferSchema } from '../../..
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createWafer, getWaferDetail, listWafers, retireWafer, updateWafer } from '../../services/wafers'
-import { diceChips, listChipsOfWafer } from '../../services/chips'
+import { createWafer, getWaferDetail, listWafers, retireWafer, updateWafer } from '../../services/inventory/wafers'
+import { diceChips, listChipsOfWafer } from '../../services/inventory/chips'
 import { idValue } from '../../../shared/schemas/common'
 
 const waferListSchema = listQuerySchema.extend({ materialId: idValue().optional() })

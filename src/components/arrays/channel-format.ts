@@ -1,6 +1,6 @@
 import { describeCircularHandedness, type ChannelResponse, type Multipole, type PumpSpec } from '../../../shared/engine'
 
-/** Plain words for the stored channel sets of an array (see server/services/array-channels.ts). */
+/** Plain words for the stored channel sets of an array (see server/services/inventory/array-channels.ts). */
 const signed = (n: number): string => (n > 0 ? `+${n}` : n < 0 ? `−${-n}` : '0')
 
 export const PUMP_LABELS: Record<string, string> = {
