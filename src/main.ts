@@ -1,6 +1,10 @@
-// Fonts and icons come from npm packages and are bundled; nothing is loaded from a CDN. One icon
+// Fonts and icons come from npm packages and are bundled; nothing is loaded from a CDN. Roboto
+// Condensed in the weights the app uses (400 body, 500 Quasar's buttons and labels, 700 bold); the
+// browser fetches only the woff2 subsets a page needs. One icon
 // font (Material Icons); the few MDI icons are inline SVG paths (src/icons.ts).
-import './styles/fonts.css'
+import '@fontsource/roboto-condensed/400.css'
+import '@fontsource/roboto-condensed/500.css'
+import '@fontsource/roboto-condensed/700.css'
 import '@quasar/extras/material-icons/material-icons.css'
 import 'quasar/src/css/index.sass'
 import './styles/app.sass'
