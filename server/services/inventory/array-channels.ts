@@ -4,6 +4,7 @@ import {
   type ChannelResponse, type PumpSpec, type ShapeKind, type LatticeKind, type StructureSymmetry,
 } from '../../../shared/engine'
 import type { StoredChannel } from '../../../shared/records'
+import type { ArrayGeometry } from '../../../shared/array-sense'
 import { BadRequestError } from '../../errors'
 import { keyChannels } from './channel-sets'
 import { BoundedCache } from '../../../shared/engine/bounded-cache'
@@ -18,20 +19,13 @@ import { BoundedCache } from '../../../shared/engine/bounded-cache'
  * edge sits at chip.rotationDeg from the flat, the array at azimuthDeg from the chip edge). A pump
  * "linear along the flat" is therefore angle 0 and "across the flat" angle 90.
  */
-export interface ChannelInputs {
+/** An array's geometry (shape, lattice, custom symmetry) plus where it sits on its wafer. */
+export interface ChannelInputs extends ArrayGeometry {
   pointGroup: string
   cutNormal: [number, number, number]
   flatDirection: [number, number, number]
   chipRotationDeg: number
-  shape: string
-  dimensionsNm: Record<string, number>
-  shapeAzimuthDeg: number
-  lattice: string
-  periodXNm: number | null
-  periodYNm: number | null
   azimuthDeg: number
-  customRotationOrder: number | null
-  customMirrors: number[] | null
 }
 
 export const STANDARD_PUMPS: { key: string; pump: PumpSpec }[] = [
