@@ -1,4 +1,5 @@
 import request from 'supertest'
+import { desc, like } from 'drizzle-orm'
 import type { Express } from 'express'
 import { createDb } from '../../server/db/client'
 import { createApp } from '../../server/app'
@@ -9,6 +10,7 @@ import type { AppContext } from '../../server/context'
 import { silentLogger } from '../../server/logger'
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../../server/db/seed/people'
 import type { Role } from '../../shared/roles'
+import { mailReceived } from '../../server/db/schema/index'
 
 /**
  * A test instance of the app on the real MariaDB that scripts/test.sh started (DATABASE_URL),
@@ -27,6 +29,22 @@ export async function startTestApp(envOverrides: Record<string, string> = {}) {
     app, db, pool, worker, ctx,
     async stop() { await worker.stop(); await sink.close(); await close(); await pool.end() },
   }
+}
+
+export type TestApp = Awaited<ReturnType<typeof startTestApp>>
+
+/**
+ * Ticks the test app's mail worker until a message to `to` reaches the sink, and returns the newest
+ * one as its owner's mailbox has it (the sink's table; the outbox view masks one-time links).
+ * Other test files may have left mail in the shared queue ahead of ours.
+ */
+export async function deliveredTo(t: TestApp, to: string) {
+  for (let i = 0; i < 1000; i++) {
+    await t.worker.tick()
+    const [row] = await t.db.select().from(mailReceived).where(like(mailReceived.toAddress, `%${to}%`)).orderBy(desc(mailReceived.id)).limit(1)
+    if (row) return row
+  }
+  throw new Error(`no mail to ${to} reached the sink`)
 }
 
 export const demoEmail = (role: Role) => DEMO_PEOPLE.find((p) => p.roles.includes(role))!.email

@@ -67,18 +67,14 @@ describe('chips and fab steps', () => {
 
 describe('dicing within the wafer', () => {
   it('more chips than a wafer holds, or a chip larger than it, is refused on the field; nothing is cut', async () => {
-    const t2 = await startTestApp()
-    try {
-      const agent = await signedInAs(t2.app, 'fab_technician')
-      const { wafer } = await makeChip(agent)
-      const big = await agent.post(`/api/wafers/${wafer.id}/dice`).send({ count: 1, widthMm: 60, heightMm: 60 })
-      expect(big.status).toBe(400)
-      expect(big.body.fields.widthMm[0]).toMatch(/does not fit a 50.8 mm wafer/)
-      const many = await agent.post(`/api/wafers/${wafer.id}/dice`).send({ count: 90, widthMm: 5, heightMm: 5 })
-      expect(many.status).toBe(400)
-      expect(many.body.fields.count[0]).toMatch(/holds at most \d+ chips of 5 × 5 mm .*with the 1 already cut/)
-      const chipsNow = (await agent.get(`/api/wafers/${wafer.id}`)).body.chips
-      expect(chipsNow).toHaveLength(1)
-    } finally { await t2.stop() }
+    const { wafer } = await makeChip(fab)
+    const big = await fab.post(`/api/wafers/${wafer.id}/dice`).send({ count: 1, widthMm: 60, heightMm: 60 })
+    expect(big.status).toBe(400)
+    expect(big.body.fields.widthMm[0]).toMatch(/does not fit a 50.8 mm wafer/)
+    const many = await fab.post(`/api/wafers/${wafer.id}/dice`).send({ count: 90, widthMm: 5, heightMm: 5 })
+    expect(many.status).toBe(400)
+    expect(many.body.fields.count[0]).toMatch(/holds at most \d+ chips of 5 × 5 mm .*with the 1 already cut/)
+    const chipsNow = (await fab.get(`/api/wafers/${wafer.id}`)).body.chips
+    expect(chipsNow).toHaveLength(1)
   })
 })

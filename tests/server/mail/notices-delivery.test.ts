@@ -24,7 +24,7 @@ async function closedPort(): Promise<number> {
 
 /** Tick until every message in `ids` passes `done` (other tests' queued mail may be ahead of ours). */
 async function tickUntil(worker: MailWorker, ids: number[], done: (m: typeof mailQueue.$inferSelect) => boolean) {
-  for (let i = 0; i < 50; i++) {
+  for (let i = 0; i < 1000; i++) {
     const rows = await t.db.select().from(mailQueue).where(inArray(mailQueue.id, ids))
     if (rows.every(done)) return
     await worker.tick()

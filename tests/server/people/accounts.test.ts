@@ -1,8 +1,8 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest'
 import request from 'supertest'
-import { and, desc, eq, like } from 'drizzle-orm'
-import { auditLog, mailReceived, users } from '../../../server/db/schema/index'
-import { createPerson, demoEmail, signedInAs, startTestApp, uniqueEmail } from '../helpers'
+import { and, desc, eq } from 'drizzle-orm'
+import { auditLog, users } from '../../../server/db/schema/index'
+import { createPerson, deliveredTo, demoEmail, signedInAs, startTestApp, uniqueEmail } from '../helpers'
 import { DEMO_PASSWORD } from '../../../server/db/seed/people'
 
 /**
@@ -16,16 +16,6 @@ afterAll(async () => { await t.stop() })
 
 const idOf = async (email: string) => (await t.db.select().from(users).where(eq(users.email, email)))[0].id
 const auditOf = (id: number) => t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'user'), eq(auditLog.entityId, id))).orderBy(desc(auditLog.id))
-async function mailTo(to: string) {
-  // Mail from other test files may wait in the shared queue ahead of ours.
-  for (let i = 0; i < 1000; i++) {
-    await t.worker.tick()
-    const [row] = await t.db.select().from(mailReceived).where(like(mailReceived.toAddress, `%${to}%`)).orderBy(desc(mailReceived.id)).limit(1)
-    if (row) return row
-  }
-  throw new Error(`no mail to ${to}`)
-}
-
 describe('who grants which role', () => {
   it('a group lead cannot grant or remove admin or safety officer, by invitation or by change', async () => {
     const lead = await signedInAs(t.app, 'group_lead')
@@ -140,7 +130,7 @@ describe('passwords', () => {
     expect((await (await signedInAs(t.app, 'group_lead')).post(`/api/users/${p.id}/password-reset`).send({ reason: 'x' })).status).toBe(403)
     expect((await admin.post(`/api/users/${p.id}/password-reset`).send({ reason: 'Forgot it' })).status).toBe(204)
     expect((await old.get('/api/auth/me')).status).toBe(401)
-    const mail = await mailTo(p.email)
+    const mail = await deliveredTo(t, p.email)
     const token = /\/invite\/([A-Za-z0-9_-]{20,})/.exec(mail.textBody)![1]
     // The outbox as an administrator sees it: the link is masked, the token appears nowhere.
     const shown = await admin.get(`/api/mail/${mail.id}`)
@@ -160,7 +150,7 @@ describe('passwords', () => {
     const admin = await signedInAs(t.app, 'admin')
     const email = uniqueEmail('queue-mask')
     expect((await admin.post('/api/users/invite').send({ email, name: 'Odile Marchetti', roles: ['optics_staff'] })).status).toBe(201)
-    const mail = await mailTo(email)
+    const mail = await deliveredTo(t, email)
     const token = /\/invite\/([A-Za-z0-9_-]{20,})/.exec(mail.textBody)![1]
     const [rows] = (await t.pool.query('SELECT text_body, html_body FROM mail_queue WHERE to_address = ?', [email])) as unknown as [{ text_body: string; html_body: string }[]]
     expect(rows.length).toBe(1)

@@ -1,8 +1,8 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest'
 import request from 'supertest'
-import { and, desc, eq, like } from 'drizzle-orm'
-import { startTestApp, signedInAs, uniqueEmail, demoEmail } from '../helpers'
-import { auditLog, users, mailQueue, mailReceived } from '../../../server/db/schema/index'
+import { and, eq } from 'drizzle-orm'
+import { startTestApp, signedInAs, uniqueEmail, demoEmail, deliveredTo } from '../helpers'
+import { auditLog, users, mailQueue } from '../../../server/db/schema/index'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 beforeAll(async () => { t = await startTestApp() })
@@ -10,21 +10,6 @@ afterAll(async () => { await t.stop() })
 
 /** Mail from other test files may wait in the shared queue ahead of ours: these tests may take a while to see it. */
 const MAIL_WAIT_MS = 120_000
-
-/**
- * Deliver queued mail to the sink and return the newest message sent to `to`, as its owner's
- * mailbox has it (the sink's table: the outbox view masks one-time links).
- */
-async function deliveredTo(to: string) {
-  // Other test files may have left mail in the shared queue; tick until ours has gone out.
-  let row: typeof mailReceived.$inferSelect | undefined
-  for (let i = 0; i < 1000 && !row; i++) {
-    await t.worker.tick()
-    ;[row] = await t.db.select().from(mailReceived).where(like(mailReceived.toAddress, `%${to}%`)).orderBy(desc(mailReceived.id)).limit(1)
-  }
-  expect(row, `a message to ${to}`).toBeDefined()
-  return { id: row!.id, text: row!.textBody, html: row!.htmlBody ?? '', subject: row!.subject }
-}
 
 describe('people', () => {
   it('lists people for admins and group leads, never with password hashes', async () => {
@@ -43,9 +28,9 @@ describe('people', () => {
     expect(res.status).toBe(201)
     expect(res.body.user).toMatchObject({ email, invitePending: true, roles: ['optics_staff'] })
 
-    const mail = await deliveredTo(email)
+    const mail = await deliveredTo(t, email)
     expect(mail.subject).toMatch(/invitation/i)
-    const token = /\/invite\/([A-Za-z0-9_-]+)/.exec(mail.text)![1]
+    const token = /\/invite\/([A-Za-z0-9_-]+)/.exec(mail.textBody)![1]
 
     const info = await request(t.app).get(`/api/auth/invite/${token}`)
     expect(info.body).toEqual({ email, name: 'Lior Castellanos' })
@@ -92,7 +77,7 @@ describe('people', () => {
     const admin = await signedInAs(t.app, 'admin')
     const { body } = await admin.post('/api/users/invite').send({ email, name: 'Rafe Montgomery-Ito', roles: ['fab_technician'] })
     const id = body.user.id
-    const token = /\/invite\/([A-Za-z0-9_-]+)/.exec((await deliveredTo(email)).text)![1]
+    const token = /\/invite\/([A-Za-z0-9_-]+)/.exec((await deliveredTo(t, email)).textBody)![1]
     const leaver = request.agent(t.app)
     expect((await leaver.post('/api/auth/accept-invite').send({ token, password: 'leaver-password-1' })).status).toBe(200)
 
