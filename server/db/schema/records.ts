@@ -99,7 +99,9 @@ export const fabSteps = mysqlTable('fab_steps', {
   performedAt: datetime('performed_at', { mode: 'date', fsp: 3 }).notNull(),
   notes: text('notes'),
   createdAt: created(),
-}, (t) => [index('fab_steps_chip_idx').on(t.chipId, t.performedAt)])
+}, (t) => [index('fab_steps_chip_idx').on(t.chipId, t.performedAt),
+  // the Overview's recent steps of the whole lab, newest first (services/overview.ts)
+  index('fab_steps_performed_idx').on(t.performedAt)])
 
 /**
  * Computed channel sets, stored once per distinct content: the key is the SHA-256 of the channels'
@@ -213,7 +215,9 @@ export const measurementSessions = mysqlTable('measurement_sessions', {
   notes: text('notes'),
   createdAt: created(),
   updatedAt: updated(),
-}, (t) => [index('sessions_performed_idx').on(t.performedAt), index('sessions_setup_idx').on(t.laserSetupId)])
+}, (t) => [index('sessions_performed_idx').on(t.performedAt), index('sessions_setup_idx').on(t.laserSetupId),
+  // the Overview's "my recent sessions": one operator's sessions newest first, without a sort
+  index('sessions_operator_performed_idx').on(t.operatorId, t.performedAt)])
 
 export const sessionResults = mysqlTable('session_results', {
   sessionId: int('session_id').notNull().references(() => measurementSessions.id, { onDelete: 'restrict' }),
