@@ -83,10 +83,10 @@ async function fabPanel(db: Db): Promise<FabPanel> {
   const unprintedChip = and(notInArray(chips.status, [...IN_USE]), sql`${chips.code} NOT IN (${PRINTED_CODES})`)
   const unprintedWafer = and(notInArray(wafers.status, [...IN_USE]), sql`${wafers.code} NOT IN (${PRINTED_CODES})`)
   const [inProcess, [inProcessN], steps, [stepsN], chipRows, [chipN], waferRows, [waferN]] = await Promise.all([
-    // chips_status_code_idx: in code order without a sort
+    // chips_status_idx, then a sort of the chips in process (a cleanroom's worth): the latest changed first
     db.select({ id: chips.id, code: chips.code, waferCode: wafers.code, holder: holders.name, location: locations.code, updatedAt: chips.updatedAt })
       .from(chips).innerJoin(wafers, eq(wafers.id, chips.waferId)).leftJoin(holders, eq(holders.id, chips.holderId)).leftJoin(locations, eq(locations.id, chips.locationId))
-      .where(inProcessWhere).orderBy(asc(chips.code)).limit(LIMIT),
+      .where(inProcessWhere).orderBy(desc(chips.updatedAt), desc(chips.id)).limit(LIMIT),
     db.select({ n: count() }).from(chips).where(inProcessWhere),
     // fab_steps_performed_idx, read backwards
     db.select({ id: fabSteps.id, chipId: fabSteps.chipId, chipCode: chips.code, kind: fabSteps.kind, operator: users.name, performedAt: fabSteps.performedAt })
