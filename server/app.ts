@@ -25,6 +25,7 @@ import { labelRoutes } from './routes/labels'
 import { excelRoutes } from './routes/excel'
 import { auditRoutes } from './routes/audit'
 import { analysisRoutes } from './routes/analysis'
+import { overviewRoutes } from './routes/overview'
 
 const MySQLStore = MySQLStoreFactory(session as never)
 
@@ -88,6 +89,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api/excel', excelRoutes(ctx))
   app.use('/api/audit', auditRoutes(ctx))
   app.use('/api/analysis', analysisRoutes(ctx))
+  app.use('/api/overview', overviewRoutes(ctx))
   app.use('/api', recordRoutes(ctx))
   app.use('/api', apiNotFound)
 

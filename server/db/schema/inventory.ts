@@ -94,7 +94,9 @@ export const fabSteps = mysqlTable('fab_steps', {
   performedAt: datetime('performed_at', { mode: 'date', fsp: 3 }).notNull(),
   notes: text('notes'),
   createdAt: created(),
-}, (t) => [index('fab_steps_chip_idx').on(t.chipId, t.performedAt)])
+}, (t) => [index('fab_steps_chip_idx').on(t.chipId, t.performedAt),
+  // the Overview's recent steps of the whole lab, newest first (services/home/overview.ts)
+  index('fab_steps_performed_idx').on(t.performedAt)])
 
 /**
  * Computed channel sets, stored once per distinct content: the key is the SHA-256 of the channels'

@@ -32,7 +32,9 @@ export const measurementSessions = mysqlTable('measurement_sessions', {
   notes: text('notes'),
   createdAt: created(),
   updatedAt: updated(),
-}, (t) => [index('sessions_performed_idx').on(t.performedAt), index('sessions_setup_idx').on(t.laserSetupId)])
+}, (t) => [index('sessions_performed_idx').on(t.performedAt), index('sessions_setup_idx').on(t.laserSetupId),
+  // the Overview's "my recent sessions": one operator's sessions newest first, without a sort
+  index('sessions_operator_performed_idx').on(t.operatorId, t.performedAt)])
 
 export const sessionResults = mysqlTable('session_results', {
   sessionId: int('session_id').notNull().references(() => measurementSessions.id, { onDelete: 'restrict' }),
