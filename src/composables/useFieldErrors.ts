@@ -35,10 +35,22 @@ export function useFieldErrors() {
   return { errors, clear, take, bind }
 }
 
-/** A Quasar input rule from a zod schema (the same schema the server parses with). */
+/**
+ * A Quasar input rule from a zod schema (the same schema the server parses with). A blank input
+ * ('' or null) is "Required" when the schema needs a value and passes when the field is optional
+ * (a blank number input is '' and would otherwise be coerced to 0 and judged as a number).
+ */
 export function zodRule(schema: ZodType) {
   return (value: unknown): true | string => {
     const result = schema.safeParse(value)
-    return result.success || (result.error.issues[0]?.message ?? 'Not valid')
+    if (result.success) return true
+    const issue = result.error.issues[0]
+    if (value === '' || value === null || value === undefined) {
+      if (schema.safeParse(undefined).success) return true
+      // A text rule's own word for an empty text ("Enter a name") is kept.
+      if (issue?.code === 'too_small' && issue.origin === 'string') return issue.message
+      return 'Required'
+    }
+    return issue?.message ?? 'Not valid'
   }
 }
