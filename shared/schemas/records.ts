@@ -35,7 +35,9 @@ export const coefficientSchema = z.object({
   /** Contracted (Voigt) d-matrix component for χ(2), e.g. d14; or a χ(3) component such as xxxx. */
   component: z.string().regex(/^(d[1-3][1-6]|[xyz]{4})$/, 'Use d11…d36 for χ(2) or e.g. xxxx for χ(3)'),
   order: z.union([z.literal(2), z.literal(3)]),
-  valuePmV: z.number({ error: 'Enter the value in pm/V (χ(3): in m²/V² × 10⁻²⁰… state the unit in the source)' }).min(-1e6).max(1e6),
+  // The schema's own words only for a value that is not a number; the limits use the shared map.
+  valuePmV: z.number({ error: (iss) => (iss.code === 'invalid_type' ? 'Enter the value in pm/V (χ(3): in m²/V² × 10⁻²⁰… state the unit in the source)' : undefined) })
+    .min(-1e6).max(1e6),
   wavelengthNm: num(100, 20000, 'nm'),
   source: text(300).min(1, 'Say where the value comes from'),
   isTypical: z.boolean().default(true),

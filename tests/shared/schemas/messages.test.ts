@@ -51,6 +51,10 @@ describe('plain zod messages (shared/schemas/messages.ts)', () => {
     expect(messages(coefficientSchema, { component: 'q', order: 2, valuePmV: 1, wavelengthNm: 10, source: 'x' }))
       .toMatchObject({ component: 'Use d11…d36 for χ(2) or e.g. xxxx for χ(3)', wavelengthNm: 'At least 100 nm' })
     expect(laserSetupSchema).toBeDefined()
+    // A schema's catch-all wording for "not a number" does not hide the limit.
+    const coef = { component: 'd14', order: 2, wavelengthNm: 1064, source: 'x' }
+    expect(messages(coefficientSchema, { ...coef, valuePmV: 2e6 }).valuePmV).toBe('At most 1\u00a0000\u00a0000 pm/V')
+    expect(messages(coefficientSchema, { ...coef, valuePmV: 'x' }).valuePmV).toMatch(/^Enter the value in pm\/V/)
   })
 
   it('units are read from the field name, digits grouped in threes from 10 000 on', () => {

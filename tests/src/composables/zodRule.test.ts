@@ -17,5 +17,7 @@ describe('zodRule (an input rule from the shared schema)', () => {
     expect(zodRule(materialSchema.shape.name)('')).toBe('Enter a name')
     expect(zodRule(z.string())('')).toBe(true)
     expect(zodRule(z.string().max(3))('abcd')).toBe('At most 3 characters')
+    expect(zodRule(z.number().max(1e6), 'valuePmV')(2e6)).toBe('At most 1\u00a0000\u00a0000 pm/V')
+    expect(zodRule(z.number().max(1e6), 'valuePmV')('')).toBe('Required')
   })
 })
