@@ -9,6 +9,8 @@ import '@quasar/extras/material-icons/material-icons.css'
 import 'quasar/src/css/index.sass'
 import './styles/app.sass'
 
+// Plain-words messages for the zod schemas the forms check with (the same map as the server's).
+import '../shared/schemas/messages'
 import { createApp } from 'vue'
 import { createPinia } from 'pinia'
 import { Dialog, Notify, Quasar } from 'quasar'

@@ -5,6 +5,8 @@ import type { ApiErrorBody } from '../../shared/types'
 import { EngineError } from '../../shared/engine'
 import { DB_UNAVAILABLE_MESSAGE } from './db-watchdog'
 import type { Logger } from '../logger'
+// Plain-words messages for every zod schema the routes parse with, also those defined in server/.
+import '../../shared/schemas/messages'
 
 /** Map zod issues to `{ "field.path": ["message", …] }`. */
 export function zodFields(err: ZodError): Record<string, string[]> {

@@ -3,7 +3,7 @@ import { ROLES } from '../roles'
 import { safeString } from './common'
 
 /** Password policy: long enough to resist guessing; no composition rules (common practice, NIST SP 800-63B). */
-export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200, 'Use at most 200 characters')
+export const passwordSchema = z.string().min(10, 'Use at least 10 characters').max(200)
 
 export const loginSchema = z.object({
   email: z.email('Enter a valid e-mail address').max(190),
@@ -37,12 +37,12 @@ export const updateUserSchema = z.object({
   name: safeString().min(2, 'Enter the full name').max(120).optional(),
   roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length).optional(),
   active: z.boolean().optional(),
-  reason: z.string().trim().max(500, 'Use at most 500 characters').optional().transform((v) => v || undefined),
+  reason: z.string().trim().max(500).optional().transform((v) => v || undefined),
 }).refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'Nothing to change' })
 
 /** An administrator's action on a person's account (end their sessions, send a password-reset link): why. */
 export const accountActionSchema = z.object({
-  reason: z.string({ error: 'Say why' }).trim().min(1, 'Say why').max(500, 'Use at most 500 characters'),
+  reason: z.string({ error: 'Say why' }).trim().min(1, 'Say why').max(500),
 })
 export type UpdateUserInput = z.input<typeof updateUserSchema>
 

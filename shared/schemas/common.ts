@@ -1,4 +1,6 @@
 import { z } from 'zod'
+// The plain-words error map for every schema (installed on load).
+import './messages'
 
 /**
  * Building blocks every request schema uses, so one rule holds on every route and form:

@@ -7,7 +7,7 @@ import { idValue, safeString } from './common'
  * uploads and retirements. Shapes of sessions and laser setups themselves are in ./records.
  */
 
-const optReason = safeString({ multiline: true }).max(500, 'Use at most 500 characters').optional().nullable().transform((v) => (v ? v : null))
+const optReason = safeString({ multiline: true }).max(500).optional().nullable().transform((v) => (v ? v : null))
 const codeParam = (re: RegExp, hint: string) => z.string().trim().toUpperCase().regex(re, hint).optional()
 const dateParam = z.string().refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date (YYYY-MM-DD) or date and time').optional()
 
@@ -49,5 +49,5 @@ export const fileListQuerySchema = z.object({
 
 /** Retiring a record or file always needs a reason (kept in the audit log). */
 export const retireSchema = z.object({
-  reason: safeString({ multiline: true, error: 'Say why' }).min(1, 'Say why').max(500, 'Use at most 500 characters'),
+  reason: safeString({ multiline: true, error: 'Say why' }).min(1, 'Say why').max(500),
 })

@@ -2,6 +2,7 @@ import { z } from 'zod'
 import { POINT_GROUP_SYMBOLS } from '../engine'
 import { arraySenseIssues } from '../array-sense'
 import { idValue, safeString } from './common'
+import { limitText } from './messages'
 
 /**
  * Request schemas of the sample records (materials → wafers → chips → arrays → sessions, plus
@@ -10,15 +11,17 @@ import { idValue, safeString } from './common'
  */
 
 /** One line of text (no tabs, line breaks or control characters; see ./common). */
-const text = (max: number) => safeString().max(max, `Use at most ${max} characters`)
+const text = (max: number) => safeString().max(max)
 /** Optional one-line text; empty becomes null. */
 const optLine = (max: number) => text(max).optional().nullable().transform((v) => (v ? v : null))
 /** Optional notes: may hold tabs and line breaks; empty becomes null. */
-const optText = (max: number) => safeString({ multiline: true }).max(max, `Use at most ${max} characters`).optional().nullable().transform((v) => (v ? v : null))
+const optText = (max: number) => safeString({ multiline: true }).max(max).optional().nullable().transform((v) => (v ? v : null))
 const id = idValue('Pick one')
 const optId = z.union([id, z.null()]).optional().transform((v) => v ?? null)
-const num = (min: number, max: number, unit: string) =>
-  z.coerce.number({ error: `Enter a number in ${unit}` }).min(min, `At least ${min} ${unit}`).max(max, `At most ${max} ${unit}`)
+const num = (min: number, max: number, unit: string) => {
+  const u = unit === '°' || !unit ? unit : ` ${unit}`
+  return z.coerce.number({ error: unit ? `Enter a number in ${unit}` : 'Enter a number' }).min(min, limitText('At least', min, u)).max(max, limitText('At most', max, u))
+}
 const dateString = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Use the form YYYY-MM-DD')
 const dateTimeString = z.string().refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date and time')
 
@@ -32,7 +35,9 @@ export const coefficientSchema = z.object({
   /** Contracted (Voigt) d-matrix component for χ(2), e.g. d14; or a χ(3) component such as xxxx. */
   component: z.string().regex(/^(d[1-3][1-6]|[xyz]{4})$/, 'Use d11…d36 for χ(2) or e.g. xxxx for χ(3)'),
   order: z.union([z.literal(2), z.literal(3)]),
-  valuePmV: z.number({ error: 'Enter the value in pm/V (χ(3): in m²/V² × 10⁻²⁰… state the unit in the source)' }).min(-1e6).max(1e6),
+  // The schema's own words only for a value that is not a number; the limits use the shared map.
+  valuePmV: z.number({ error: (iss) => (iss.code === 'invalid_type' ? 'Enter the value in pm/V (χ(3): in m²/V² × 10⁻²⁰… state the unit in the source)' : undefined) })
+    .min(-1e6).max(1e6),
   wavelengthNm: num(100, 20000, 'nm'),
   source: text(300).min(1, 'Say where the value comes from'),
   isTypical: z.boolean().default(true),
@@ -201,7 +206,7 @@ export const approveSchema = z.object({
   note: optText(2000),
 })
 export const signoffNoteSchema = z.object({
-  note: safeString({ multiline: true, error: 'Say why' }).max(2000, 'Use at most 2000 characters').min(1, 'Say why'),
+  note: safeString({ multiline: true, error: 'Say why' }).max(2000).min(1, 'Say why'),
 })
 
 // ---------- measurement sessions ----------

@@ -1,5 +1,5 @@
 import { reactive } from 'vue'
-import type { ZodType } from 'zod'
+import { z, type ZodType } from 'zod'
 import { isApiError } from '../api/http'
 
 /**
@@ -35,10 +35,25 @@ export function useFieldErrors() {
   return { errors, clear, take, bind }
 }
 
-/** A Quasar input rule from a zod schema (the same schema the server parses with). */
-export function zodRule(schema: ZodType) {
+/**
+ * A Quasar input rule from a zod schema (the same schema the server parses with). A blank input
+ * ('' or null) is "Required" when the schema needs a value and passes when the field is optional
+ * (a blank number input is '' and would otherwise be coerced to 0 and judged as a number).
+ * `field`: the field's name, for the unit its ending names.
+ */
+export function zodRule(schema: ZodType, field?: string) {
+  // Parsed under the field's name when given, so the shared map can read its unit ("At most 1 000 000 pm/V").
+  const parse = (v: unknown) => (field ? z.object({ [field]: schema }).safeParse({ [field]: v }) : schema.safeParse(v))
   return (value: unknown): true | string => {
-    const result = schema.safeParse(value)
-    return result.success || (result.error.issues[0]?.message ?? 'Not valid')
+    const result = parse(value)
+    if (result.success) return true
+    const issue = result.error.issues[0]
+    if (value === '' || value === null || value === undefined) {
+      if (parse(undefined).success) return true
+      // A text rule's own word for an empty text ("Enter a name") is kept.
+      if (issue?.code === 'too_small' && issue.origin === 'string') return issue.message
+      return 'Required'
+    }
+    return issue?.message ?? 'Not valid'
   }
 }
