@@ -31,7 +31,7 @@ const importQuery = z.object({
   /** The dry run's planHash: the import then does exactly what that dry run showed, or nothing (409). */
   plan: z.string().regex(/^[0-9a-f]{64}$/, 'Send the planHash of the dry run').optional(),
 })
-const importFields = z.object({ reason: z.string().trim().max(300, 'Use at most 300 characters').optional() })
+const importFields = z.object({ reason: z.string().trim().max(300).optional() })
 
 /** Mounted under /api/excel: inventory export (jobs with progress), import template, legacy import. */
 export function excelRoutes(ctx: AppContext): Router {

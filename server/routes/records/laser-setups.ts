@@ -17,7 +17,7 @@ import { safeString } from '../../../shared/schemas/common'
 
 /** An edit: any subset of the fields, and a reason (required only when the edit voids a sign-off; empty means none). */
 const updateSchema = laserSetupSchema.partial().extend({
-  reason: safeString({ multiline: true }).max(500, 'Use at most 500 characters').nullable().optional().transform((v) => v || null),
+  reason: safeString({ multiline: true }).max(500).nullable().optional().transform((v) => v || null),
 })
 /**
  * Figures query: MPE edition, focal spot, and the evaluation (exposure) time in seconds: 0.25 (aversion
