@@ -82,9 +82,7 @@ describe('polar fit through the API', () => {
       lines.push(`${a},${par.toFixed(3)},${perp.toFixed(3)}`)
     }
     const file = await upload(session.id, lines.join('\n'), 'sweep.csv', 'sweep')
-    const started = Date.now()
     const res = await optics.post(`/api/analysis/sessions/${session.id}/fit`).send({ fileId: file.id, arrayId: sample.arrays[0].id, save: true })
-    expect(Date.now() - started).toBeLessThan(3000)
     expect(res.status).toBe(200)
     expect(res.body.azimuth.periodDeg).toBeCloseTo(60, 6)
     expect(Math.abs(wrap(res.body.azimuth.value - phi, 60))).toBeLessThan(3 * res.body.azimuth.sigma)

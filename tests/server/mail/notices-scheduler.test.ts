@@ -126,7 +126,7 @@ describe('weekly digest', () => {
 
   it('a failing pass is logged and never throws', async () => {
     const broken = new NoticeScheduler({ select: () => { throw new Error('database gone') }, transaction: () => { throw new Error('database gone') } } as never, log)
-    await expect(broken.runOnce(new Date())).resolves.toBeTruthy()
+    await expect(broken.runOnce(new Date())).resolves.toEqual({ expiring: 0, digest: null })
     const lines = logged.map((l) => JSON.parse(l) as { level: number; msg: string; err?: { message: string } })
     expect(lines.some((l) => l.level === 50 && l.err?.message === 'database gone' && /notices/.test(l.msg))).toBe(true)
   })
