@@ -4,7 +4,8 @@ import type ExcelJS from 'exceljs'
 import { arrays, chips, fabSteps, files, laserSetups, locations, materials, measurementSessions as ms, moves, sessionResults, users, wafers } from '../../db/schema/index'
 import type { Db } from '../../db/client'
 import type { StoredChannel } from '../../../shared/records'
-import { ENGINE_VERSION, type PumpSpec } from '../../../shared/engine'
+import type { PumpSpec } from '../../../shared/engine'
+import { staleChannelsSql } from '../inventory/stale-channels'
 import { ARRAY_COLUMNS, CHIP_COLUMNS, WAFER_COLUMNS, dimensionColumn, dimensionsOf, FORM_DIMENSIONS } from './excel-columns'
 import { DATE_FMT, DATE_TIME_FMT, addSafeRow, addStyledSheet, dateOnly, vectorText, type SheetColumn } from './excel-style'
 import { STANDARD_PUMPS, STORED_ORDERS } from '../inventory/array-channels'
@@ -172,7 +173,7 @@ export async function writeArrays({ db, book, tick }: SheetContext) {
   // and turned into cells once for the whole sheet (and not kept in the channel-set cache after).
   const cells = new Map<string, Record<string, string>>()
   const { chipId: _chip, ...arrayColumns } = getTableColumns(arrays) // the columns the sheet writes
-  await eachBatch(ws, (after) => db.select({ a: arrayColumns, chip: chips.code }).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId))
+  await eachBatch(ws, (after) => db.select({ a: arrayColumns, chip: chips.code, isStale: staleChannelsSql }).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId))
     .where(gt(arrays.id, after)).orderBy(asc(arrays.id)).limit(BATCH), (r) => r.a.id, async (rows) => {
     const sets = await loadChannelSets(db, rows.map((r) => r.a.channelSetKey).filter((k) => k && !cells.has(k)), { remember: false })
     const cellsOf = (key: string | null): Record<string, string> => {
@@ -185,12 +186,12 @@ export async function writeArrays({ db, book, tick }: SheetContext) {
       }
       return c
     }
-    for (const { a, chip } of rows) {
+    for (const { a, chip, isStale } of rows) {
       const row: Record<string, unknown> = {
         ref: a.code, chip, position: a.position, shape: a.shape, ...Object.fromEntries(Object.entries(a.dimensionsNm).map(([k, v]) => [`dim:${k}`, v])),
         shapeAzimuthDeg: a.shapeAzimuthDeg, lattice: a.lattice, periodXNm: a.periodXNm, periodYNm: a.periodYNm, azimuthDeg: a.azimuthDeg, count: a.count,
         customRotationOrder: a.customRotationOrder, customMirrors: a.customMirrors?.join(', ') ?? null, notes: a.notes, version: versionOf(a.updatedAt),
-        symmetry: a.symmetryName, engineVersion: a.engineVersion, stale: a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash ? 'yes' : 'no',
+        symmetry: a.symmetryName, engineVersion: a.engineVersion, stale: Number(isStale) === 1 ? 'yes' : 'no',
         channelsComputedAt: a.channelsComputedAt, retiredAt: a.retiredAt, createdAt: a.createdAt,
       }
       Object.assign(row, cellsOf(a.channelSetKey))

@@ -7,7 +7,8 @@ import { ENGINE_VERSION } from '../../../shared/engine'
 import { diffFields, writeAudit } from '../audit/audit'
 import { ConflictError, fieldError } from '../../errors'
 import { arrayCode, found, iso, likePattern, orderBy, requireReason } from './codes'
-import { arraySymmetry, channelsInputHash, deriveChannels, type ChannelInputs } from './array-channels'
+import { arraySymmetry, deriveChannels, type ChannelInputs } from './array-channels'
+import { staleChannelsSql } from './stale-channels'
 import { loadChannelSets, saveChannelSets } from './channel-sets'
 import { plainRows } from '../../db/plain-rows'
 import { BoundedCache } from '../../../shared/engine/bounded-cache'
@@ -15,8 +16,8 @@ import { idCondition, textHitIds, type TextTarget } from '../search/text-search'
 
 /** Nanostructure arrays on chips. Channels are derived on every save (see array-channels.ts). */
 type Row = typeof arrays.$inferSelect
-const base = () => ({ a: arrays, chipCode: chips.code, chipRotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup })
-type Joined = { a: Row; chipCode: string; chipRotationDeg: number; cutNormal: [number, number, number]; flatDirection: [number, number, number]; pointGroup: string }
+const base = () => ({ a: arrays, chipCode: chips.code, chipRotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup, isStale: staleChannelsSql })
+type Joined = { a: Row; chipCode: string; chipRotationDeg: number; cutNormal: [number, number, number]; flatDirection: [number, number, number]; pointGroup: string; isStale: number }
 
 function selectArrays(db: Db) {
   return db.select(base()).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).innerJoin(wafers, eq(wafers.id, chips.waferId)).innerJoin(materials, eq(materials.id, wafers.materialId))
@@ -30,15 +31,9 @@ function inputsOf(r: Joined, a: Pick<Row, keyof Omit<ChannelInputs, 'pointGroup'
   }
 }
 
-/**
- * The row of one array read with its chip, wafer and material (an array's page, a chip's arrays):
- * built like a list row, but stale also when the stored input hash differs from one computed from
- * the current inputs (which catches a row changed outside the app; lists decide in SQL alone).
- */
+/** The row of one array read with its chip, wafer and material (an array's page, a chip's arrays), built like a list row. */
 function toArrayRow(r: Joined): ArrayRow {
-  const a = r.a
-  const stale = a.engineVersion !== ENGINE_VERSION || !a.channelsInputHash || a.channelsInputHash !== channelsInputHash(inputsOf(r))
-  return toListRow({ ...a, chipCode: r.chipCode, chipRotationDeg: r.chipRotationDeg, isStale: stale ? 1 : 0 })
+  return toListRow({ ...r.a, chipCode: r.chipCode, chipRotationDeg: r.chipRotationDeg, isStale: r.isStale })
 }
 
 type ListJoined = Omit<Row, 'channelSetKey' | 'channelsInputHash'> & { chipCode: string; chipRotationDeg: number; isStale: number }
@@ -77,15 +72,13 @@ function toArrayRecord(r: Joined, sets: Map<string, StoredChannel[]>): ArrayReco
   return { ...toArrayRow(r), channels: (r.a.channelSetKey && sets.get(r.a.channelSetKey)) || [] }
 }
 
-/** Stale in SQL: another engine version, or an input hash cleared when the wafer/chip/material changed. */
-const staleSql = sql`(${arrays.engineVersion} IS NULL OR ${arrays.engineVersion} <> ${ENGINE_VERSION} OR ${arrays.channelsInputHash} IS NULL)`
 /** The columns of a list row: no channel key or input hash, staleness decided in SQL (as the `stale` filter and the export do). */
 const LIST_COLUMNS = {
   id: arrays.id, code: arrays.code, chipId: arrays.chipId, chipCode: chips.code, chipRotationDeg: chips.rotationDeg, position: arrays.position,
   shape: arrays.shape, dimensionsNm: arrays.dimensionsNm, shapeAzimuthDeg: arrays.shapeAzimuthDeg, lattice: arrays.lattice,
   periodXNm: arrays.periodXNm, periodYNm: arrays.periodYNm, azimuthDeg: arrays.azimuthDeg, count: arrays.count,
   customRotationOrder: arrays.customRotationOrder, customMirrors: arrays.customMirrors, symmetryName: arrays.symmetryName,
-  engineVersion: arrays.engineVersion, channelsComputedAt: arrays.channelsComputedAt, isStale: sql<number>`${staleSql}`, notes: arrays.notes,
+  engineVersion: arrays.engineVersion, channelsComputedAt: arrays.channelsComputedAt, isStale: staleChannelsSql, notes: arrays.notes,
   retiredAt: arrays.retiredAt, createdAt: arrays.createdAt, updatedAt: arrays.updatedAt,
 }
 
@@ -104,7 +97,7 @@ export async function listArrays(db: Db, q: ArrayListQuery): Promise<Page<ArrayR
     chipId ? eq(arrays.chipId, chipId) : undefined,
     q.shape ? eq(arrays.shape, q.shape) : undefined,
     q.lattice ? eq(arrays.lattice, q.lattice) : undefined,
-    q.stale === true ? staleSql : q.stale === false ? sql`NOT ${staleSql}` : undefined,
+    q.stale === true ? staleChannelsSql : q.stale === false ? sql`NOT ${staleChannelsSql}` : undefined,
     q.q ? idCondition(arrays.id, await textHitIds(db, ARRAY_TEXT, q.q), or(like(arrays.code, likePattern(q.q)), like(arrays.notes, likePattern(q.q)))) : undefined,
   )
   // The page is cut from `arrays` alone (its indexes) in a derived table, and only its rows are
@@ -205,7 +198,7 @@ const CHUNK = 200
 export async function recomputeArrays(db: Db, actor: User, opts: { ids?: number[]; staleOnly?: boolean }): Promise<{ checked: number; recomputed: number }> {
   let lastId = 0, checked = 0, recomputed = 0
   for (;;) {
-    const filter: (SQL | undefined)[] = [gt(arrays.id, lastId), isNull(arrays.retiredAt), opts.ids ? inArray(arrays.id, opts.ids.length ? opts.ids : [0]) : undefined, opts.staleOnly ? staleSql : undefined]
+    const filter: (SQL | undefined)[] = [gt(arrays.id, lastId), isNull(arrays.retiredAt), opts.ids ? inArray(arrays.id, opts.ids.length ? opts.ids : [0]) : undefined, opts.staleOnly ? staleChannelsSql : undefined]
     const rows = await selectArrays(db).where(and(...filter)).orderBy(asc(arrays.id)).limit(CHUNK)
     if (!rows.length) break
     lastId = rows[rows.length - 1].a.id
