@@ -1,10 +1,10 @@
 import { fieldError } from '../../errors'
+import { AnalysisError, parseTable, type ParsedTable } from '../../../shared/analysis'
 
 /**
  * What an uploaded file is, decided from its bytes, never from its name or the browser's type:
  * magic numbers for images and PDF; strict UTF-8 without NUL/control bytes plus a table of numbers
- * for CSV/TXT spectra and sweeps. Also: original-name clean-up and the lenient table parser used by
- * the spectrum preview.
+ * for CSV/TXT spectra and sweeps, read by the analysis's own table parser. Also: original-name clean-up.
  */
 
 export type FileKind = 'sem' | 'spectrum' | 'sweep' | 'camera' | 'other'
@@ -36,52 +36,19 @@ export function decodeText(b: Buffer): string | null {
   return s.replace(/^\uFEFF/, '')
 }
 
-export interface DataTable { columns: string[]; rows: number[][]; skipped: number; separator: string }
-
-const SEPARATORS = [';', '\t', ','] as const
-
-function toNumber(cell: string, decimalComma: boolean): number {
-  const t = cell.trim().replace(/^"(.*)"$/, '$1')
-  if (t === '') return Number.NaN
-  return Number(decimalComma ? t.replace(',', '.') : t)
-}
-
-/** Pick the separator that splits most sample lines into the same number (≥ 2) of fields. */
-function pickSeparator(lines: string[]): string {
-  const sample = lines.slice(0, 50)
-  for (const sep of SEPARATORS) {
-    const freq = new Map<number, number>()
-    for (const l of sample) { const c = l.split(sep).length; if (c >= 2) freq.set(c, (freq.get(c) ?? 0) + 1) }
-    if (Math.max(0, ...freq.values()) >= Math.ceil(sample.length / 2)) return sep
-  }
-  return 'whitespace'
-}
-
 /**
- * Parse a CSV/TXT table leniently: comma, semicolon, tab or whitespace separators; `#`/`%` comment
- * lines ignored; leading non-numeric lines taken as the header (its last line names the columns);
- * decimal commas accepted when the separator is `;` (or tab/whitespace) as spreadsheets in many
- * locales write them. Rows whose first two cells are not numbers are counted in `skipped`.
+ * The table in an upload, read by the same parser as the analysis (`parseTable` of shared/analysis),
+ * so a file that passes the upload check as a table is one the analysis can read, and the reverse.
+ * Null when the text is not a table of at least two rows of two columns.
  */
-export function parseDataTable(text: string): DataTable {
-  const lines = text.split(/\r\n|\n|\r/).map((l) => l.trim()).filter((l) => l && !/^[#%]/.test(l))
-  const separator = pickSeparator(lines)
-  const split = (l: string) => (separator === 'whitespace' ? l.split(/\s+/) : l.split(separator))
-  const decimalComma = separator !== ','
-  let header: string[] | null = null
-  const rows: number[][] = []
-  let skipped = 0
-  for (const line of lines) {
-    const cells = split(line)
-    const nums = cells.map((c) => toNumber(c, decimalComma))
-    const ok = cells.length >= 2 && Number.isFinite(nums[0]) && Number.isFinite(nums[1])
-    if (ok) rows.push(nums.filter((n) => Number.isFinite(n)))
-    else if (rows.length === 0) header = cells.map((c) => c.trim().replace(/^"(.*)"$/, '$1').slice(0, 60))
-    else skipped++
+export function readDataTable(text: string): ParsedTable | null {
+  try {
+    const table = parseTable(text)
+    return table.columns.length >= 2 && table.rows.length >= 2 ? table : null
+  } catch (err) {
+    if (err instanceof AnalysisError) return null
+    throw err
   }
-  const width = rows[0]?.length ?? 2
-  const columns = header && header.length >= 2 ? header : Array.from({ length: width }, (_, i) => (i === 0 ? 'x' : i === 1 ? 'y' : `c${i + 1}`))
-  return { columns, rows, skipped, separator }
 }
 
 /** Keep at most `max` points of a curve: the lowest and highest point of each bucket, in order (peaks survive). */
@@ -121,8 +88,7 @@ export function checkContent(b: Buffer, kind: FileKind): string {
   }
   const text = decodeText(b)
   if (text === null) throw fieldError('file', 'The file type is not accepted: use PNG, JPEG, TIFF, GIF, WebP, PDF, or UTF-8 text (CSV/TXT)')
-  const table = parseDataTable(text)
-  if (table.rows.length >= 2) return 'text/csv'
+  if (readDataTable(text)) return 'text/csv'
   if (TEXT_KINDS.includes(kind)) throw fieldError('file', 'This does not look like a data table: expected rows of numbers separated by commas, semicolons or tabs')
   return 'text/plain'
 }

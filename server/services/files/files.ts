@@ -6,7 +6,7 @@ import type { StoredFile } from '../../../shared/records'
 import type { FileUploadInput } from '../../../shared/schemas/measurements'
 import type { FileStorage } from './storage'
 import { writeAudit } from '../audit/audit'
-import { checkContent, downsample, isImageMime, parseDataTable, sanitizeFileName } from './file-types'
+import { checkContent, downsample, isImageMime, readDataTable, sanitizeFileName } from './file-types'
 import { AppError, BadRequestError, ForbiddenError, NotFoundError, fieldError } from '../../errors'
 import { defineAbilityFor, fileSubject } from '../../../shared/abilities'
 
@@ -129,8 +129,9 @@ export async function previewFile(db: Db, storage: FileStorage, id: number): Pro
   if (!file.hasPreview) throw new NotFoundError('This file has no preview; download it instead.')
   const data = await storage.read(file.sha256)
   if (file.mime === 'text/csv') {
-    const t = parseDataTable(data.toString('utf8'))
-    return { type: 'table', body: { columns: t.columns.slice(0, 2), points: downsample(t.rows.map((r) => [r[0], r[1]])), skipped: t.skipped } }
+    const t = readDataTable(data.toString('utf8'))
+    const points = (t?.rows ?? []).filter((r) => Number.isFinite(r[0]) && Number.isFinite(r[1])).map((r): [number, number] => [r[0], r[1]])
+    return { type: 'table', body: { columns: t?.columns.slice(0, 2) ?? [], points: downsample(points), skipped: t?.skipped.length ?? 0 } }
   }
   const sharp = await loadSharp()
   try {

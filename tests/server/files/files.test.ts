@@ -8,7 +8,8 @@ import { and, eq } from 'drizzle-orm'
 import { auditLog } from '../../../server/db/schema/index'
 import { startTestApp, signedInAs } from '../helpers'
 import { makeSample } from '../measurements/fixtures-measurements'
-import { parseDataTable, sanitizeFileName } from '../../../server/services/files/file-types'
+import { readDataTable, sanitizeFileName } from '../../../server/services/files/file-types'
+import { parseTable } from '../../../shared/analysis'
 
 // Uploads go to a throw-away data dir (the app reads DATA_DIR when it is built).
 const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'ovt-files-'))
@@ -128,8 +129,16 @@ describe('GET /api/files…', () => {
     expect(res.body.skipped).toBe(1)
     const peak = res.body.points.reduce((p: number[], q: number[]) => (q[1] > p[1] ? q : p))
     expect(peak[0]).toBeCloseTo(775, 0)
-    expect(parseDataTable('x,y\n1,2\n3,4\n').rows).toEqual([[1, 2], [3, 4]])
-    expect(parseDataTable('1\t2,5\n3\t4,5\n').rows).toEqual([[1, 2.5], [3, 4.5]])
+  })
+
+  it('the upload check, the preview and the analysis read a table with one parser', () => {
+    const sweep = '# polarisation sweep\nangle;I\n0;1,5\n10;2,5\n20;3,5\n'
+    expect(readDataTable(sweep)!.rows).toEqual(parseTable(sweep).rows)
+    expect(readDataTable(sweep)!.columns).toEqual(['angle', 'I'])
+    expect(readDataTable('x,y\n1,2\n3,4\n')!.rows).toEqual([[1, 2], [3, 4]])
+    expect(readDataTable('1\t2,5\n3\t4,5\n')!.rows).toEqual([[1, 2.5], [3, 4.5]])
+    expect(readDataTable('one column\n1\n2\n3\n')).toBeNull()
+    expect(readDataTable('only,one row\n1,2\n')).toBeNull()
   })
 
   it('lists by record, retires with a reason only, and answers 404s', async () => {
