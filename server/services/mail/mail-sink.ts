@@ -1,5 +1,4 @@
-import { SMTPServer } from 'smtp-server'
-import { simpleParser, type AddressObject } from 'mailparser'
+import type { AddressObject } from 'mailparser'
 import type { Db } from '../../db/client'
 import { mailReceived } from '../../db/schema/index'
 import type { Logger } from '../../logger'
@@ -11,9 +10,11 @@ function addresses(a: AddressObject | AddressObject[] | undefined): string {
 
 /**
  * A loopback SMTP server that stores every message it receives in `mail_received`, so development
- * and tests send real mail through nodemailer without any outside service.
+ * and tests send real mail through nodemailer without any outside service. Its packages are loaded
+ * here, on first use, so a server that sends through a real SMTP relay never loads them.
  */
 export async function startMailSink(db: Db, port: number, log: Logger): Promise<{ port: number; close: () => Promise<void> }> {
+  const [{ SMTPServer }, { simpleParser }] = await Promise.all([import('smtp-server'), import('mailparser')])
   const server = new SMTPServer({
     authOptional: true,
     disabledCommands: ['STARTTLS', 'AUTH'],
