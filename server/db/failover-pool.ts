@@ -122,6 +122,7 @@ export class FailoverPool {
       try { conn = await this.pools[i].getConnection() } catch (err) { last = err; this.markDown(i); continue }
       try { await this.prepare(i, conn) } catch (err) { conn.destroy(); last = err; this.markDown(i); continue }
       this.downUntil[i] = 0
+      this.hostOfConn.set(conn.connection, this.hosts[i])
       return this.watch(i, conn)
     }
     throw last
@@ -140,6 +141,23 @@ export class FailoverPool {
       }
     }
   }
+
+  /**
+   * Does a host answer? `SELECT 1` on a connection, without the causal wait on a Galera node: while
+   * the cluster is changing its membership (a node just died and is not yet evicted) a causal read
+   * waits, but the node still answers, and requests only wait a few seconds for their commits. The
+   * db-watchdog and /api/health use this, so that window is not reported as "database down".
+   */
+  async ping(): Promise<void> {
+    const conn = await this.getConnection()
+    try {
+      const i = this.hosts.findIndex((h) => h === this.hostOf(conn))
+      await conn.query(this.galera[i] ? 'SET STATEMENT wsrep_sync_wait = 0 FOR SELECT 1' : 'SELECT 1')
+    } finally { conn.release() }
+  }
+
+  private readonly hostOfConn = new WeakMap<object, DbHost>()
+  private hostOf(conn: PoolConnection): DbHost | undefined { return this.hostOfConn.get(conn.connection) }
 
   query(...args: unknown[]) { return this.send('query', args) }
   execute(...args: unknown[]) { return this.send('execute', args) }
