@@ -238,7 +238,7 @@ REPORT="${CLUSTER_JSON:-$CL/vitest.json}"
 CLUSTER_PROXY_URL="http://127.0.0.1:$PROXY_PORT" CLUSTER_APP_A_URL="${APP_URL[a]}" CLUSTER_APP_B_URL="${APP_URL[b]}" \
 CLUSTER_APP_A_PID="$APP_PID_a" CLUSTER_APP_B_PID="$APP_PID_b" CLUSTER_NODES="$NODES_JSON" \
 CLUSTER_DB_USER="$DB_USER" CLUSTER_DB_PASSWORD="$DB_PW" CLUSTER_DB="$DB" CLUSTER_SIZE_FILE="$CL/sizes.txt" \
-  timeout 420 ./node_modules/.bin/vitest run --config vitest.cluster.config.ts --reporter=default --reporter=json --outputFile.json="$REPORT"
+  timeout 300 ./node_modules/.bin/vitest run --config vitest.cluster.config.ts --reporter=default --reporter=json --outputFile.json="$REPORT"
 RC=$?
 for name in a b; do
   if grep -q '"level":50' "$CL/app-$name.log" 2>/dev/null; then log "app server $name logged errors (last lines):"; grep '"level":50' "$CL/app-$name.log" | tail -5 | cut -c1-400; fi
