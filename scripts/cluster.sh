@@ -8,7 +8,12 @@
 #   CLUSTER_DIR       where the nodes' data lives (default .test-data/cluster; wiped at the start)
 #   KEEP_CLUSTER_DATA=1  keep it afterwards for a look
 #   CLUSTER_JSON      also write the Vitest JSON report here (scripts/test.sh reads it)
+#
+# `scripts/cluster.sh bench` (npm run bench:cluster) starts node 1 alone instead and runs
+# bench/galera.ts: write throughput through the proxy on one node, then on three (it starts nodes 2
+# and 3), then the failover time when a node is killed.
 set -uo pipefail
+MODE="${1:-test}"
 source "$(dirname "$0")/lib.sh"
 cd "$ROOT"
 
@@ -152,10 +157,13 @@ mariadb-install-db --no-defaults --datadir="$(node_dir 1)/mariadb" --user="$NODE
 node_start 1 --wsrep-new-cluster
 wait_synced 1 60 || fail_early "node 1 did not bootstrap"
 db_create "$(node_dir 1)" "$DB" "$DB_USER" "$DB_PW"
-for i in 2 3; do node_start "$i"; wait_synced "$i" 120 || fail_early "node $i did not join"; done
+WANT_SIZE=3
+if [ "$MODE" = bench ]; then WANT_SIZE=1; else
+  for i in 2 3; do node_start "$i"; wait_synced "$i" 120 || fail_early "node $i did not join"; done
+fi
 SIZE="$(wsrep_status 1 wsrep_cluster_size)"
 log "Galera cluster up: wsrep_cluster_size=$SIZE ($(( SECONDS - START_SECONDS )) s)"
-[ "$SIZE" = 3 ] || fail_early "cluster size is $SIZE, not 3"
+[ "$SIZE" = "$WANT_SIZE" ] || fail_early "cluster size is $SIZE, not $WANT_SIZE"
 
 url_from() { # url_from 2 3 1: the app's DATABASE_URL with the nodes in that order
   local hosts="" i
@@ -235,10 +243,16 @@ for i in "${NODES[@]}"; do
 done
 NODES_JSON+="]"
 REPORT="${CLUSTER_JSON:-$CL/vitest.json}"
-CLUSTER_PROXY_URL="http://127.0.0.1:$PROXY_PORT" CLUSTER_APP_A_URL="${APP_URL[a]}" CLUSTER_APP_B_URL="${APP_URL[b]}" \
-CLUSTER_APP_A_PID="$APP_PID_a" CLUSTER_APP_B_PID="$APP_PID_b" CLUSTER_NODES="$NODES_JSON" \
-CLUSTER_DB_USER="$DB_USER" CLUSTER_DB_PASSWORD="$DB_PW" CLUSTER_DB="$DB" CLUSTER_SIZE_FILE="$CL/sizes.txt" \
-  timeout 300 ./node_modules/.bin/vitest run --config vitest.cluster.config.ts --reporter=default --reporter=json --outputFile.json="$REPORT"
+export CLUSTER_PROXY_URL="http://127.0.0.1:$PROXY_PORT" CLUSTER_APP_A_URL="${APP_URL[a]}" CLUSTER_APP_B_URL="${APP_URL[b]}" \
+  CLUSTER_APP_A_PID="$APP_PID_a" CLUSTER_APP_B_PID="$APP_PID_b" CLUSTER_NODES="$NODES_JSON" \
+  CLUSTER_DB_USER="$DB_USER" CLUSTER_DB_PASSWORD="$DB_PW" CLUSTER_DB="$DB" CLUSTER_SIZE_FILE="$CL/sizes.txt"
+if [ "$MODE" = bench ]; then
+  timeout 600 ./node_modules/.bin/tsx bench/galera.ts
+  RC=$?
+  log "cluster bench took $(( SECONDS - START_SECONDS )) s"
+  exit $RC
+fi
+timeout 300 ./node_modules/.bin/vitest run --config vitest.cluster.config.ts --reporter=default --reporter=json --outputFile.json="$REPORT"
 RC=$?
 for name in a b; do
   if grep -q '"level":50' "$CL/app-$name.log" 2>/dev/null; then log "app server $name logged errors (last lines):"; grep '"level":50' "$CL/app-$name.log" | tail -5 | cut -c1-400; fi

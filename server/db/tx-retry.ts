@@ -18,7 +18,7 @@ import { isNodeFault } from './failover-pool'
  * both get their locks, and certification refuses the later commit with 1213, which is retried
  * here. So a read-check-write in a transaction stays correct on a cluster: the retry reads again.
  */
-export const TX_ATTEMPTS = 5
+export const TX_ATTEMPTS = 8
 
 type Coded = { code?: string; errno?: number; cause?: unknown; message?: string }
 
@@ -36,7 +36,8 @@ export function isRetryableTxError(err: unknown, commitSent: boolean): boolean {
   return !commitSent && errs.some(isNodeFault)
 }
 
-const pause = (attempt: number) => new Promise((r) => setTimeout(r, Math.round((5 + Math.random() * 20) * 2 ** attempt)))
+/** Jittered exponential back-off, at most 500 ms a pause (all eight attempts: about 1–2 s). */
+const pause = (attempt: number) => new Promise((r) => setTimeout(r, Math.round(Math.min(500, (5 + Math.random() * 20) * 2 ** attempt))))
 
 /**
  * Run `attempt` (one whole transaction) until it commits, at most TX_ATTEMPTS times. `attempt`
