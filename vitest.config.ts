@@ -4,6 +4,8 @@ import { defineConfig } from 'vitest/config'
 export default defineConfig({
   test: {
     include: ['tests/**/*.test.ts'],
+    // tests/cluster/ needs the Galera cluster of `npm run test:cluster` (vitest.cluster.config.ts).
+    exclude: ['tests/cluster/**', 'node_modules/**'],
     environment: 'node',
     testTimeout: 30_000,
     hookTimeout: 60_000,

@@ -9,8 +9,9 @@ fi
 [ -n "${DATABASE_URL:-}" ] || die "DATABASE_URL is not set (and there is no $DATA/db-password)"
 
 # Split the URL once; the password goes to the clients through MYSQL_PWD, never on the command line.
+# A URL listing several hosts (a Galera cluster) is read from its first host: every node holds all data.
 eval "$(node -e '
-  const u = new URL(process.argv[1]); const q = (s) => "\x27" + s.replace(/\x27/g, "\x27\\\x27\x27") + "\x27"
+  const u = new URL(process.argv[1].replace(/@([^/@,]+),[^/@]*\//, "@$1/")); const q = (s) => "\x27" + s.replace(/\x27/g, "\x27\\\x27\x27") + "\x27"
   console.log(`DB_HOST=${q(u.hostname)} DB_PORT_=${q(u.port || "3306")} DB_USER=${q(decodeURIComponent(u.username))} DB_NAME=${q(decodeURIComponent(u.pathname.slice(1)))}`)
   console.log(`export MYSQL_PWD=${q(decodeURIComponent(u.password))}`)' "$DATABASE_URL")"
 sql() { mariadb --no-defaults -h "$DB_HOST" -P "$DB_PORT_" -u "$DB_USER" --batch --skip-column-names "$DB_NAME" "$@"; }

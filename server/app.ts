@@ -1,3 +1,4 @@
+import { setExportStaleness } from './services/excel/excel-export'
 import express, { type Express } from 'express'
 import session from 'express-session'
 import MySQLStoreFactory from 'express-mysql-session'
@@ -44,6 +45,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
 
+  setExportStaleness(ctx.env.EXPORT_STALE_S * 1000)
   const store = new MySQLStore({ createDatabaseTable: false, clearExpired: true, checkExpirationInterval: 15 * 60 * 1000 }, ctx.pool as never)
   const pp = configurePassport(ctx.db)
 

@@ -36,7 +36,7 @@ async function main() {
   const dataDir = process.env.DATA_DIR ?? '.data'
   const env = loadEnv({ ...process.env, SESSION_SECRET: sessionSecret(dataDir) })
   const log = createLogger(env.LOG_LEVEL)
-  const { pool, db } = createDb(env.DATABASE_URL, 20)
+  const { pool, db } = createDb(env.DATABASE_URL, 20, { syncWait: env.DATABASE_SYNC_WAIT })
 
   let smtpUrl = env.SMTP_URL
   let sink: Awaited<ReturnType<typeof startMailSink>> | undefined

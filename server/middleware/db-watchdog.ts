@@ -36,7 +36,9 @@ export class DbMonitor {
     let timer: NodeJS.Timeout | undefined
     const timeout = new Promise<false>((resolve) => { timer = setTimeout(() => resolve(false), this.timeoutMs) })
     try {
-      return await Promise.race([this.pool.query('SELECT 1').then(() => true, () => false), timeout])
+      // The failover pool's ping skips Galera's causal wait (server/db/failover-pool.ts).
+      const ping = (this.pool as Pool & { ping?: () => Promise<void> }).ping?.bind(this.pool) ?? (() => this.pool.query('SELECT 1'))
+      return await Promise.race([ping().then(() => true, () => false), timeout])
     } finally { clearTimeout(timer) }
   }
 }

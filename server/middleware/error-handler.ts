@@ -36,8 +36,10 @@ const UNAVAILABLE_CODES = new Set([
   'ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN',
   'PROTOCOL_CONNECTION_LOST', 'PROTOCOL_SEQUENCE_TIMEOUT', 'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR', 'PROTOCOL_ENQUEUE_AFTER_QUIT',
   'ER_CON_COUNT_ERROR', 'ER_TOO_MANY_USER_CONNECTIONS', 'ER_SERVER_SHUTDOWN', 'ER_LOCK_WAIT_TIMEOUT', 'ER_QUERY_INTERRUPTED',
+  // still refused after the transaction retries (server/db/tx-retry.ts): busy rows, or a Galera node not ready
+  'ER_LOCK_DEADLOCK', 'WSREP_NOT_READY',
 ])
-const UNAVAILABLE_ERRNOS = new Set([1040, 1203, 1053, 1205, 1317, 2002, 2003, 2006, 2013])
+const UNAVAILABLE_ERRNOS = new Set([1040, 1203, 1053, 1205, 1213, 1047, 1317, 2002, 2003, 2006, 2013])
 export function isDbUnavailable(err: unknown): boolean {
   const e = dbErrorOf(err)
   if (e) return UNAVAILABLE_CODES.has(e.code ?? '') || UNAVAILABLE_ERRNOS.has(e.errno ?? 0)

@@ -17,6 +17,13 @@ export const mailQueue = mysqlTable('mail_queue', {
   nextAttemptAt: datetime('next_attempt_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   createdAt: datetime('created_at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   sentAt: datetime('sent_at', { mode: 'date', fsp: 3 }),
+  /**
+   * The mail worker (one per app server) that is sending this message, until `claimed_until`
+   * (database time). A worker sends only a row it has claimed, so two app servers never send the
+   * same message; a claim of a worker that stopped runs out and the row is sent by another.
+   */
+  claimedBy: varchar('claimed_by', { length: 64 }),
+  claimedUntil: datetime('claimed_until', { mode: 'date', fsp: 3 }),
 }, (t) => [index('mail_queue_status_idx').on(t.status, t.nextAttemptAt)])
 
 /** Messages received by the local SMTP sink (development and tests), shown in the Mail outbox page. */

@@ -22,7 +22,7 @@ import { writeArrays, writeChips, writeFabSteps, writeFiles, writeLaserSetups, w
  * the download (which streams from the FileStorage): app servers keep no export state. The running
  * job writes its row at every phase change, its progress at most every PROGRESS_MS, and at least
  * every HEARTBEAT_MS (updated_at is its heartbeat). A job not done or failed whose row has not
- * been written for STALE_MS is shown as failed (its server stopped) and no longer blocks its
+ * been written for the staleness (EXPORT_STALE_S, default STALE_MS) is shown as failed (its server stopped) and no longer blocks its
  * owner's next export; the next sweep marks it failed in the table, so a late write of that server
  * cannot revive it (its writes only touch rows not yet done or failed, and it gives up when its row
  * is gone or failed). Jobs and their workbooks expire an hour after they started: swept when an
@@ -31,10 +31,16 @@ import { writeArrays, writeChips, writeFabSteps, writeFiles, writeLaserSetups, w
  * clocks must agree to well within STALE_MS.
  */
 const TTL_MS = 60 * 60 * 1000
-/** A job whose server has not written its row for this long is shown as failed. */
+/** A job whose server has not written its row for this long is shown as failed (default; `EXPORT_STALE_S`). */
 export const STALE_MS = 2 * 60 * 1000
-/** The running job writes its row at least this often, even when a step makes no progress. */
-const HEARTBEAT_MS = 15_000
+let staleMs = STALE_MS
+/** The running job writes its row at least this often, even when a step makes no progress (a quarter of the staleness, at most 15 s). */
+let heartbeatMs = 15_000
+/** Set the staleness from the configuration (`EXPORT_STALE_S`, called by createApp). */
+export function setExportStaleness(ms: number): void {
+  staleMs = ms
+  heartbeatMs = Math.min(15_000, Math.floor(ms / 4))
+}
 /** And its progress at most this often (rows are counted in memory in between). */
 const PROGRESS_MS = 500
 const STALE_ERROR = 'The export stopped: the app server writing it stopped; start a new export.'
@@ -42,7 +48,7 @@ const FINISHED: ExportPhase[] = ['done', 'failed']
 
 const exportDir = (dataDir: string) => path.resolve(dataDir, 'exports')
 const stamp = (d: Date) => d.toISOString().slice(0, 16).replace(/[-:]/g, '').replace('T', '-')
-const isStale = (row: ExportJobRow, now: number) => !FINISHED.includes(row.phase) && now - row.updatedAt.getTime() > STALE_MS
+const isStale = (row: ExportJobRow, now: number) => !FINISHED.includes(row.phase) && now - row.updatedAt.getTime() > staleMs
 
 /** The API shape of a job row; a stale running job is reported failed. */
 function publicJob(row: ExportJobRow, now = Date.now()): ExportJob {
@@ -70,7 +76,7 @@ async function blobInUse(db: Db, sha256: string, now: number): Promise<boolean> 
  */
 export async function sweepExports(db: Db, storage: FileStorage, dataDir: string, now = Date.now()): Promise<void> {
   await db.update(exportJobs).set({ phase: 'failed', error: STALE_ERROR, finishedAt: sql`${exportJobs.updatedAt}` })
-    .where(and(notInArray(exportJobs.phase, FINISHED), lt(exportJobs.updatedAt, new Date(now - STALE_MS))))
+    .where(and(notInArray(exportJobs.phase, FINISHED), lt(exportJobs.updatedAt, new Date(now - staleMs))))
   const expired = await db.select({ id: exportJobs.id, blob: exportJobs.blobSha256 }).from(exportJobs).where(lt(exportJobs.startedAt, new Date(now - TTL_MS)))
   for (const job of expired) {
     try {
@@ -156,7 +162,7 @@ function jobWriter(db: Db, id: string) {
 
 async function run(db: Db, storage: FileStorage, actor: User, id: string, file: string) {
   const job = jobWriter(db, id)
-  const heartbeat = setInterval(job.heartbeat, HEARTBEAT_MS)
+  const heartbeat = setInterval(job.heartbeat, heartbeatMs)
   heartbeat.unref()
   let stored: string | null = null
   try {
@@ -206,7 +212,7 @@ async function removeUnlessInUse(db: Db, storage: FileStorage, sha256: string) {
 export async function startExport(db: Db, storage: FileStorage, dataDir: string, actor: User): Promise<ExportJob> {
   const now = new Date()
   const runningOf = (on: Pick<Db, 'select'>) => on.select({ id: exportJobs.id }).from(exportJobs)
-    .where(and(eq(exportJobs.userId, actor.id), notInArray(exportJobs.phase, FINISHED), gte(exportJobs.updatedAt, new Date(now.getTime() - STALE_MS)))).limit(1)
+    .where(and(eq(exportJobs.userId, actor.id), notInArray(exportJobs.phase, FINISHED), gte(exportJobs.updatedAt, new Date(now.getTime() - staleMs)))).limit(1)
   const refuse = () => new ConflictError('Your previous export is still running; wait for it to finish.')
   if ((await runningOf(db)).length) throw refuse() // before the sweep: a refused request writes nothing
   await sweepExports(db, storage, dataDir, now.getTime())
