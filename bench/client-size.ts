@@ -16,16 +16,35 @@ export function runClientSizeBench(clientDir: string): BenchRow[] {
   const first = new Set([...html.matchAll(/(?:src|href)="\/?assets\/([^"]+\.(?:js|css))"/g)].map((m) => m[1]))
   const files = fs.readdirSync(assets).filter((f) => /\.(js|css)$/.test(f))
   const size = new Map(files.map((f) => [f, gz(path.join(assets, f))]))
-  const sum = (names: string[], ext: string) => names.filter((f) => f.endsWith(ext)).reduce((n, f) => n + (size.get(f) ?? 0), 0)
-  const firstJs = sum([...first], '.js'), firstCss = sum([...first], '.css')
+  const sum = (names: string[], ext: string) =>
+    names.filter((f) => f.endsWith(ext)).reduce((n, f) => n + (size.get(f) ?? 0), 0)
+  const firstJs = sum([...first], '.js'),
+    firstCss = sum([...first], '.css')
   const rows: BenchRow[] = [
-    { name: 'client: first page JS (index.html entry + modulepreloads), gzip', value: firstJs, unit: 'kB', target: 300, better: 'lower', note: [...first].filter((f) => f.endsWith('.js')).join(', ') },
-    { name: 'client: first page CSS, gzip', value: firstCss, unit: 'kB', note: `all assets: JS ${sum(files, '.js').toFixed(0)} kB, CSS ${sum(files, '.css').toFixed(0)} kB gzip in ${files.length} files` },
+    {
+      name: 'client: first page JS (index.html entry + modulepreloads), gzip',
+      value: firstJs,
+      unit: 'kB',
+      target: 300,
+      better: 'lower',
+      note: [...first].filter((f) => f.endsWith('.js')).join(', '),
+    },
+    {
+      name: 'client: first page CSS, gzip',
+      value: firstCss,
+      unit: 'kB',
+      note: `all assets: JS ${sum(files, '.js').toFixed(0)} kB, CSS ${sum(files, '.css').toFixed(0)} kB gzip in ${files.length} files`,
+    },
   ]
   const chunks = files.filter((f) => !first.has(f) && f.endsWith('.js')).sort((a, b) => size.get(b)! - size.get(a)!)
   for (const f of chunks) {
     const css = f.replace(/\.js$/, '.css')
-    rows.push({ name: `  chunk ${f.replace(/-[A-Za-z0-9_-]{8}\.js$/, '')}`, value: size.get(f)!, unit: 'kB', note: size.has(css) ? `+ ${size.get(css)!.toFixed(1)} kB CSS` : undefined })
+    rows.push({
+      name: `  chunk ${f.replace(/-[A-Za-z0-9_-]{8}\.js$/, '')}`,
+      value: size.get(f)!,
+      unit: 'kB',
+      note: size.has(css) ? `+ ${size.get(css)!.toFixed(1)} kB CSS` : undefined,
+    })
   }
   return rows
 }

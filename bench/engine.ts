@@ -17,22 +17,34 @@ export interface BenchRow {
 }
 
 const PUMPS = [
-  { type: 'circular', m: 1 }, { type: 'circular', m: -1 }, { type: 'linear', angle: 0 }, { type: 'linear', angle: 30 },
-  { type: 'radial' }, { type: 'vortex', spin: 1, charge: 2 }, { type: 'elliptical' },
+  { type: 'circular', m: 1 },
+  { type: 'circular', m: -1 },
+  { type: 'linear', angle: 0 },
+  { type: 'linear', angle: 30 },
+  { type: 'radial' },
+  { type: 'vortex', spin: 1, charge: 2 },
+  { type: 'elliptical' },
 ]
 const STRUCTURES = [
-  { rotationOrder: 0, mirrors: [0, 90] }, { rotationOrder: 4, mirrors: [0, 45, 90, 135] }, { rotationOrder: 3, mirrors: [30, 90, 150] },
-  { rotationOrder: 6, mirrors: [] }, { rotationOrder: 2, mirrors: [0, 90] },
+  { rotationOrder: 0, mirrors: [0, 90] },
+  { rotationOrder: 4, mirrors: [0, 45, 90, 135] },
+  { rotationOrder: 3, mirrors: [30, 90, 150] },
+  { rotationOrder: 6, mirrors: [] },
+  { rotationOrder: 2, mirrors: [0, 90] },
 ]
 const CUTS = [
-  { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0] }, { pointGroup: '-43m', normal: [1, 1, 1], reference: [1, -1, 0] },
-  { pointGroup: '3m', normal: [0, 0, 1], reference: [1, 0, 0] }, { pointGroup: '-6m2', normal: [0, 0, 1], reference: [0, 1, 0] },
+  { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0] },
+  { pointGroup: '-43m', normal: [1, 1, 1], reference: [1, -1, 0] },
+  { pointGroup: '3m', normal: [0, 0, 1], reference: [1, 0, 0] },
+  { pointGroup: '-6m2', normal: [0, 0, 1], reference: [0, 1, 0] },
 ]
 
 function requests(): unknown[] {
   const out: unknown[] = []
-  for (const crystal of CUTS) for (const pump of PUMPS) for (const structure of STRUCTURES) for (const order of [2, 3])
-    out.push({ crystal, structure, pump, order, lmax: 4, window: 8 })
+  for (const crystal of CUTS)
+    for (const pump of PUMPS)
+      for (const structure of STRUCTURES)
+        for (const order of [2, 3]) out.push({ crystal, structure, pump, order, lmax: 4, window: 8 })
   return out
 }
 
@@ -62,25 +74,72 @@ export function runEngineBench(iterations = 100_000): BenchRow[] {
       for (const group of ['-43m', '3m', '6mm', 'mm2', '1', '-42m', '32', '23']) {
         clearEngineCaches({ keepForms: !clearForms })
         k++
-        const req = { crystal: { pointGroup: group, normal: [1, 2 + k, 3 + round], reference: [1, 0, 0] }, structure: { rotationOrder: 0, mirrors: [0] }, pump: { type: 'linear', angle: 10 }, order }
+        const req = {
+          crystal: { pointGroup: group, normal: [1, 2 + k, 3 + round], reference: [1, 0, 0] },
+          structure: { rotationOrder: 0, mirrors: [0] },
+          pump: { type: 'linear', angle: 10 },
+          order,
+        }
         times.push(timeLoop(1, () => computeChannels(req)) * 1000)
       }
     }
     times.sort((a, b) => a - b)
-    return { median: times[Math.floor(times.length / 2)], p90: times[Math.floor(times.length * 0.9)], max: times[times.length - 1] }
+    return {
+      median: times[Math.floor(times.length / 2)],
+      p90: times[Math.floor(times.length * 0.9)],
+      max: times[times.length - 1],
+    }
   }
   const cold2 = coldCut(2, true)
   const cold3 = coldCut(3, true)
   const cold3cut = coldCut(3, false)
-  const spread = (c: { p90: number; max: number }) => `median of 40 (8 groups × 5 cuts); p90 ${c.p90.toFixed(2)} ms, max ${c.max.toFixed(2)} ms`
+  const spread = (c: { p90: number; max: number }) =>
+    `median of 40 (8 groups × 5 cuts); p90 ${c.p90.toFixed(2)} ms, max ${c.max.toFixed(2)} ms`
 
   return [
-    { name: 'channel evaluations, cached (group, cut), incl. validation', value: iterations / hot, unit: 'eval/s', target: 100_000, note: `${reqs.length} distinct requests, orders 2–3` },
-    { name: 'channel evaluations, cached, pre-validated', value: iterations / hotParsed, unit: 'eval/s', target: 100_000 },
-    { name: 'JSON.parse of the same requests (floor)', value: iterations / jsonOnly, unit: 'parse/s', note: 'bare parsing cost, for scale' },
+    {
+      name: 'channel evaluations, cached (group, cut), incl. validation',
+      value: iterations / hot,
+      unit: 'eval/s',
+      target: 100_000,
+      note: `${reqs.length} distinct requests, orders 2–3`,
+    },
+    {
+      name: 'channel evaluations, cached, pre-validated',
+      value: iterations / hotParsed,
+      unit: 'eval/s',
+      target: 100_000,
+    },
+    {
+      name: 'JSON.parse of the same requests (floor)',
+      value: iterations / jsonOnly,
+      unit: 'parse/s',
+      note: 'bare parsing cost, for scale',
+    },
     { name: 'JSON.parse + channel evaluation', value: iterations / withJson, unit: 'eval/s', target: 100_000 },
-    { name: 'cold new (group, cut), order 2, form solved too', value: cold2.median, unit: 'ms', target: 5, better: 'lower', note: spread(cold2) },
-    { name: 'cold new (group, cut), order 3, form solved too', value: cold3.median, unit: 'ms', target: 5, better: 'lower', note: spread(cold3) },
-    { name: 'new cut of an already solved group, order 3', value: cold3cut.median, unit: 'ms', target: 5, better: 'lower', note: spread(cold3cut) },
+    {
+      name: 'cold new (group, cut), order 2, form solved too',
+      value: cold2.median,
+      unit: 'ms',
+      target: 5,
+      better: 'lower',
+      note: spread(cold2),
+    },
+    {
+      name: 'cold new (group, cut), order 3, form solved too',
+      value: cold3.median,
+      unit: 'ms',
+      target: 5,
+      better: 'lower',
+      note: spread(cold3),
+    },
+    {
+      name: 'new cut of an already solved group, order 3',
+      value: cold3cut.median,
+      unit: 'ms',
+      target: 5,
+      better: 'lower',
+      note: spread(cold3cut),
+    },
   ]
 }

@@ -15,7 +15,15 @@ import { createFileStorage } from '../server/services/files/create-storage'
 import { loadFileStorageEnv } from '../server/env'
 import type { BenchRow } from './engine'
 
-export interface ExportFigures { seconds: number; peakRssMb: number; baselineRssMb: number; sizeMb: number; rows: number; phase: string; error: string | null }
+export interface ExportFigures {
+  seconds: number
+  peakRssMb: number
+  baselineRssMb: number
+  sizeMb: number
+  rows: number
+  phase: string
+  error: string | null
+}
 
 function vmHwmMb(): number {
   const m = /VmHWM:\s+(\d+) kB/.exec(fs.readFileSync('/proc/self/status', 'utf8'))
@@ -30,14 +38,24 @@ export async function measureExport(url: string, dataDir: string, email: string)
     global.gc?.()
     const baselineRssMb = process.memoryUsage().rss / 1048576
     let peak = 0
-    const timer = setInterval(() => { peak = Math.max(peak, process.memoryUsage().rss) }, 25)
+    const timer = setInterval(() => {
+      peak = Math.max(peak, process.memoryUsage().rss)
+    }, 25)
     const t0 = performance.now()
     const job = await startExport(db, createFileStorage(dataDir, loadFileStorageEnv()), dataDir, actor)
     const done = await waitForExport(db, job.id, 30 * 60_000)
     const seconds = (performance.now() - t0) / 1000
     clearInterval(timer)
     const peakRssMb = Math.max(peak / 1048576, vmHwmMb())
-    return { seconds, peakRssMb, baselineRssMb, sizeMb: (done.sizeBytes ?? 0) / 1048576, rows: done.total, phase: done.phase, error: done.error }
+    return {
+      seconds,
+      peakRssMb,
+      baselineRssMb,
+      sizeMb: (done.sizeBytes ?? 0) / 1048576,
+      rows: done.total,
+      phase: done.phase,
+      error: done.error,
+    }
   } finally {
     await pool.end()
   }
@@ -47,13 +65,31 @@ export function exportRows(f: ExportFigures, arrays: number): BenchRow[] {
   const note = `${f.rows.toLocaleString('en-US')} rows (${arrays.toLocaleString('en-US')} arrays), ${f.sizeMb.toFixed(1)} MB xlsx, phase ${f.phase}${f.error ? ` ${f.error}` : ''}`
   return [
     { name: 'Excel export of the inventory: time', value: f.seconds, unit: 's', target: 15, better: 'lower', note },
-    { name: 'Excel export: peak RSS of the exporting process', value: f.peakRssMb, unit: 'MB', target: 300, better: 'lower', note: `RSS before the export ${f.baselineRssMb.toFixed(0)} MB (streamed WorkbookWriter)` },
+    {
+      name: 'Excel export: peak RSS of the exporting process',
+      value: f.peakRssMb,
+      unit: 'MB',
+      target: 300,
+      better: 'lower',
+      note: `RSS before the export ${f.baselineRssMb.toFixed(0)} MB (streamed WorkbookWriter)`,
+    },
   ]
 }
 
 if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
   const url = process.env.DATABASE_URL
-  if (!url) { console.error('DATABASE_URL is not set'); process.exit(2) }
-  measureExport(url, process.env.DATA_DIR ?? '.data', process.env.BENCH_EMAIL ?? '')
-    .then((f) => { console.log(JSON.stringify(f)); process.exit(0) }, (e) => { console.error(e); process.exit(1) })
+  if (!url) {
+    console.error('DATABASE_URL is not set')
+    process.exit(2)
+  }
+  measureExport(url, process.env.DATA_DIR ?? '.data', process.env.BENCH_EMAIL ?? '').then(
+    (f) => {
+      console.log(JSON.stringify(f))
+      process.exit(0)
+    },
+    (e) => {
+      console.error(e)
+      process.exit(1)
+    },
+  )
 }

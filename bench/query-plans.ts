@@ -20,10 +20,20 @@ const pool = mysql.createPool({ uri: url, timezone: 'Z', connectionLimit: 2 })
 const caught: Captured = []
 const db = drizzle({ client: capturingPool(pool, caught), schema, mode: 'planetscale' }) as unknown as Db
 const q = (s: string) => Object.fromEntries(new URLSearchParams(s))
-const [[mid]] = (await pool.query('SELECT a.id, a.code, c.code AS chip FROM arrays a JOIN chips c ON c.id = a.chip_id ORDER BY a.id LIMIT 1 OFFSET 50000')) as unknown as [[{ id: number; code: string; chip: string }]]
+const [[mid]] = (await pool.query(
+  'SELECT a.id, a.code, c.code AS chip FROM arrays a JOIN chips c ON c.id = a.chip_id ORDER BY a.id LIMIT 1 OFFSET 50000',
+)) as unknown as [[{ id: number; code: string; chip: string }]]
 const cases: [string, () => Promise<unknown>][] = [
   ['arrays p1', () => listArrays(db, listQuerySchema.parse(q('page=1&pageSize=25')))],
-  ['arrays filter', () => listArrays(db, { ...listQuerySchema.parse(q('sort=periodXNm&dir=desc&page=3')), shape: 'ring', lattice: 'hexagonal' })],
+  [
+    'arrays filter',
+    () =>
+      listArrays(db, {
+        ...listQuerySchema.parse(q('sort=periodXNm&dir=desc&page=3')),
+        shape: 'ring',
+        lattice: 'hexagonal',
+      }),
+  ],
   ['arrays q', () => listArrays(db, listQuerySchema.parse(q(`q=${mid.code.slice(0, 9)}`)))],
   ['search', () => searchRecords(db, mid.chip.slice(0, 8))],
   ['chips status', () => listChips(db, listQuerySchema.parse(q('status=measured&page=2')))],
@@ -39,9 +49,14 @@ for (const [name, run] of cases) {
   console.log(`\n=== ${name}`)
   for (const [sent, params] of caught) {
     const text = sent.replace(/\bSQL_CACHE\b/g, 'SQL_NO_CACHE')
-    const t0 = performance.now(); for (let i = 0; i < 5; i++) await pool.query(text, params); const ms = (performance.now() - t0) / 5
+    const t0 = performance.now()
+    for (let i = 0; i < 5; i++) await pool.query(text, params)
+    const ms = (performance.now() - t0) / 5
     console.log(`${ms.toFixed(2)} ms  ${mysql.format(text, params as never).slice(0, 400)}`)
-    { const [rows] = (await pool.query('EXPLAIN ' + text, params)) as unknown as [Record<string, unknown>[]]; for (const r of rows) console.log('   ', r.table, r.type, r.key, r.rows, r.Extra) }
+    {
+      const [rows] = (await pool.query('EXPLAIN ' + text, params)) as unknown as [Record<string, unknown>[]]
+      for (const r of rows) console.log('   ', r.table, r.type, r.key, r.rows, r.Extra)
+    }
   }
 }
 await pool.end()

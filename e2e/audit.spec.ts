@@ -9,15 +9,27 @@ test('a group lead finds a wafer note change in the audit trail, with before and
   test.setTimeout(120_000)
   const tag = uid()
   await signIn(page, demo('fab').email)
-  const material = await page.request.post('/api/materials', { data: { name: `E2E audit GaAs ${tag}`, formula: 'GaAs', pointGroup: '-43m', coefficients: [] } })
+  const material = await page.request.post('/api/materials', {
+    data: { name: `E2E audit GaAs ${tag}`, formula: 'GaAs', pointGroup: '-43m', coefficients: [] },
+  })
   expect(material.status()).toBe(201)
   const materialId = (await material.json()).id
-  const waferBody = { materialId, cutNormal: [0, 0, 1], flatDirection: [1, -1, 0], diameterMm: 50.8, thicknessUm: 350, lot: `LOT-${tag}`, supplier: 'Kestrel test stock' }
+  const waferBody = {
+    materialId,
+    cutNormal: [0, 0, 1],
+    flatDirection: [1, -1, 0],
+    diameterMm: 50.8,
+    thicknessUm: 350,
+    lot: `LOT-${tag}`,
+    supplier: 'Kestrel test stock',
+  }
   const created = await page.request.post('/api/wafers', { data: waferBody })
   expect(created.status()).toBe(201)
   const wafer = await created.json()
   const notes = `Edge chip near the flat, seen at inspection ${tag}`
-  const updated = await page.request.patch(`/api/wafers/${wafer.id}`, { data: { ...waferBody, notes, reason: 'Inspection after cleaning' } })
+  const updated = await page.request.patch(`/api/wafers/${wafer.id}`, {
+    data: { ...waferBody, notes, reason: 'Inspection after cleaning' },
+  })
   expect(updated.status()).toBe(200)
   // The fab technician has no audit search in the menu.
   await expect(areaNav(page).getByText('Audit trail')).toHaveCount(0)

@@ -3,14 +3,21 @@ import { demo, screen, signIn } from './fixtures'
 
 const calc = (page: Page) => page.getByRole('form', { name: 'Channel request' })
 
-/** Harmonic-channel calculator: a cubic (001) disk forbids SHG along the normal; (111) + triangle allows it counter-rotating. */
+/**
+ * Harmonic-channel calculator: a cubic (001) disk forbids SHG along the normal; (111) + triangle allows it
+ * counter-rotating.
+ */
 async function resultShows(page: Page, allowedM: string[], normal: RegExp): Promise<void> {
   const result = page.getByTestId('channel-result')
   await expect(result.getByText(normal)).toBeVisible()
-  for (const m of allowedM) await expect(result.locator('.q-chip', { hasText: new RegExp(`^${m.replace('+', '\\+')}$`) })).toBeVisible()
+  for (const m of allowedM)
+    await expect(result.locator('.q-chip', { hasText: new RegExp(`^${m.replace('+', '\\+')}$`) })).toBeVisible()
 }
 
-for (const viewport of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800, height: 1280, tag: 'tablet' }]) {
+for (const viewport of [
+  { width: 1440, height: 900, tag: 'desk' },
+  { width: 800, height: 1280, tag: 'tablet' },
+]) {
   test(`channel calculator and planner (${viewport.tag})`, async ({ page }) => {
     test.setTimeout(90_000)
     await page.setViewportSize(viewport)

@@ -14,12 +14,21 @@ async function legacyWorkbook(material: string): Promise<Buffer> {
     ['W1', material, '0 0 1', '1 -1 0', 50.8, 350, lot],
     ['W2', material, '0 0 1', '1 -1 0', 'two inch', 350, lot],
   ])
-  book.addWorksheet('Chips').addRows([['Ref', 'Wafer', 'Width (mm)', 'Height (mm)'], ['W1-01', 'W1', 5, 5]])
-  book.addWorksheet('Arrays').addRows([['Chip', 'Position', 'Shape', 'Lattice', 'Dimensions (nm)', 'Period X (nm)'], ['W1-01', 'A1', 'disk', 'square', 'diameterNm=450', 900]])
+  book.addWorksheet('Chips').addRows([
+    ['Ref', 'Wafer', 'Width (mm)', 'Height (mm)'],
+    ['W1-01', 'W1', 5, 5],
+  ])
+  book.addWorksheet('Arrays').addRows([
+    ['Chip', 'Position', 'Shape', 'Lattice', 'Dimensions (nm)', 'Period X (nm)'],
+    ['W1-01', 'A1', 'disk', 'square', 'diameterNm=450', 900],
+  ])
   return Buffer.from(await book.xlsx.writeBuffer())
 }
 
-for (const size of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800, height: 1280, tag: 'tablet' }]) {
+for (const size of [
+  { width: 1440, height: 900, tag: 'desk' },
+  { width: 800, height: 1280, tag: 'tablet' },
+]) {
   test(`a group lead exports the inventory and dry-runs a sheet with one bad row (${size.tag})`, async ({ page }) => {
     test.setTimeout(180_000)
     await page.setViewportSize({ width: size.width, height: size.height })
@@ -39,7 +48,11 @@ for (const size of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800, hei
 
     const materials = await (await page.request.get('/api/materials?pageSize=5')).json()
     const bytes = await legacyWorkbook(materials.rows[0].name)
-    await page.getByLabel('Workbook (.xlsx, up to 20 MB)').setInputFiles({ name: 'legacy-lab-book.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: bytes })
+    await page.getByLabel('Workbook (.xlsx, up to 20 MB)').setInputFiles({
+      name: 'legacy-lab-book.xlsx',
+      mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+      buffer: bytes,
+    })
     const bad = page.locator('tr[data-status="error"]')
     await expect(bad).toHaveCount(1)
     await expect(bad).toContainText('Diameter (mm): expected a number in mm, found text "two inch"')

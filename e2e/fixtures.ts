@@ -15,11 +15,46 @@ export interface DemoPerson {
 export const DEMO_PASSWORD = 'overtone-demo'
 
 export const DEMO_PEOPLE: DemoPerson[] = [
-  { key: 'admin', email: 'admin@kestrel-lab.example', name: 'Ada Ferreira-Lund', roles: ['admin'], roleLabels: ['Administrator'], isAdminNavVisible: { people: true, mail: true } },
-  { key: 'lead', email: 'lead@kestrel-lab.example', name: 'Maren Okafor', roles: ['group_lead'], roleLabels: ['Group lead'], isAdminNavVisible: { people: true, mail: false } },
-  { key: 'fab', email: 'fab@kestrel-lab.example', name: 'Tomasz Lindqvist', roles: ['fab_technician'], roleLabels: ['Fab technician'], isAdminNavVisible: { people: false, mail: false } },
-  { key: 'optics', email: 'optics@kestrel-lab.example', name: 'Priya Halvorsen', roles: ['optics_staff'], roleLabels: ['Optics staff'], isAdminNavVisible: { people: false, mail: false } },
-  { key: 'safety', email: 'safety@kestrel-lab.example', name: 'Jonas Abara', roles: ['safety_officer'], roleLabels: ['Safety officer'], isAdminNavVisible: { people: false, mail: false } },
+  {
+    key: 'admin',
+    email: 'admin@kestrel-lab.example',
+    name: 'Ada Ferreira-Lund',
+    roles: ['admin'],
+    roleLabels: ['Administrator'],
+    isAdminNavVisible: { people: true, mail: true },
+  },
+  {
+    key: 'lead',
+    email: 'lead@kestrel-lab.example',
+    name: 'Maren Okafor',
+    roles: ['group_lead'],
+    roleLabels: ['Group lead'],
+    isAdminNavVisible: { people: true, mail: false },
+  },
+  {
+    key: 'fab',
+    email: 'fab@kestrel-lab.example',
+    name: 'Tomasz Lindqvist',
+    roles: ['fab_technician'],
+    roleLabels: ['Fab technician'],
+    isAdminNavVisible: { people: false, mail: false },
+  },
+  {
+    key: 'optics',
+    email: 'optics@kestrel-lab.example',
+    name: 'Priya Halvorsen',
+    roles: ['optics_staff'],
+    roleLabels: ['Optics staff'],
+    isAdminNavVisible: { people: false, mail: false },
+  },
+  {
+    key: 'safety',
+    email: 'safety@kestrel-lab.example',
+    name: 'Jonas Abara',
+    roles: ['safety_officer'],
+    roleLabels: ['Safety officer'],
+    isAdminNavVisible: { people: false, mail: false },
+  },
 ]
 
 export const demo = (key: string): DemoPerson => {
@@ -28,7 +63,8 @@ export const demo = (key: string): DemoPerson => {
   return person
 }
 
-export const screen = (page: Page, name: string) => page.screenshot({ path: `e2e/output/screens/${name}.png`, fullPage: true })
+export const screen = (page: Page, name: string) =>
+  page.screenshot({ path: `e2e/output/screens/${name}.png`, fullPage: true })
 
 /** The area navigation in the left drawer. */
 export const areaNav = (page: Page) => page.getByRole('navigation', { name: 'Areas' })
@@ -57,7 +93,10 @@ export async function mailboxLink(to: string): Promise<string> {
   if (!url) throw new Error('DATABASE_URL is not set: run the browser tests through npm test')
   const conn = await createConnection(url)
   try {
-    const [rows] = await conn.query('SELECT text_body FROM mail_received WHERE to_address LIKE ? ORDER BY id DESC LIMIT 1', [`%${to}%`])
+    const [rows] = await conn.query(
+      'SELECT text_body FROM mail_received WHERE to_address LIKE ? ORDER BY id DESC LIMIT 1',
+      [`%${to}%`],
+    )
     const text = (rows as { text_body: string }[])[0]?.text_body ?? ''
     const link = /https?:\/\/\S+\/invite\/[A-Za-z0-9_-]{20,}/.exec(text)?.[0]
     if (!link) throw new Error(`no one-time link in the mailbox of ${to}`)

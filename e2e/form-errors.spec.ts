@@ -6,9 +6,15 @@ import { demo, screen, signIn } from './fixtures'
 const uid = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}`.toUpperCase()
 
 /** The Quasar field (input, picker or fieldset) labelled `label` inside the open dialog. */
-const field = (page: Page, label: string) => page.getByRole('dialog').locator('.q-field, fieldset', { has: page.getByLabel(label, { exact: true }) }).first()
+const field = (page: Page, label: string) =>
+  page
+    .getByRole('dialog')
+    .locator('.q-field, fieldset', { has: page.getByLabel(label, { exact: true }) })
+    .first()
 
-test('register a wafer carelessly: all mistakes are flagged together, then the server flags the flat', async ({ page }) => {
+test('register a wafer carelessly: all mistakes are flagged together, then the server flags the flat', async ({
+  page,
+}) => {
   const name = `E2E GaAs ${uid()}`
   await signIn(page, demo('fab').email)
   const res = await page.request.post('/api/materials', { data: { name, formula: 'GaAs', pointGroup: '-43m' } })
@@ -32,12 +38,20 @@ test('register a wafer carelessly: all mistakes are flagged together, then the s
 
   // Fixed, but with the flat along the cut normal: only the server judges that, and says so on the flat.
   await dialog.getByLabel('Material', { exact: true }).fill(name)
-  await page.getByRole('option', { name: new RegExp(name) }).first().click()
+  await page
+    .getByRole('option', { name: new RegExp(name) })
+    .first()
+    .click()
   await dialog.getByLabel('Diameter', { exact: true }).fill('50.8')
   await dialog.getByLabel('Thickness', { exact: true }).fill('350')
   await dialog.getByLabel('Lot', { exact: true }).fill(`LOT-${uid()}`)
   await dialog.getByRole('button', { name: 'Cut normal (h k l): (001)' }).click()
-  for (const [k, v] of [['h', '0'], ['k', '0'], ['l', '1']]) await dialog.getByLabel(`Primary flat direction ${k}`).fill(v)
+  for (const [k, v] of [
+    ['h', '0'],
+    ['k', '0'],
+    ['l', '1'],
+  ])
+    await dialog.getByLabel(`Primary flat direction ${k}`).fill(v)
   await expect(dialog.locator('.q-field--error')).toHaveCount(0)
   await dialog.getByRole('button', { name: 'Register wafer' }).click()
   const flat = dialog.locator('fieldset', { hasText: 'Primary flat direction' })
@@ -53,7 +67,12 @@ test('a coefficient over the limit reads "At most 1 000 000 pm/V", on its row', 
   const { id } = await res.json()
   // The server words it the same way.
   const over = await page.request.patch(`/api/materials/${id}`, {
-    data: { name, formula: 'GaAs', pointGroup: '-43m', coefficients: [{ component: 'd14', order: 2, valuePmV: 2e6, wavelengthNm: 1064, source: 'x' }] },
+    data: {
+      name,
+      formula: 'GaAs',
+      pointGroup: '-43m',
+      coefficients: [{ component: 'd14', order: 2, valuePmV: 2e6, wavelengthNm: 1064, source: 'x' }],
+    },
   })
   expect(over.status()).toBe(400)
   expect((await over.json()).fields['coefficients.0.valuePmV']).toEqual(['At most 1\u00a0000\u00a0000 pm/V'])
@@ -64,7 +83,11 @@ test('a coefficient over the limit reads "At most 1 000 000 pm/V", on its row', 
   const row = page.getByTestId('coef-row-0')
   await row.getByLabel('Value').fill('2000000')
   await page.getByRole('button', { name: 'Save material' }).click()
-  await expect(row.locator('.q-field--error', { has: page.getByLabel('Value') })).toContainText('At most 1 000 000 pm/V')
-  await expect(row.locator('.q-field--error', { has: page.getByLabel('Source') })).toContainText('Say where the value comes from')
+  await expect(row.locator('.q-field--error', { has: page.getByLabel('Value') })).toContainText(
+    'At most 1 000 000 pm/V',
+  )
+  await expect(row.locator('.q-field--error', { has: page.getByLabel('Source') })).toContainText(
+    'Say where the value comes from',
+  )
   await screen(page, 'form-errors-material-coefficient')
 })

@@ -7,8 +7,23 @@ const uid = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(
 
 async function createGaAs(page: Page, name: string): Promise<number> {
   const res = await page.request.post('/api/materials', {
-    data: { name, formula: 'GaAs', pointGroup: '-43m', bandGapEv: 1.42, transparencyNote: '0.9–17 µm',
-      coefficients: [{ component: 'd14', order: 2, valuePmV: 170, wavelengthNm: 1064, source: 'lab handbook value', isTypical: true }] },
+    data: {
+      name,
+      formula: 'GaAs',
+      pointGroup: '-43m',
+      bandGapEv: 1.42,
+      transparencyNote: '0.9–17 µm',
+      coefficients: [
+        {
+          component: 'd14',
+          order: 2,
+          valuePmV: 170,
+          wavelengthNm: 1064,
+          source: 'lab handbook value',
+          isTypical: true,
+        },
+      ],
+    },
   })
   expect(res.status()).toBe(201)
   return (await res.json()).id
@@ -16,7 +31,10 @@ async function createGaAs(page: Page, name: string): Promise<number> {
 
 async function pickOption(page: Page, label: string, text: string): Promise<void> {
   await page.getByRole('dialog').getByLabel(label, { exact: true }).fill(text)
-  await page.getByRole('option', { name: new RegExp(text) }).first().click()
+  await page
+    .getByRole('option', { name: new RegExp(text) })
+    .first()
+    .click()
 }
 
 test('a fab technician registers a wafer, dices it, adds an array and reads its channels', async ({ page }) => {
@@ -45,7 +63,10 @@ test('a fab technician registers a wafer, dices it, adds an array and reads its 
   // dice 4 chips
   await page.getByRole('button', { name: 'Dice chips' }).click()
   await page.getByRole('dialog').getByLabel('How many').fill('4')
-  await page.getByRole('dialog').getByRole('button', { name: /Dice 4 chips/ }).click()
+  await page
+    .getByRole('dialog')
+    .getByRole('button', { name: /Dice 4 chips/ })
+    .click()
   await expect(page.getByText(/4 chips diced/)).toBeVisible()
   await expect(page.getByRole('heading', { name: 'Chips (4)' })).toBeVisible()
   await expect(page.locator('tbody tr')).toHaveCount(4)
@@ -102,8 +123,21 @@ test('optics staff see the sample store but no write buttons', async ({ page, ba
   test.setTimeout(120_000)
   const fab = await request.newContext({ baseURL })
   await fab.post('/api/auth/login', { data: { email: demo('fab').email, password: DEMO_PASSWORD } })
-  const m = await (await fab.post('/api/materials', { data: { name: `E2E GaAs ${uid()}`, formula: 'GaAs', pointGroup: '-43m' } })).json()
-  const w = await (await fab.post('/api/wafers', { data: { materialId: m.id, cutNormal: [0, 0, 1], flatDirection: [1, 1, 0], diameterMm: 50.8, thicknessUm: 350, lot: `L-${uid()}` } })).json()
+  const m = await (
+    await fab.post('/api/materials', { data: { name: `E2E GaAs ${uid()}`, formula: 'GaAs', pointGroup: '-43m' } })
+  ).json()
+  const w = await (
+    await fab.post('/api/wafers', {
+      data: {
+        materialId: m.id,
+        cutNormal: [0, 0, 1],
+        flatDirection: [1, 1, 0],
+        diameterMm: 50.8,
+        thicknessUm: 350,
+        lot: `L-${uid()}`,
+      },
+    })
+  ).json()
   await fab.dispose()
 
   await signIn(page, demo('optics').email)
@@ -124,17 +158,29 @@ test('optics staff see the sample store but no write buttons', async ({ page, ba
   await page.getByLabel('Open a record by its code').press('Enter')
   await expect(page).toHaveURL(new RegExp(`/wafers/${w.id}$`))
   await expect(page.getByRole('heading', { level: 1 })).toContainText(w.code)
-  for (const label of ['Dice chips', 'Status', 'Retire']) await expect(page.getByRole('button', { name: label, exact: true })).toHaveCount(0)
+  for (const label of ['Dice chips', 'Status', 'Retire'])
+    await expect(page.getByRole('button', { name: label, exact: true })).toHaveCount(0)
   await screen(page, 'inventory-optics-wafer')
 })
 
 test('a fab technician moves a chip into a box by its code and records a process step', async ({ page }) => {
   test.setTimeout(240_000)
   await signIn(page, demo('fab').email)
-  const post = async (path: string, data: object) => { const r = await page.request.post(path, { data }); expect(r.ok(), await r.text()).toBeTruthy(); return r.json() }
+  const post = async (path: string, data: object) => {
+    const r = await page.request.post(path, { data })
+    expect(r.ok(), await r.text()).toBeTruthy()
+    return r.json()
+  }
   const tag = uid()
   const m = await post('/api/materials', { name: `E2E LN ${tag}`, formula: 'LiNbO3', pointGroup: '3m' })
-  const w = await post('/api/wafers', { materialId: m.id, cutNormal: [0, 0, 1], flatDirection: [1, 0, 0], diameterMm: 76.2, thicknessUm: 500, lot: `L-${tag}` })
+  const w = await post('/api/wafers', {
+    materialId: m.id,
+    cutNormal: [0, 0, 1],
+    flatDirection: [1, 0, 0],
+    diameterMm: 76.2,
+    thicknessUm: 500,
+    lot: `L-${tag}`,
+  })
   const { chips } = await post(`/api/wafers/${w.id}/dice`, { count: 2, widthMm: 10, heightMm: 10, rotationDeg: 30 })
   const room = await post('/api/locations', { kind: 'room', name: `Room ${tag}` })
   const cabinet = await post('/api/locations', { kind: 'cabinet', name: 'Cabinet A', parentId: room.id })
@@ -176,10 +222,21 @@ test('a fab technician moves a chip into a box by its code and records a process
 test('a fab technician edits a wafer and the history shows the change', async ({ page }) => {
   test.setTimeout(120_000)
   await signIn(page, demo('fab').email)
-  const post = async (path: string, data: object) => { const r = await page.request.post(path, { data }); expect(r.ok(), await r.text()).toBeTruthy(); return r.json() }
+  const post = async (path: string, data: object) => {
+    const r = await page.request.post(path, { data })
+    expect(r.ok(), await r.text()).toBeTruthy()
+    return r.json()
+  }
   const tag = uid()
   const m = await post('/api/materials', { name: `E2E GaAs ${tag}`, formula: 'GaAs', pointGroup: '-43m' })
-  const w = await post('/api/wafers', { materialId: m.id, cutNormal: [0, 0, 1], flatDirection: [1, 1, 0], diameterMm: 50.8, thicknessUm: 350, lot: `OLD-${tag}` })
+  const w = await post('/api/wafers', {
+    materialId: m.id,
+    cutNormal: [0, 0, 1],
+    flatDirection: [1, 1, 0],
+    diameterMm: 50.8,
+    thicknessUm: 350,
+    lot: `OLD-${tag}`,
+  })
 
   await page.goto(`/wafers/${w.id}`)
   await expect(page.getByRole('heading', { level: 1 })).toContainText(w.code)

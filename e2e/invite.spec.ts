@@ -3,10 +3,16 @@ import { areaNav, demo, mailboxLink, screen, signIn } from './fixtures'
 
 test('admin invites a person, who accepts from the mailed one-time link', async ({ page }) => {
   const stamp = Date.now()
-  const invitee = { name: `Ines Varga ${stamp}`, email: `ines.varga+${stamp}@kestrel-lab.example`, password: 'a quiet beam splitter' }
+  const invitee = {
+    name: `Ines Varga ${stamp}`,
+    email: `ines.varga+${stamp}@kestrel-lab.example`,
+    password: 'a quiet beam splitter',
+  }
 
   await signIn(page, demo('admin').email)
-  await areaNav(page).getByRole('link', { name: /People/ }).click()
+  await areaNav(page)
+    .getByRole('link', { name: /People/ })
+    .click()
   await page.getByRole('button', { name: 'Invite a person' }).click()
   const dialog = page.getByRole('dialog')
   await dialog.getByLabel('Full name').fill(invitee.name)
@@ -21,7 +27,9 @@ test('admin invites a person, who accepts from the mailed one-time link', async 
   await screen(page, 'people-after-invite')
 
   // The mail goes through the queue to the local sink; poll the outbox until it has arrived.
-  await areaNav(page).getByRole('link', { name: /Mail outbox/ }).click()
+  await areaNav(page)
+    .getByRole('link', { name: /Mail outbox/ })
+    .click()
   const message = page.getByRole('link', { name: new RegExp(`To ${invitee.email.replace(/[+.]/g, '\\$&')}`) })
   await expect(async () => {
     await page.getByRole('button', { name: 'Refresh' }).click()
@@ -60,7 +68,9 @@ test('admin invites a person, who accepts from the mailed one-time link', async 
 
 test('a group lead is offered only the roles they may grant, and cannot change their own', async ({ page }) => {
   await signIn(page, demo('lead').email)
-  await areaNav(page).getByRole('link', { name: /People/ }).click()
+  await areaNav(page)
+    .getByRole('link', { name: /People/ })
+    .click()
   await page.getByRole('button', { name: 'Invite a person' }).click()
   const dialog = page.getByRole('dialog')
   await expect(dialog.getByRole('checkbox', { name: 'Optics staff' })).toBeVisible()

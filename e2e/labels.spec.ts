@@ -8,10 +8,19 @@ import { demo, screen, signIn } from './fixtures'
 /** Make a material and a wafer through the API (unique names); returns the wafer's code and id. */
 async function makeWafer(page: Page): Promise<{ code: string; id: number }> {
   const tag = `${Date.now().toString(36)}${Math.floor(Math.random() * 1e4)}`
-  const m = await page.request.post('/api/materials', { data: { name: `E2E label LN ${tag}`, formula: 'LiNbO3', pointGroup: '3m' } })
+  const m = await page.request.post('/api/materials', {
+    data: { name: `E2E label LN ${tag}`, formula: 'LiNbO3', pointGroup: '3m' },
+  })
   expect(m.status(), await m.text()).toBe(201)
   const w = await page.request.post('/api/wafers', {
-    data: { materialId: (await m.json()).id, cutNormal: [0, 0, 1], flatDirection: [1, 0, 0], diameterMm: 76.2, thicknessUm: 500, lot: `E2E-${tag}` },
+    data: {
+      materialId: (await m.json()).id,
+      cutNormal: [0, 0, 1],
+      flatDirection: [1, 0, 0],
+      diameterMm: 76.2,
+      thicknessUm: 500,
+      lot: `E2E-${tag}`,
+    },
   })
   expect(w.status(), await w.text()).toBe(201)
   const wafer = await w.json()
@@ -29,7 +38,10 @@ test('fab technician previews, downloads and prints a label, then scans it back'
   await expect(preview.locator('text', { hasText: wafer.code })).toBeVisible()
   await screen(page, 'labels-preview')
 
-  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Download SVG' }).click()])
+  const [download] = await Promise.all([
+    page.waitForEvent('download'),
+    page.getByRole('link', { name: 'Download SVG' }).click(),
+  ])
   expect(download.suggestedFilename()).toBe(`${wafer.code}-wafer-carrier.svg`)
   const svg = fs.readFileSync(await download.path(), 'utf8')
   expect(svg).toContain('width="40mm" height="20mm"')
@@ -44,7 +56,9 @@ test('fab technician previews, downloads and prints a label, then scans it back'
   await screen(page, 'labels-print-media')
   await page.emulateMedia({ media: 'screen' })
   const job = page.waitForResponse((r) => r.url().endsWith('/api/labels/jobs') && r.request().method() === 'POST')
-  await page.evaluate(() => { window.print = () => {} })
+  await page.evaluate(() => {
+    window.print = () => {}
+  })
   await page.getByTestId('print-now').click()
   expect((await job).status()).toBe(201)
 
@@ -67,7 +81,13 @@ test('scan page explains a missing camera and a photo without a code', async ({ 
   await page.getByTestId('camera-toggle').click()
   await expect(page.getByTestId('camera-message')).toBeVisible()
   const blank = path.join(os.tmpdir(), 'no-code.png')
-  fs.writeFileSync(blank, Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8/5+hHgAHggJ/PchI7wAAAABJRU5ErkJggg==', 'base64'))
+  fs.writeFileSync(
+    blank,
+    Buffer.from(
+      'iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAYAAAAfFcSJAAAADUlEQVR42mP8/5+hHgAHggJ/PchI7wAAAABJRU5ErkJggg==',
+      'base64',
+    ),
+  )
   await page.locator('input[type=file]').setInputFiles(blank)
   await expect(page.getByTestId('scan-problem')).toContainText('No QR code was found')
   await page.setViewportSize({ width: 800, height: 1280 })
@@ -85,7 +105,8 @@ test('a keyboard-wedge burst anywhere opens the record; /S/<code> and /s/<code> 
   // (each key is a CDP round trip), slower than any scanner and than the 40 ms burst limit.
   // Even setTimeout(5) stretched to ~40 ms there, so the keys go out back to back (a fast scanner).
   await page.evaluate((code) => {
-    for (const key of [...code, 'Enter']) document.body.dispatchEvent(new KeyboardEvent('keydown', { key, bubbles: true, cancelable: true }))
+    for (const key of [...code, 'Enter'])
+      document.body.dispatchEvent(new KeyboardEvent('keydown', { key, bubbles: true, cancelable: true }))
   }, wafer.code)
   await expect(page).toHaveURL(new RegExp(`/wafers/${wafer.id}$`))
 
@@ -110,7 +131,9 @@ test('scanning a location then a wafer offers "Move here"; an A4 sheet previews 
   let parentId: number | null = null
   let boxCode = ''
   for (const kind of ['room', 'cabinet', 'box']) {
-    const res: APIResponse = await page.request.post('/api/locations', { data: { kind, name: `E2E scan ${kind} ${Date.now().toString(36)}`, parentId } })
+    const res: APIResponse = await page.request.post('/api/locations', {
+      data: { kind, name: `E2E scan ${kind} ${Date.now().toString(36)}`, parentId },
+    })
     expect(res.status(), await res.text()).toBe(201)
     ;({ id: parentId, code: boxCode } = await res.json())
   }

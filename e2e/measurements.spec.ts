@@ -20,24 +20,53 @@ async function post<T>(api: APIRequestContext, path: string, data: unknown): Pro
 /** A (001) GaAs wafer → one chip → a disk array (fab technician), and a laser setup (safety officer). */
 async function makeSample(stamp: string) {
   const fab = await apiAs('fab')
-  const material = await post<{ id: number }>(fab, '/api/materials', { name: `E2E GaAs ${stamp}`, formula: 'GaAs', pointGroup: '-43m' })
+  const material = await post<{ id: number }>(fab, '/api/materials', {
+    name: `E2E GaAs ${stamp}`,
+    formula: 'GaAs',
+    pointGroup: '-43m',
+  })
   const wafer = await post<{ id: number }>(fab, '/api/wafers', {
-    materialId: material.id, cutNormal: [0, 0, 1], flatDirection: [1, 1, 0], diameterMm: 50.8, thicknessUm: 350, lot: `E2E-${stamp}`,
+    materialId: material.id,
+    cutNormal: [0, 0, 1],
+    flatDirection: [1, 1, 0],
+    diameterMm: 50.8,
+    thicknessUm: 350,
+    lot: `E2E-${stamp}`,
   })
-  const { chips } = await post<{ chips: { id: number; code: string }[] }>(fab, `/api/wafers/${wafer.id}/dice`, { count: 1, widthMm: 5, heightMm: 5 })
+  const { chips } = await post<{ chips: { id: number; code: string }[] }>(fab, `/api/wafers/${wafer.id}/dice`, {
+    count: 1,
+    widthMm: 5,
+    heightMm: 5,
+  })
   const array = await post<{ id: number; code: string }>(fab, `/api/chips/${chips[0].id}/arrays`, {
-    position: 'B1', shape: 'disk', dimensionsNm: { diameterNm: 450 }, lattice: 'single', count: 400,
+    position: 'B1',
+    shape: 'disk',
+    dimensionsNm: { diameterNm: 450 },
+    lattice: 'single',
+    count: 400,
   })
-  // Described and submitted by the optics person, signed off by the safety officer (sessions need a signed-off setup; describer ≠ checker).
+  // Described and submitted by the optics person, signed off by the safety officer (sessions need a signed-off setup;
+  // describer ≠ checker).
   const describer = await apiAs('optics')
   const setup = await post<{ id: number; code: string; name: string }>(describer, '/api/laser-setups', {
-    name: `E2E OPO ${stamp}`, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 800], pulseDurationFs: 150, repRateHz: 80e6, maxAvgPowerMw: 500, beamDiameterMm: 2, eyewear: [{ description: 'E2E goggle', bandsNm: '750–1600', od: 6 }], interlocks: 'Door interlock',
+    name: `E2E OPO ${stamp}`,
+    room: 'B2.14',
+    sourceType: 'mode_locked',
+    wavelengthsNm: [1550, 800],
+    pulseDurationFs: 150,
+    repRateHz: 80e6,
+    maxAvgPowerMw: 500,
+    beamDiameterMm: 2,
+    eyewear: [{ description: 'E2E goggle', bandsNm: '750–1600', od: 6 }],
+    interlocks: 'Door interlock',
   })
   expect((await describer.post(`/api/laser-setups/${setup.id}/submit`, { data: {} })).status()).toBe(200)
   await describer.dispose()
   const safety = await apiAs('safety')
   const expiresOn = new Date(Date.now() + 90 * 86400_000).toISOString().slice(0, 10)
-  const approved = await safety.post(`/api/laser-setups/${setup.id}/approve`, { data: { expiresOn, note: 'E2E sign-off' } })
+  const approved = await safety.post(`/api/laser-setups/${setup.id}/approve`, {
+    data: { expiresOn, note: 'E2E sign-off' },
+  })
   expect(approved.status(), await approved.text()).toBe(200)
   await fab.dispose()
   await safety.dispose()
@@ -45,11 +74,15 @@ async function makeSample(stamp: string) {
 }
 
 /** A PNG of 2×2 pixels. */
-const PNG = Buffer.from('iVBORw0KGgoAAAANSUhEUgAAAAIAAAACCAIAAAD91JpzAAAAFklEQVR4nGP8z8DAwMDAxMDAwMDAAAANHQEDasKb6QAAAABJRU5ErkJggg==', 'base64')
+const PNG = Buffer.from(
+  'iVBORw0KGgoAAAANSUhEUgAAAAIAAAACCAIAAAD91JpzAAAAFklEQVR4nGP8z8DAwMDAxMDAwMDAAAANHQEDasKb6QAAAABJRU5ErkJggg==',
+  'base64',
+)
 
 function spectrumCsv(): string {
   const lines = ['wavelength_nm,counts']
-  for (let nm = 500; nm <= 900; nm += 2) lines.push(`${nm},${Math.round(50 + 4000 * Math.exp(-(((nm - 775) / 6) ** 2)))}`)
+  for (let nm = 500; nm <= 900; nm += 2)
+    lines.push(`${nm},${Math.round(50 + 4000 * Math.exp(-(((nm - 775) / 6) ** 2)))}`)
   return lines.join('\n')
 }
 
@@ -109,7 +142,9 @@ test('optics staff log a session, see the contradiction flag, and attach a spect
   // Upload a CSV spectrum → plot with the λ/2 marker.
   await page.getByLabel('Kind of file').click()
   await page.getByRole('option', { name: 'Spectrum CSV' }).click()
-  await page.locator('input[type=file]').setInputFiles({ name: `shg-${stamp}.csv`, mimeType: 'text/csv', buffer: Buffer.from(spectrumCsv()) })
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: `shg-${stamp}.csv`, mimeType: 'text/csv', buffer: Buffer.from(spectrumCsv()) })
   await page.getByRole('button', { name: 'Upload' }).click()
   const plotted = page.getByTestId(`file-shg-${stamp}.csv`)
   await expect(plotted.getByTestId('spectrum-plot')).toBeVisible()
@@ -120,7 +155,9 @@ test('optics staff log a session, see the contradiction flag, and attach a spect
   // Upload a PNG as a camera image → thumbnail, then enlarge it.
   await page.getByLabel('Kind of file').click()
   await page.getByRole('option', { name: 'Camera image' }).click()
-  await page.locator('input[type=file]').setInputFiles({ name: `spot-${stamp}.png`, mimeType: 'image/png', buffer: PNG })
+  await page
+    .locator('input[type=file]')
+    .setInputFiles({ name: `spot-${stamp}.png`, mimeType: 'image/png', buffer: PNG })
   await page.getByRole('button', { name: 'Upload' }).click()
   const thumb = page.getByRole('button', { name: `Enlarge spot-${stamp}.png` })
   await expect(thumb.locator('img')).toBeVisible()

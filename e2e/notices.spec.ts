@@ -16,9 +16,20 @@ async function setNotices(email: string, notifyByMail: boolean): Promise<void> {
 }
 
 async function makeChipAndBox(page: Page, tag: string) {
-  const post = async (path: string, data: object) => { const r = await page.request.post(path, { data }); expect(r.ok(), await r.text()).toBeTruthy(); return r.json() }
+  const post = async (path: string, data: object) => {
+    const r = await page.request.post(path, { data })
+    expect(r.ok(), await r.text()).toBeTruthy()
+    return r.json()
+  }
   const m = await post('/api/materials', { name: `E2E LN ${tag}`, formula: 'LiNbO3', pointGroup: '3m' })
-  const w = await post('/api/wafers', { materialId: m.id, cutNormal: [0, 0, 1], flatDirection: [1, 0, 0], diameterMm: 76.2, thicknessUm: 500, lot: `N-${tag}` })
+  const w = await post('/api/wafers', {
+    materialId: m.id,
+    cutNormal: [0, 0, 1],
+    flatDirection: [1, 0, 0],
+    diameterMm: 76.2,
+    thicknessUm: 500,
+    lot: `N-${tag}`,
+  })
   const { chips } = await post(`/api/wafers/${w.id}/dice`, { count: 1, widthMm: 10, heightMm: 10, rotationDeg: 0 })
   const room = await post('/api/locations', { kind: 'room', name: `Optics lab ${tag}` })
   const cabinet = await post('/api/locations', { kind: 'cabinet', name: 'Dry cabinet', parentId: room.id })
@@ -50,7 +61,9 @@ test('a chip handed to the optics person is mailed; she turns notices off in My 
 
     // 2. The admin sees the hand-off mail in the outbox (it goes through the queue to the local sink).
     await signIn(page, demo('admin').email)
-    await areaNav(page).getByRole('link', { name: /Mail outbox/ }).click()
+    await areaNav(page)
+      .getByRole('link', { name: /Mail outbox/ })
+      .click()
     const message = page.getByRole('link', { name: new RegExp(`${chip.code} was handed to you`) })
     await expect(async () => {
       await page.getByRole('button', { name: 'Refresh' }).click()

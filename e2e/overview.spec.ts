@@ -14,22 +14,33 @@ async function apiAs(key: string): Promise<APIRequestContext> {
 
 /** Screenshots of the whole page at a desk and a tablet size; nothing may stick out sideways. */
 async function atBothSizes(page: Page, name: string): Promise<void> {
-  for (const [size, viewport] of [['desk', DESK], ['tablet', TABLET]] as const) {
+  for (const [size, viewport] of [
+    ['desk', DESK],
+    ['tablet', TABLET],
+  ] as const) {
     await page.setViewportSize(viewport)
     await expect(page.getByTestId('panel-' + name.split('-')[0])).toBeVisible()
-    const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth)
+    const overflow = await page.evaluate(
+      () => document.documentElement.scrollWidth - document.documentElement.clientWidth,
+    )
     expect(overflow, `${size}: the page scrolls sideways`).toBeLessThanOrEqual(0)
     await screen(page, `overview-${name}-${size}`)
   }
 }
 
-test('the fab technician and the optics person each see their own worklists, with counts and links', async ({ page }) => {
+test('the fab technician and the optics person each see their own worklists, with counts and links', async ({
+  page,
+}) => {
   test.setTimeout(120_000)
   // A chip put in process by the fab technician (restored afterwards).
   const fab = await apiAs('fab')
-  const list = await (await fab.get('/api/chips?pageSize=1&sort=code&dir=desc')).json() as { rows: { id: number; code: string; status: string }[] }
+  const list = (await (await fab.get('/api/chips?pageSize=1&sort=code&dir=desc')).json()) as {
+    rows: { id: number; code: string; status: string }[]
+  }
   const chip = list.rows[0]
-  expect((await fab.patch(`/api/chips/${chip.id}`, { data: { status: 'in_process', reason: 'e2e: overview' } })).status()).toBe(200)
+  expect(
+    (await fab.patch(`/api/chips/${chip.id}`, { data: { status: 'in_process', reason: 'e2e: overview' } })).status(),
+  ).toBe(200)
   try {
     await page.setViewportSize(DESK)
     await signIn(page, demo('fab').email)
@@ -41,7 +52,9 @@ test('the fab technician and the optics person each see their own worklists, wit
     await expect(inProcess.getByRole('link', { name: new RegExp(chip.code) })).toBeVisible()
     expect(Number(await inProcess.getByTestId('count').textContent())).toBeGreaterThanOrEqual(1)
     await expect(page.getByTestId('fab-recent-steps')).toBeVisible()
-    await expect(page.getByTestId('fab-unlabelled').getByText('Wafers and chips whose code was never on a printed label')).toBeVisible()
+    await expect(
+      page.getByTestId('fab-unlabelled').getByText('Wafers and chips whose code was never on a printed label'),
+    ).toBeVisible()
     await atBothSizes(page, 'fab')
 
     // The chip's row opens the chip.

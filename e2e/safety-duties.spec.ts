@@ -3,7 +3,9 @@ import { DEMO_PASSWORD, demo, screen, signIn } from './fixtures'
 
 const BASE = process.env.E2E_BASE_URL ?? 'http://127.0.0.1:3000'
 
-test('the optics person saves a draft (Enter adds a wavelength, never submits), completes it and submits it', async ({ page }) => {
+test('the optics person saves a draft (Enter adds a wavelength, never submits), completes it and submits it', async ({
+  page,
+}) => {
   test.setTimeout(120_000)
   const name = `Draft green bench ${Date.now()}`
   await signIn(page, demo('optics').email)
@@ -54,11 +56,21 @@ test('the optics person saves a draft (Enter adds a wavelength, never submits), 
 test('a safety officer does not see Approve on their own setup, and is told why', async ({ page }) => {
   test.setTimeout(120_000)
   const api = await playwrightRequest.newContext({ baseURL: BASE, extraHTTPHeaders: { Origin: BASE } })
-  expect((await api.post('/api/auth/login', { data: { email: demo('safety').email, password: DEMO_PASSWORD } })).ok()).toBeTruthy()
-  const res = await api.post('/api/laser-setups', { data: {
-    name: `Own bench ${Date.now()}`, room: 'B2.14', sourceType: 'cw', wavelengthsNm: [633], maxAvgPowerMw: 5, beamDiameterMm: 1,
-    eyewear: [{ description: 'Red goggle RG-1', bandsNm: '620–650', od: 3 }], interlocks: 'Key switch',
-  } })
+  expect(
+    (await api.post('/api/auth/login', { data: { email: demo('safety').email, password: DEMO_PASSWORD } })).ok(),
+  ).toBeTruthy()
+  const res = await api.post('/api/laser-setups', {
+    data: {
+      name: `Own bench ${Date.now()}`,
+      room: 'B2.14',
+      sourceType: 'cw',
+      wavelengthsNm: [633],
+      maxAvgPowerMw: 5,
+      beamDiameterMm: 1,
+      eyewear: [{ description: 'Red goggle RG-1', bandsNm: '620–650', od: 3 }],
+      interlocks: 'Key switch',
+    },
+  })
   expect(res.status()).toBe(201)
   const own = (await res.json()) as { id: number; code: string }
   expect((await api.post(`/api/laser-setups/${own.id}/submit`, { data: {} })).status()).toBe(200)
@@ -66,7 +78,9 @@ test('a safety officer does not see Approve on their own setup, and is told why'
 
   await signIn(page, demo('safety').email)
   await page.goto(`/laser-setups/${own.id}`)
-  await expect(page.getByTestId('approval-reason')).toContainText('You described this setup, so another safety officer must approve it')
+  await expect(page.getByTestId('approval-reason')).toContainText(
+    'You described this setup, so another safety officer must approve it',
+  )
   await expect(page.getByRole('button', { name: 'Reject' })).toBeVisible()
   await expect(page.getByRole('button', { name: 'Approve' })).toHaveCount(0)
   await expect(page.getByTestId('laser-caution').first()).toBeVisible()

@@ -10,15 +10,30 @@ async function apiAs(key: string): Promise<APIRequestContext> {
   return api
 }
 
-/** A Ti:sapphire setup (800 nm, 100 fs, 80 MHz, 1 W, with SH) described and submitted by the optics person: it waits for sign-off. */
+/**
+ * A Ti:sapphire setup (800 nm, 100 fs, 80 MHz, 1 W, with SH) described and submitted by the optics person: it waits for
+ * sign-off.
+ */
 async function makeWaitingSetup(stamp: string) {
   const optics = await apiAs('optics')
-  const res = await optics.post('/api/laser-setups', { data: {
-    name: `E2E Ti:Sa ${stamp}`, room: 'C1.05', sourceType: 'mode_locked', wavelengthsNm: [800], harmonicOrders: [2],
-    pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000, beamDiameterMm: 2, divergenceMrad: 1, laserClass: '4',
-    eyewear: [{ description: 'NIR goggle KG-7', bandsNm: '740–1100', od: 6, en207: 'DIRM 740-1100 LB6' }],
-    interlocks: 'Door interlock and key switch', controlledAreaNotes: 'Warning light on while the shutter is open',
-  } })
+  const res = await optics.post('/api/laser-setups', {
+    data: {
+      name: `E2E Ti:Sa ${stamp}`,
+      room: 'C1.05',
+      sourceType: 'mode_locked',
+      wavelengthsNm: [800],
+      harmonicOrders: [2],
+      pulseDurationFs: 100,
+      repRateHz: 80e6,
+      maxAvgPowerMw: 1000,
+      beamDiameterMm: 2,
+      divergenceMrad: 1,
+      laserClass: '4',
+      eyewear: [{ description: 'NIR goggle KG-7', bandsNm: '740–1100', od: 6, en207: 'DIRM 740-1100 LB6' }],
+      interlocks: 'Door interlock and key switch',
+      controlledAreaNotes: 'Warning light on while the shutter is open',
+    },
+  })
   expect(res.status(), await res.text()).toBe(201)
   const body = (await res.json()) as { id: number; code: string; name: string }
   expect((await optics.post(`/api/laser-setups/${body.id}/submit`, { data: {} })).status()).toBe(200)
@@ -26,7 +41,9 @@ async function makeWaitingSetup(stamp: string) {
   return body
 }
 
-test('the safety officer approves a waiting setup from the queue; the optics person can then pick it', async ({ page }) => {
+test('the safety officer approves a waiting setup from the queue; the optics person can then pick it', async ({
+  page,
+}) => {
   test.setTimeout(120_000)
   const setup = await makeWaitingSetup(`${Date.now()}`)
 

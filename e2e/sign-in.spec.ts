@@ -10,7 +10,14 @@ test.describe('sign in and out', () => {
       for (const label of person.roleLabels) await expect(header.getByText(label, { exact: true })).toBeVisible()
 
       const nav = areaNav(page)
-      for (const area of ['Overview', 'Sample store', 'Cleanroom work', 'Optical measurements', 'Laser safety', 'Labels & scanning']) {
+      for (const area of [
+        'Overview',
+        'Sample store',
+        'Cleanroom work',
+        'Optical measurements',
+        'Laser safety',
+        'Labels & scanning',
+      ]) {
         await expect(nav.getByRole('link', { name: new RegExp(area) })).toBeVisible()
       }
       await expect(nav.getByRole('link', { name: /People/ })).toHaveCount(person.isAdminNavVisible.people ? 1 : 0)
@@ -50,7 +57,9 @@ test.describe('sign in and out', () => {
     await page.getByRole('button', { name: 'Show or hide the areas' }).click()
     await expect(areaNav(page).getByRole('link', { name: /Laser safety/ })).toBeVisible()
     await screen(page, 'tablet-drawer-optics')
-    await areaNav(page).getByRole('link', { name: /Laser safety/ }).click()
+    await areaNav(page)
+      .getByRole('link', { name: /Laser safety/ })
+      .click()
     await expect(page.getByRole('note')).toContainText('laser safety officer')
     await expect(areaNav(page)).toBeHidden()
     await screen(page, 'tablet-laser-safety')

@@ -34,7 +34,9 @@ export function extractCode(scanned: string): string | null {
   const text = scanned.trim()
   if (!text) return null
   const fromUrl = /\/s\/([^/?#\s]+)\/?(?:[?#].*)?$/i.exec(text)
-  const candidate = decodeSafe(fromUrl ? fromUrl[1] : text).trim().toUpperCase()
+  const candidate = decodeSafe(fromUrl ? fromUrl[1] : text)
+    .trim()
+    .toUpperCase()
   return CODE_PATTERN.test(candidate) ? candidate : null
 }
 

@@ -9,7 +9,10 @@
 export const MAX_GAP_MS = 40
 export const MIN_LENGTH = 5
 
-export interface BurstState { buffer: string; lastAt: number }
+export interface BurstState {
+  buffer: string
+  lastAt: number
+}
 export const emptyBurst = (): BurstState => ({ buffer: '', lastAt: -Infinity })
 
 /** Keys a scanner may send between characters without breaking the burst. */

@@ -39,4 +39,10 @@ export interface LabelRender {
   /** Sheet templates: one SVG per page with the labels placed in the grid. */
   sheets: string[]
 }
-export interface LabelJob { id: number; template: string; codes: string[]; createdBy: { id: number; name: string }; createdAt: string }
+export interface LabelJob {
+  id: number
+  template: string
+  codes: string[]
+  createdBy: { id: number; name: string }
+  createdAt: string
+}

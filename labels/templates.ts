@@ -75,7 +75,8 @@ export const LABEL_TEMPLATES: LabelTemplate[] = [
     name: 'Wafer carrier, 40 × 20 mm',
     purpose: 'Lid of a single-wafer carrier or a wafer box',
     ecc: 'M',
-    eccReason: 'M (15 %): flat lid, rarely scuffed; the lower level keeps the symbol small so the modules stay large on a 20 mm label.',
+    eccReason:
+      'M (15 %): flat lid, rarely scuffed; the lower level keeps the symbol small so the modules stay large on a 20 mm label.',
     label: { widthMm: 40, heightMm: 20, qrSizeMm: 18, codeFontMm: 3.6, detailFontMm: 2.2, detailLines: 2 },
   },
   {
@@ -83,7 +84,8 @@ export const LABEL_TEMPLATES: LabelTemplate[] = [
     name: 'Chip box, 25 × 15 mm',
     purpose: 'Top of a small chip box or gel-pak',
     ecc: 'M',
-    eccReason: 'M (15 %): the smallest label; a higher level would push long codes to a bigger version and modules below 3 dots.',
+    eccReason:
+      'M (15 %): the smallest label; a higher level would push long codes to a bigger version and modules below 3 dots.',
     label: { widthMm: 25, heightMm: 15, qrSizeMm: 13.5, codeFontMm: 2.2, detailFontMm: 1.6, detailLines: 2 },
   },
   {
@@ -91,20 +93,44 @@ export const LABEL_TEMPLATES: LabelTemplate[] = [
     name: 'A4 sheet, 3 × 10 labels of 63.5 × 25.4 mm',
     purpose: 'Many labels at once for boxes, drawers and racks',
     ecc: 'Q',
-    eccReason: 'Q (25 %): box and rack labels get handled, rubbed and wiped; the 25 mm height leaves room for the larger symbol.',
+    eccReason:
+      'Q (25 %): box and rack labels get handled, rubbed and wiped; the 25 mm height leaves room for the larger symbol.',
     label: { widthMm: 63.5, heightMm: 25.4, qrSizeMm: 23.4, codeFontMm: 4, detailFontMm: 2.5, detailLines: 3 },
-    // 3 × 63.5 + 2 × 2.5 = 195.5 mm wide, centred: (210 − 195.5) / 2 = 7.25 mm; 10 × 25.4 = 254 mm tall: (297 − 254) / 2 = 21.5 mm.
-    sheet: { paper: 'A4', pageWidthMm: 210, pageHeightMm: 297, columns: 3, rows: 10, marginLeftMm: 7.25, marginTopMm: 21.5, pitchXMm: 66, pitchYMm: 25.4 },
+    // 3 × 63.5 + 2 × 2.5 = 195.5 mm wide, centred: (210 − 195.5) / 2 = 7.25 mm; 10 × 25.4 = 254 mm tall: (297 − 254) /
+    // 2 = 21.5 mm.
+    sheet: {
+      paper: 'A4',
+      pageWidthMm: 210,
+      pageHeightMm: 297,
+      columns: 3,
+      rows: 10,
+      marginLeftMm: 7.25,
+      marginTopMm: 21.5,
+      pitchXMm: 66,
+      pitchYMm: 25.4,
+    },
   },
   {
     id: 'sheet-letter',
     name: 'Letter sheet, 3 × 10 labels of 66.7 × 25.4 mm',
     purpose: 'Many labels at once on US Letter (8.5 × 11 in)',
     ecc: 'Q',
-    eccReason: 'Q (25 %): box and rack labels get handled, rubbed and wiped; the 25 mm height leaves room for the larger symbol.',
+    eccReason:
+      'Q (25 %): box and rack labels get handled, rubbed and wiped; the 25 mm height leaves room for the larger symbol.',
     label: { widthMm: 66.7, heightMm: 25.4, qrSizeMm: 23.4, codeFontMm: 4, detailFontMm: 2.5, detailLines: 3 },
-    // 215.9 × 279.4 mm: 3 × 66.7 + 2 × 3.2 = 206.5 mm wide, left (215.9 − 206.5) / 2 = 4.7 mm; top (279.4 − 254) / 2 = 12.7 mm.
-    sheet: { paper: 'letter', pageWidthMm: 215.9, pageHeightMm: 279.4, columns: 3, rows: 10, marginLeftMm: 4.7, marginTopMm: 12.7, pitchXMm: 69.9, pitchYMm: 25.4 },
+    // 215.9 × 279.4 mm: 3 × 66.7 + 2 × 3.2 = 206.5 mm wide, left (215.9 − 206.5) / 2 = 4.7 mm; top (279.4 − 254) / 2 =
+    // 12.7 mm.
+    sheet: {
+      paper: 'letter',
+      pageWidthMm: 215.9,
+      pageHeightMm: 279.4,
+      columns: 3,
+      rows: 10,
+      marginLeftMm: 4.7,
+      marginTopMm: 12.7,
+      pitchXMm: 69.9,
+      pitchYMm: 25.4,
+    },
   },
 ]
 

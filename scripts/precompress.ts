@@ -25,7 +25,15 @@ export function precompress(dir: string): number {
   for (const file of files(dir)) {
     const bytes = fs.readFileSync(file)
     const variants: [string, Buffer][] = [
-      ['.br', brotliCompressSync(bytes, { params: { [constants.BROTLI_PARAM_QUALITY]: constants.BROTLI_MAX_QUALITY, [constants.BROTLI_PARAM_SIZE_HINT]: bytes.length } })],
+      [
+        '.br',
+        brotliCompressSync(bytes, {
+          params: {
+            [constants.BROTLI_PARAM_QUALITY]: constants.BROTLI_MAX_QUALITY,
+            [constants.BROTLI_PARAM_SIZE_HINT]: bytes.length,
+          },
+        }),
+      ],
       ['.gz', gzipSync(bytes, { level: 9 })],
     ]
     for (const [ext, packed] of variants) {

@@ -9,7 +9,9 @@ let failed = Number(extraFailed) || 0
 let skipped = 0
 
 function read(file, what) {
-  try { return JSON.parse(fs.readFileSync(file, 'utf8')) } catch {
+  try {
+    return JSON.parse(fs.readFileSync(file, 'utf8'))
+  } catch {
     console.log(`[overtone] no ${what} report (${file}): counted as one failure`)
     failed += 1
     return null
@@ -23,8 +25,14 @@ function addVitest(file, what) {
   passed += v.numPassedTests ?? 0
   failed += v.numFailedTests ?? 0
   skipped += (v.numPendingTests ?? 0) + (v.numTodoTests ?? 0)
-  if ((v.numTotalTests ?? 0) === 0) { console.log(`[overtone] ${what} ran no test`); failed += 1 }
-  if (v.success === false && (v.numFailedTests ?? 0) === 0) { console.log(`[overtone] a ${what} file failed to load`); failed += 1 }
+  if ((v.numTotalTests ?? 0) === 0) {
+    console.log(`[overtone] ${what} ran no test`)
+    failed += 1
+  }
+  if (v.success === false && (v.numFailedTests ?? 0) === 0) {
+    console.log(`[overtone] a ${what} file failed to load`)
+    failed += 1
+  }
   console.log(`[overtone] ${what}: ${v.numPassedTests} passed, ${v.numFailedTests} failed`)
 }
 
@@ -35,7 +43,10 @@ if (p) {
   passed += (s.expected ?? 0) + (s.flaky ?? 0)
   failed += s.unexpected ?? 0
   skipped += s.skipped ?? 0
-  if ((p.errors ?? []).length) { console.log(`[overtone] Playwright errors: ${p.errors.map((e) => e.message).join('; ')}`); failed += 1 }
+  if ((p.errors ?? []).length) {
+    console.log(`[overtone] Playwright errors: ${p.errors.map((e) => e.message).join('; ')}`)
+    failed += 1
+  }
   console.log(`[overtone] Playwright: ${(s.expected ?? 0) + (s.flaky ?? 0)} passed, ${s.unexpected ?? 0} failed`)
 }
 if (clusterFile) addVitest(clusterFile, 'Vitest (Galera cluster)')

@@ -16,6 +16,8 @@ throwaway_lab run overtone_test KEEP_TEST_DATA
 EXTRA_FAILED=0
 log "type check (vue-tsc)"
 if ! ./node_modules/.bin/vue-tsc --noEmit -p tsconfig.json; then log "type check FAILED"; EXTRA_FAILED=$((EXTRA_FAILED+1)); fi
+log "lint (ESLint, Prettier)"
+if ! npm run --silent lint; then log "lint FAILED"; EXTRA_FAILED=$((EXTRA_FAILED+1)); fi
 
 log "unit and API tests (Vitest)"
 ./node_modules/.bin/vitest run --reporter=default --reporter=json --outputFile.json="$TMP/vitest.json"

@@ -33,7 +33,11 @@ const MySQLStore = MySQLStoreFactory(session as never)
 /** Where the built client lives (dist/client at the project root, from server/ or dist/server/). */
 function findClientDir(): string {
   const here = path.dirname(fileURLToPath(import.meta.url))
-  for (const c of [path.resolve(here, '../dist/client'), path.resolve(here, '../client'), path.resolve(process.cwd(), 'dist/client')]) {
+  for (const c of [
+    path.resolve(here, '../dist/client'),
+    path.resolve(here, '../client'),
+    path.resolve(process.cwd(), 'dist/client'),
+  ]) {
     if (fs.existsSync(path.join(c, 'index.html'))) return c
   }
   return path.resolve(process.cwd(), 'dist/client')
@@ -46,23 +50,28 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.set('trust proxy', 'loopback')
 
   setExportStaleness(ctx.env.EXPORT_STALE_S * 1000)
-  const store = new MySQLStore({ createDatabaseTable: false, clearExpired: true, checkExpirationInterval: 15 * 60 * 1000 }, ctx.pool as never)
+  const store = new MySQLStore(
+    { createDatabaseTable: false, clearExpired: true, checkExpirationInterval: 15 * 60 * 1000 },
+    ctx.pool as never,
+  )
   const pp = configurePassport(ctx.db)
 
-  app.use(helmet({
-    contentSecurityPolicy: {
-      directives: {
-        'default-src': ["'self'"],
-        'img-src': ["'self'", 'data:', 'blob:'],
-        'style-src': ["'self'", "'unsafe-inline'"],
-        'font-src': ["'self'", 'data:'],
-        'connect-src': ["'self'"],
-        'media-src': ["'self'", 'blob:'],
-        'upgrade-insecure-requests': null,
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          'default-src': ["'self'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'font-src': ["'self'", 'data:'],
+          'connect-src': ["'self'"],
+          'media-src': ["'self'", 'blob:'],
+          'upgrade-insecure-requests': null,
+        },
       },
-    },
-    strictTransportSecurity: false,
-  }))
+      strictTransportSecurity: false,
+    }),
+  )
   app.use(requestId)
   app.use(requestLogger(ctx.log))
   // Health first: a load balancer's probe must get 503 (not a session-store error) when the DB is down.
@@ -70,15 +79,18 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   // Before the session store: a database that does not answer is a 503 within seconds, never a hang.
   app.use('/api', dbWatchdog(ctx.pool))
   app.use('/api', express.json({ limit: '1mb', verify: refuseDeepJson }))
-  app.use('/api', session({
-    name: 'sid',
-    secret: ctx.env.SESSION_SECRET,
-    store,
-    resave: false,
-    saveUninitialized: false,
-    rolling: true,
-    cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600 * 1000 },
-  }))
+  app.use(
+    '/api',
+    session({
+      name: 'sid',
+      secret: ctx.env.SESSION_SECRET,
+      store,
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600 * 1000 },
+    }),
+  )
   app.use('/api', pp.initialize(), pp.session())
   app.use('/api', originCheck)
 
@@ -98,5 +110,10 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use(clientFiles(findClientDir()))
 
   app.use(errorHandler(ctx.log))
-  return { app, close: async () => { await store.close() } }
+  return {
+    app,
+    close: async () => {
+      await store.close()
+    },
+  }
 }

@@ -10,19 +10,29 @@ export class AppError extends Error {
   }
 }
 export class BadRequestError extends AppError {
-  constructor(message: string, fields?: Record<string, string[]>) { super(400, 'bad_request', message, fields) }
+  constructor(message: string, fields?: Record<string, string[]>) {
+    super(400, 'bad_request', message, fields)
+  }
 }
 export class UnauthorizedError extends AppError {
-  constructor(message = 'Please sign in.') { super(401, 'unauthorized', message) }
+  constructor(message = 'Please sign in.') {
+    super(401, 'unauthorized', message)
+  }
 }
 export class ForbiddenError extends AppError {
-  constructor(message = 'You are not allowed to do this.') { super(403, 'forbidden', message) }
+  constructor(message = 'You are not allowed to do this.') {
+    super(403, 'forbidden', message)
+  }
 }
 export class NotFoundError extends AppError {
-  constructor(message = 'Not found.') { super(404, 'not_found', message) }
+  constructor(message = 'Not found.') {
+    super(404, 'not_found', message)
+  }
 }
 export class ConflictError extends AppError {
-  constructor(message: string, fields?: Record<string, string[]>) { super(409, 'conflict', message, fields) }
+  constructor(message: string, fields?: Record<string, string[]>) {
+    super(409, 'conflict', message, fields)
+  }
 }
 /** A field-level 400 for one field. */
 export function fieldError(field: string, message: string): BadRequestError {

@@ -27,8 +27,14 @@ function sessionSecret(dataDir: string): string {
 
 function tcpAnswers(host: string, port: number): Promise<boolean> {
   return new Promise((resolve) => {
-    const s = net.connect({ host, port, timeout: 1000 }, () => { s.end(); resolve(true) })
-    s.on('error', () => resolve(false)).on('timeout', () => { s.destroy(); resolve(false) })
+    const s = net.connect({ host, port, timeout: 1000 }, () => {
+      s.end()
+      resolve(true)
+    })
+    s.on('error', () => resolve(false)).on('timeout', () => {
+      s.destroy()
+      resolve(false)
+    })
   })
 }
 
@@ -43,14 +49,21 @@ async function main() {
   if (!smtpUrl) {
     sink = await startMailSink(db, env.SMTP_SINK_PORT, log)
     smtpUrl = `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`
-    log.info({ port: sink.port }, `local SMTP sink on 127.0.0.1:${sink.port} (messages appear under Admin → Mail outbox)`)
+    log.info(
+      { port: sink.port },
+      `local SMTP sink on 127.0.0.1:${sink.port} (messages appear under Admin → Mail outbox)`,
+    )
   }
   const smtp = new URL(smtpUrl)
   const worker = new MailWorker(db, smtpUrl, env.MAIL_FROM, log)
   worker.start()
 
   const ctx: AppContext = {
-    db, pool, env, log, startedAt: Date.now(),
+    db,
+    pool,
+    env,
+    log,
+    startedAt: Date.now(),
     publicUrl: (env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`).replace(/\/$/, ''),
     mailUp: () => tcpAnswers(smtp.hostname, Number(smtp.port || 25)),
   }
@@ -59,9 +72,12 @@ async function main() {
   notices.start()
   // Expired export jobs and their workbooks also go when nobody starts a new export.
   const exportStorage = createFileStorage(env.DATA_DIR, env)
-  const exportSweep = setInterval(() => {
-    sweepExports(db, exportStorage, env.DATA_DIR).catch((err) => log.error({ err }, 'export sweep failed'))
-  }, 10 * 60 * 1000)
+  const exportSweep = setInterval(
+    () => {
+      sweepExports(db, exportStorage, env.DATA_DIR).catch((err) => log.error({ err }, 'export sweep failed'))
+    },
+    10 * 60 * 1000,
+  )
   exportSweep.unref()
   const { app, close } = createApp(ctx)
   const server = app.listen(env.PORT, env.HOST, () => {

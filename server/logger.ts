@@ -31,15 +31,21 @@ export function requestLogger(logger: Logger): RequestHandler {
     customAttributeKeys: { reqId: 'reqId' },
     quietReqLogger: true, // req.log carries only the request id
     autoLogging: { ignore: (req) => (req.url ?? '').startsWith('/api/health') },
-    customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
-    customSuccessMessage: (req, res) => `${req.method} ${(req as unknown as { originalUrl?: string }).originalUrl ?? req.url} ${res.statusCode}`,
-    customErrorMessage: (req, res, err) => `${req.method} ${(req as unknown as { originalUrl?: string }).originalUrl ?? req.url} ${res.statusCode}: ${err.message}`,
+    customLogLevel: (_req, res, err) =>
+      err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info',
+    customSuccessMessage: (req, res) =>
+      `${req.method} ${(req as unknown as { originalUrl?: string }).originalUrl ?? req.url} ${res.statusCode}`,
+    customErrorMessage: (req, res, err) =>
+      `${req.method} ${(req as unknown as { originalUrl?: string }).originalUrl ?? req.url} ${res.statusCode}: ${err.message}`,
     customProps: (req) => {
       const user = (req as unknown as { user?: { id?: number } }).user
       return user?.id !== undefined ? { userId: user.id } : {}
     },
     serializers: {
-      req: (req: { method: string; url: string; raw?: { originalUrl?: string } }) => ({ method: req.method, url: req.raw?.originalUrl ?? req.url }),
+      req: (req: { method: string; url: string; raw?: { originalUrl?: string } }) => ({
+        method: req.method,
+        url: req.raw?.originalUrl ?? req.url,
+      }),
       res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
     },
   }) as unknown as RequestHandler

@@ -7,21 +7,48 @@ import type { Role } from './roles'
  */
 export type Action = 'read' | 'create' | 'update' | 'retire' | 'manage' | 'invite' | 'signoff' | 'export' | 'import'
 export type Subject =
-  | 'User' | 'Mail' | 'Audit' | 'Inventory' | 'Channels'
-  | 'Material' | 'Wafer' | 'Chip' | 'Array' | 'FabStep' | 'Location' | 'Label'
-  | 'Session' | 'File' | 'LaserSetup' | 'all'
+  | 'User'
+  | 'Mail'
+  | 'Audit'
+  | 'Inventory'
+  | 'Channels'
+  | 'Material'
+  | 'Wafer'
+  | 'Chip'
+  | 'Array'
+  | 'FabStep'
+  | 'Location'
+  | 'Label'
+  | 'Session'
+  | 'File'
+  | 'LaserSetup'
+  | 'all'
 /** A file as the subject of a rule with conditions (retiring is decided on who uploaded it). */
 type FileSubject = ForcedSubject<'File'> & { uploadedById: number }
 export type AppAbility = MongoAbility<[Action, Subject | FileSubject]>
 
 /** A stored file as a subject: `ability.can('retire', fileSubject(f))`. */
-export const fileSubject = (f: { uploadedBy: { id: number } }): FileSubject => subject('File', { uploadedById: f.uploadedBy.id })
+export const fileSubject = (f: { uploadedBy: { id: number } }): FileSubject =>
+  subject('File', { uploadedById: f.uploadedBy.id })
 
 /** Lab records every signed-in person may read. */
-const LAB_RECORDS: Subject[] = ['Material', 'Wafer', 'Chip', 'Array', 'FabStep', 'Location', 'Label', 'Session', 'File', 'LaserSetup']
+const LAB_RECORDS: Subject[] = [
+  'Material',
+  'Wafer',
+  'Chip',
+  'Array',
+  'FabStep',
+  'Location',
+  'Label',
+  'Session',
+  'File',
+  'LaserSetup',
+]
 
 /** Build the ability of a person from their roles (no roles, or no person: nothing at all). */
-export function defineAbilityFor(user: { id?: number; roles: readonly Role[]; active?: boolean } | null | undefined): AppAbility {
+export function defineAbilityFor(
+  user: { id?: number; roles: readonly Role[]; active?: boolean } | null | undefined,
+): AppAbility {
   const { can, cannot, build } = new AbilityBuilder<AppAbility>(createMongoAbility)
   if (!user || user.active === false) return build()
   const roles = new Set(user.roles)

@@ -9,16 +9,34 @@ import { idValue, safeString } from './schemas/common'
 
 /** Record kinds in the audit log (the `entity` column) → the CASL subject whose `read` opens their history. */
 export const AUDIT_ENTITIES = {
-  material: 'Material', location: 'Location', wafer: 'Wafer', chip: 'Chip', array: 'Array',
-  fab_step: 'FabStep', session: 'Session', laser_setup: 'LaserSetup', file: 'File', label_job: 'Label', user: 'User',
+  material: 'Material',
+  location: 'Location',
+  wafer: 'Wafer',
+  chip: 'Chip',
+  array: 'Array',
+  fab_step: 'FabStep',
+  session: 'Session',
+  laser_setup: 'LaserSetup',
+  file: 'File',
+  label_job: 'Label',
+  user: 'User',
 } as const satisfies Record<string, Subject>
 export type AuditEntity = keyof typeof AUDIT_ENTITIES
 export const AUDIT_ENTITY_NAMES = Object.keys(AUDIT_ENTITIES) as AuditEntity[]
 
 /** Plain words for each record kind. */
 export const AUDIT_ENTITY_LABELS: Record<AuditEntity, string> = {
-  material: 'Material', location: 'Location', wafer: 'Wafer', chip: 'Chip', array: 'Array', fab_step: 'Fab step',
-  session: 'Session', laser_setup: 'Laser setup', file: 'File', label_job: 'Label job', user: 'Person',
+  material: 'Material',
+  location: 'Location',
+  wafer: 'Wafer',
+  chip: 'Chip',
+  array: 'Array',
+  fab_step: 'Fab step',
+  session: 'Session',
+  laser_setup: 'Laser setup',
+  file: 'File',
+  label_job: 'Label job',
+  user: 'Person',
 }
 
 export const AUDIT_ACTIONS = ['create', 'update', 'retire', 'signoff', 'revoke', 'login', 'other'] as const
@@ -27,15 +45,24 @@ export type AuditAction = (typeof AUDIT_ACTIONS)[number]
 /** Client path of a record's page, or null when the kind has none. */
 export function auditRecordPath(entity: string, id: number): string | null {
   switch (entity) {
-    case 'material': return `/materials/${id}`
-    case 'location': return `/locations/${id}`
-    case 'wafer': return `/wafers/${id}`
-    case 'chip': return `/chips/${id}`
-    case 'array': return `/arrays/${id}`
-    case 'session': return `/sessions/${id}`
-    case 'laser_setup': return `/laser-setups/${id}`
-    case 'user': return `/people?focus=${id}`
-    default: return null
+    case 'material':
+      return `/materials/${id}`
+    case 'location':
+      return `/locations/${id}`
+    case 'wafer':
+      return `/wafers/${id}`
+    case 'chip':
+      return `/chips/${id}`
+    case 'array':
+      return `/arrays/${id}`
+    case 'session':
+      return `/sessions/${id}`
+    case 'laser_setup':
+      return `/laser-setups/${id}`
+    case 'user':
+      return `/people?focus=${id}`
+    default:
+      return null
   }
 }
 
@@ -54,7 +81,10 @@ export interface AuditRow {
   reason: string | null
 }
 
-const isoDate = z.string().trim().refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date (YYYY-MM-DD) or a date and time')
+const isoDate = z
+  .string()
+  .trim()
+  .refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date (YYYY-MM-DD) or a date and time')
 
 /** Filters, sort and paging of the audit search. Dates are UTC: a bare `to` date includes that whole day. */
 export const auditSearchSchema = z.object({
@@ -66,11 +96,19 @@ export const auditSearchSchema = z.object({
   entity: z.enum(AUDIT_ENTITY_NAMES as [AuditEntity, ...AuditEntity[]], { error: 'Pick a record kind' }).optional(),
   entityId: idValue().optional(),
   /** A record code (W-0001, C-0001-01, A-…, L-…, LS-…, S-…) or a material name. */
-  code: safeString().max(80).optional().transform((v) => v || undefined),
+  code: safeString()
+    .max(80)
+    .optional()
+    .transform((v) => v || undefined),
   action: z.enum(AUDIT_ACTIONS, { error: 'Pick an action' }).optional(),
   from: isoDate.optional(),
   to: isoDate.optional(),
   /** Text in the reason or in a changed field's name. */
-  q: z.string().trim().max(100).optional().transform((v) => v || undefined),
+  q: z
+    .string()
+    .trim()
+    .max(100)
+    .optional()
+    .transform((v) => v || undefined),
 })
 export type AuditSearchQuery = z.infer<typeof auditSearchSchema>

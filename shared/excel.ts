@@ -3,7 +3,23 @@
  */
 
 /** Where an export job is: counting rows, writing one sheet, done (file ready) or failed. */
-export const EXPORT_PHASES = ['queued', 'counting', 'About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'Fabrication', 'Laser setups', 'Moves', 'Files', 'done', 'failed'] as const
+export const EXPORT_PHASES = [
+  'queued',
+  'counting',
+  'About',
+  'Materials',
+  'Wafers',
+  'Chips',
+  'Arrays',
+  'Sessions',
+  'Locations',
+  'Fabrication',
+  'Laser setups',
+  'Moves',
+  'Files',
+  'done',
+  'failed',
+] as const
 export type ExportPhase = (typeof EXPORT_PHASES)[number]
 
 export interface ExportJob {
@@ -39,10 +55,20 @@ export interface ImportMessage {
 export type ImportRowStatus = 'create' | 'update' | 'unchanged' | 'conflict' | 'error' | 'skip'
 
 /** Counts of rows by what the import does with them (skipped rows are counted apart). */
-export interface ImportSummary { create: number; update: number; unchanged: number; conflict: number; error: number }
+export interface ImportSummary {
+  create: number
+  update: number
+  unchanged: number
+  conflict: number
+  error: number
+}
 
 /** One field of an update or conflict: the record as it is in Overtone now, and the file's value. */
-export interface ImportFieldChange { column: string; before: string | number | null; after: string | number | null }
+export interface ImportFieldChange {
+  column: string
+  before: string | number | null
+  after: string | number | null
+}
 
 export interface ImportRowReport {
   sheet: ImportSheetName
@@ -51,7 +77,10 @@ export interface ImportRowReport {
   status: ImportRowStatus
   /** The row's own key in the file (Code column), used by the rows that refer to it. */
   ref: string | null
-  /** The record's code: the existing one, or the one a new record would get (preview in a dry run; final after the import). */
+  /**
+   * The record's code: the existing one, or the one a new record would get (preview in a dry run; final after the
+   * import).
+   */
   code: string | null
   /** One line describing the record, e.g. "GaAs (001), lot KX-1, 50.8 mm". */
   summary: string

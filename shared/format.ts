@@ -5,8 +5,19 @@
  */
 
 const PREFIXES: readonly (readonly [number, string])[] = [
-  [1e18, 'E'], [1e15, 'P'], [1e12, 'T'], [1e9, 'G'], [1e6, 'M'], [1e3, 'k'], [1, ''],
-  [1e-3, 'm'], [1e-6, 'µ'], [1e-9, 'n'], [1e-12, 'p'], [1e-15, 'f'], [1e-18, 'a'],
+  [1e18, 'E'],
+  [1e15, 'P'],
+  [1e12, 'T'],
+  [1e9, 'G'],
+  [1e6, 'M'],
+  [1e3, 'k'],
+  [1, ''],
+  [1e-3, 'm'],
+  [1e-6, 'µ'],
+  [1e-9, 'n'],
+  [1e-12, 'p'],
+  [1e-15, 'f'],
+  [1e-18, 'a'],
 ]
 
 /** Units that take a prefix (on their first symbol): W, J, Hz, W/m², J/m², m, s. */
@@ -24,7 +35,10 @@ export function formatNumber(value: number, digits = 4): string {
   const abs = Math.abs(value)
   if (abs >= 1e-3 && abs < 1e6) return String(Number(value.toPrecision(digits)))
   const [mant, exp] = value.toExponential(digits - 1).split('e')
-  const sup = exp!.replace('+', '').replace('-', '⁻').replace(/\d/g, (d) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(d)]!)
+  const sup = exp!
+    .replace('+', '')
+    .replace('-', '⁻')
+    .replace(/\d/g, (d) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(d)]!)
   return `${Number(mant)}×10${sup}`
 }
 
@@ -39,7 +53,8 @@ export function formatSi(value: number | null | undefined, unit: string, digits 
   const join = (n: string, p: string) => (u ? `${n} ${p}${u}` : n)
   if (value === 0 || !takesPrefix(u)) return join(formatNumber(value, digits), '')
   const abs = Math.abs(value)
-  if ((u === 's' || u === 'm') && abs >= 1 && abs < 1e6) return join(String(Number(value.toPrecision(Math.max(digits, String(Math.trunc(abs)).length)))), '')
+  if ((u === 's' || u === 'm') && abs >= 1 && abs < 1e6)
+    return join(String(Number(value.toPrecision(Math.max(digits, String(Math.trunc(abs)).length)))), '')
   const row = PREFIXES.find(([s]) => abs >= s * (1 - 5e-13))
   if (!row || abs >= 1e21) return join(formatNumber(value, digits), '')
   let [scale, prefix] = row
@@ -47,7 +62,10 @@ export function formatSi(value: number | null | undefined, unit: string, digits 
   // 999.96 k rounds to 1000 k: move up one prefix.
   if (Math.abs(mant) >= 1000) {
     const up = PREFIXES[PREFIXES.indexOf(row) - 1]
-    if (up) { [scale, prefix] = up; mant = Number((value / scale).toPrecision(digits)) }
+    if (up) {
+      ;[scale, prefix] = up
+      mant = Number((value / scale).toPrecision(digits))
+    }
   }
   return join(String(mant), prefix)
 }

@@ -15,11 +15,33 @@ export const EXPIRING_DAYS = 30
 export const FLAG_WINDOW_DAYS = 90
 export const FLAG_SCAN_MAX = 300
 
-export interface WorkList<T> { items: T[]; total: number }
+export interface WorkList<T> {
+  items: T[]
+  total: number
+}
 
-export interface ChipItem { id: number; code: string; waferCode: string; holder: string | null; location: string | null; updatedAt: string }
-export interface FabStepItem { id: number; chipId: number; chipCode: string; kind: string; operator: string; performedAt: string }
-export interface UnlabelledItem { kind: 'wafer' | 'chip'; id: number; code: string; createdAt: string }
+export interface ChipItem {
+  id: number
+  code: string
+  waferCode: string
+  holder: string | null
+  location: string | null
+  updatedAt: string
+}
+export interface FabStepItem {
+  id: number
+  chipId: number
+  chipCode: string
+  kind: string
+  operator: string
+  performedAt: string
+}
+export interface UnlabelledItem {
+  kind: 'wafer' | 'chip'
+  id: number
+  code: string
+  createdAt: string
+}
 
 export interface FabPanel {
   inProcess: WorkList<ChipItem>
@@ -30,12 +52,35 @@ export interface FabPanel {
 }
 
 export interface SessionItem {
-  id: number; code: string; performedAt: string; operator: string; setupCode: string
-  harmonicOrder: number; wavelengthNm: number; arrayCodes: string[]
+  id: number
+  code: string
+  performedAt: string
+  operator: string
+  setupCode: string
+  harmonicOrder: number
+  wavelengthNm: number
+  arrayCodes: string[]
 }
-export interface FlaggedSessionItem extends SessionItem { flagCount: number; firstFlag: string }
-export interface ArrayItem { id: number; code: string; chipCode: string; shape: string; createdAt: string }
-export interface SetupItem { id: number; code: string; name: string; state: SignoffState; expiresOn: string | null; submittedAt: string | null; daysLeft: number | null }
+export interface FlaggedSessionItem extends SessionItem {
+  flagCount: number
+  firstFlag: string
+}
+export interface ArrayItem {
+  id: number
+  code: string
+  chipCode: string
+  shape: string
+  createdAt: string
+}
+export interface SetupItem {
+  id: number
+  code: string
+  name: string
+  state: SignoffState
+  expiresOn: string | null
+  submittedAt: string | null
+  daysLeft: number | null
+}
 
 export interface OpticsPanel {
   mySessions: WorkList<SessionItem>
@@ -46,7 +91,11 @@ export interface OpticsPanel {
   usableSetups: WorkList<SetupItem>
 }
 
-export interface LapsedSessionItem extends SessionItem { setupId: number; setupState: SignoffState; setupExpiresOn: string | null }
+export interface LapsedSessionItem extends SessionItem {
+  setupId: number
+  setupState: SignoffState
+  setupExpiresOn: string | null
+}
 
 export interface SafetyPanel {
   waiting: WorkList<SetupItem>
@@ -56,17 +105,48 @@ export interface SafetyPanel {
   lapsedSessions: WorkList<LapsedSessionItem>
 }
 
-export interface ActivityItem { id: number; at: string; user: string | null; action: string; entity: string; entityId: number; code: string | null; reason: string | null }
+export interface ActivityItem {
+  id: number
+  at: string
+  user: string | null
+  action: string
+  entity: string
+  entityId: number
+  code: string | null
+  reason: string | null
+}
 
 export interface LeadPanel {
-  counts: { wafers: number; chips: number; chipsInProcess: number; arrays: number; sessions: number; locations: number; laserSetups: number }
+  counts: {
+    wafers: number
+    chips: number
+    chipsInProcess: number
+    arrays: number
+    sessions: number
+    locations: number
+    laserSetups: number
+  }
   /** Audit rows of the last RECENT_DAYS days, newest first, with counts per action. */
   activity: WorkList<ActivityItem> & { from: string; byAction: Record<string, number> }
   canExport: boolean
 }
 
-export interface InvitationItem { userId: number; name: string; email: string; invitedAt: string; expiresAt: string }
-export interface MailItem { id: number; to: string; subject: string; status: 'queued' | 'failed'; attempts: number; lastError: string | null; createdAt: string }
+export interface InvitationItem {
+  userId: number
+  name: string
+  email: string
+  invitedAt: string
+  expiresAt: string
+}
+export interface MailItem {
+  id: number
+  to: string
+  subject: string
+  status: 'queued' | 'failed'
+  attempts: number
+  lastError: string | null
+  createdAt: string
+}
 
 export interface AdminPanel {
   /** Invitations not yet accepted whose link is still valid; `expired` counts those whose link ran out. */

@@ -13,10 +13,13 @@ let estimator: Promise<ZxcvbnFactory> | null = null
 function load(): Promise<ZxcvbnFactory> {
   estimator ??= (async () => {
     const [{ ZxcvbnFactory }, common, en] = await Promise.all([
-      import('@zxcvbn-ts/core'), import('@zxcvbn-ts/language-common'), import('@zxcvbn-ts/language-en'),
+      import('@zxcvbn-ts/core'),
+      import('@zxcvbn-ts/language-common'),
+      import('@zxcvbn-ts/language-en'),
     ])
     return new ZxcvbnFactory({
-      translations: en.translations, graphs: common.adjacencyGraphs,
+      translations: en.translations,
+      graphs: common.adjacencyGraphs,
       dictionary: { ...common.dictionary, ...en.dictionary },
     })
   })()
@@ -24,11 +27,17 @@ function load(): Promise<ZxcvbnFactory> {
 }
 
 /** The estimator's verdict: its score (0–4) and feedback in plain words (empty when strong enough). */
-export async function passwordFeedback(password: string, userInputs: string[] = []): Promise<{ score: number; feedback: string[] }> {
+export async function passwordFeedback(
+  password: string,
+  userInputs: string[] = [],
+): Promise<{ score: number; feedback: string[] }> {
   const inputs = userInputs.flatMap((s) => s.toLowerCase().split(/[\s@.+_-]+/)).filter((s) => s.length >= 3)
   const result = (await load()).check(password.normalize('NFKC'), inputs)
   if (result.score >= MIN_PASSWORD_SCORE) return { score: result.score, feedback: [] }
   const { warning, suggestions } = result.feedback
   const feedback = [warning, ...suggestions].filter((s): s is string => !!s)
-  return { score: result.score, feedback: feedback.length ? feedback : ['Add more words that are not common together.'] }
+  return {
+    score: result.score,
+    feedback: feedback.length ? feedback : ['Add more words that are not common together.'],
+  }
 }

@@ -6,14 +6,52 @@
  * used in src/ has an entry).
  */
 import {
-  mdiArrowCollapseDown, mdiArrowCollapseUp, mdiArrowExpandUp, mdiAxisArrow, mdiBarcodeScan, mdiCamera,
-  mdiChartBellCurve, mdiChartDonut, mdiChartLine, mdiChip, mdiCircleSlice8, mdiCog, mdiCompareHorizontal,
-  mdiCubeOutline, mdiDolly, mdiDotsGrid, mdiDotsHorizontal, mdiEmailNewsletter, mdiFileCabinet,
-  mdiFileDocumentOutline, mdiFileDownloadOutline, mdiFileExcelOutline, mdiFileOutline, mdiFlash,
-  mdiFlaskOutline, mdiFormatColorFill, mdiGrid, mdiHistory, mdiInboxArrowDown, mdiKnife, mdiLaserPointer,
-  mdiLayersPlus, mdiLayersTripleOutline, mdiMicroscope, mdiPackageVariantClosed, mdiPlusCircleOutline,
-  mdiQrcode, mdiQrcodeRemove, mdiQrcodeScan, mdiRotate3dVariant, mdiSafetyGoggles, mdiSineWave,
-  mdiSortDescending, mdiTagMultipleOutline, mdiTray, mdiTrayFull
+  mdiArrowCollapseDown,
+  mdiArrowCollapseUp,
+  mdiArrowExpandUp,
+  mdiAxisArrow,
+  mdiBarcodeScan,
+  mdiCamera,
+  mdiChartBellCurve,
+  mdiChartDonut,
+  mdiChartLine,
+  mdiChip,
+  mdiCircleSlice8,
+  mdiCog,
+  mdiCompareHorizontal,
+  mdiCubeOutline,
+  mdiDolly,
+  mdiDotsGrid,
+  mdiDotsHorizontal,
+  mdiEmailNewsletter,
+  mdiFileCabinet,
+  mdiFileDocumentOutline,
+  mdiFileDownloadOutline,
+  mdiFileExcelOutline,
+  mdiFileOutline,
+  mdiFlash,
+  mdiFlaskOutline,
+  mdiFormatColorFill,
+  mdiGrid,
+  mdiHistory,
+  mdiInboxArrowDown,
+  mdiKnife,
+  mdiLaserPointer,
+  mdiLayersPlus,
+  mdiLayersTripleOutline,
+  mdiMicroscope,
+  mdiPackageVariantClosed,
+  mdiPlusCircleOutline,
+  mdiQrcode,
+  mdiQrcodeRemove,
+  mdiQrcodeScan,
+  mdiRotate3dVariant,
+  mdiSafetyGoggles,
+  mdiSineWave,
+  mdiSortDescending,
+  mdiTagMultipleOutline,
+  mdiTray,
+  mdiTrayFull,
 } from '@quasar/extras/mdi-v7'
 
 export const MDI_PATHS: Readonly<Record<string, string>> = {
@@ -65,7 +103,9 @@ export const MDI_PATHS: Readonly<Record<string, string>> = {
   'mdi-tray-full': mdiTrayFull,
 }
 
-/** Quasar's icon map: an `mdi-*` name becomes its SVG path; anything else is left to Quasar (a Material Icons ligature). */
+/**
+ * Quasar's icon map: an `mdi-*` name becomes its SVG path; anything else is left to Quasar (a Material Icons ligature).
+ */
 export function iconMapFn(name: string): { icon: string } | undefined {
   const path = name.startsWith('mdi-') ? MDI_PATHS[name] : undefined
   return path === undefined ? undefined : { icon: path }

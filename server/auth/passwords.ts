@@ -1,11 +1,16 @@
 import { scrypt, randomBytes, timingSafeEqual, type ScryptOptions } from 'node:crypto'
 
 /** scrypt parameters (N=2^14, r=8, p=1): the interactive-login setting commonly recommended for scrypt. */
-const N = 16384, R = 8, P = 1, KEYLEN = 64
+const N = 16384,
+  R = 8,
+  P = 1,
+  KEYLEN = 64
 const MAXMEM = 64 * 1024 * 1024
 
 function scryptAsync(password: string, salt: Buffer, keylen: number, opts: ScryptOptions): Promise<Buffer> {
-  return new Promise((resolve, reject) => scrypt(password, salt, keylen, opts, (err, key) => (err ? reject(err) : resolve(key))))
+  return new Promise((resolve, reject) =>
+    scrypt(password, salt, keylen, opts, (err, key) => (err ? reject(err) : resolve(key))),
+  )
 }
 
 /** Hash a password as `scrypt$N$r$p$salt$hash` (base64url parts), salted with 16 random bytes. */
@@ -23,7 +28,10 @@ export async function verifyPassword(password: string, stored: string | null | u
   const [, n, r, p, saltB64, keyB64] = parts
   const expected = Buffer.from(keyB64, 'base64url')
   const key = await scryptAsync(password.normalize('NFKC'), Buffer.from(saltB64, 'base64url'), expected.length, {
-    N: Number(n), r: Number(r), p: Number(p), maxmem: MAXMEM,
+    N: Number(n),
+    r: Number(r),
+    p: Number(p),
+    maxmem: MAXMEM,
   })
   return key.length === expected.length && timingSafeEqual(key, expected)
 }

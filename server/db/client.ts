@@ -1,6 +1,5 @@
 import type { Pool } from 'mysql2/promise'
 import { drizzle } from 'drizzle-orm/mysql2'
-import type { MySqlTransaction } from 'drizzle-orm/mysql-core'
 import * as schema from './schema/index'
 import { createFailoverPool } from './failover-pool'
 import { withTxRetry } from './tx-retry'
@@ -8,7 +7,7 @@ import { withTxRetry } from './tx-retry'
 export type Db = ReturnType<typeof createDb>['db']
 
 /** A Drizzle handle that can run statements: the db itself or an open transaction. */
-export type DbOrTx = Db | MySqlTransaction<any, any, any, any>
+export type DbOrTx = Db | Parameters<Parameters<Db['transaction']>[0]>[0]
 
 /** A database that does not accept a connection within this is "down" (503), not a request that waits. */
 const CONNECT_TIMEOUT_MS = 3000
@@ -32,13 +31,24 @@ export interface DbOptions {
  * more than once.
  */
 export function createDb(url: string, connectionLimit = 10, opts: DbOptions = {}) {
-  const pool: Pool = createFailoverPool(url, { connectionLimit, connectTimeout: CONNECT_TIMEOUT_MS, timezone: 'Z', supportBigNumbers: true, dateStrings: false, trace: process.env.NODE_ENV !== 'production', syncWait: opts.syncWait })
+  const pool: Pool = createFailoverPool(url, {
+    connectionLimit,
+    connectTimeout: CONNECT_TIMEOUT_MS,
+    timezone: 'Z',
+    supportBigNumbers: true,
+    dateStrings: false,
+    trace: process.env.NODE_ENV !== 'production',
+    syncWait: opts.syncWait,
+  })
   const db = drizzle({ client: pool, schema, mode: 'planetscale' })
   const once = db.transaction.bind(db)
-  db.transaction = ((run, config) => withTxRetry((commitSent) => once(async (tx) => {
-    const result = await run(tx)
-    commitSent()
-    return result
-  }, config))) as typeof db.transaction
+  db.transaction = ((run, config) =>
+    withTxRetry((commitSent) =>
+      once(async (tx) => {
+        const result = await run(tx)
+        commitSent()
+        return result
+      }, config),
+    )) as typeof db.transaction
   return { pool, db }
 }

@@ -26,7 +26,19 @@ import { hostUrl, parseDatabaseUrl, type DbHost } from './url'
 export const DOWN_MS = 5000
 
 /** Errors that say "this node cannot serve now" rather than "this statement is wrong". */
-const NODE_FAULT_CODES = new Set(['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENETUNREACH', 'PROTOCOL_CONNECTION_LOST', 'PROTOCOL_SEQUENCE_TIMEOUT', 'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR', 'ER_SERVER_SHUTDOWN', 'WSREP_NOT_READY'])
+const NODE_FAULT_CODES = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'PROTOCOL_CONNECTION_LOST',
+  'PROTOCOL_SEQUENCE_TIMEOUT',
+  'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR',
+  'ER_SERVER_SHUTDOWN',
+  'WSREP_NOT_READY',
+])
 const NODE_FAULT_ERRNOS = new Set([1047, 1053, 2002, 2003, 2006, 2013])
 const CLOSED = /Pool is closed|connection is in closed state/
 
@@ -37,8 +49,9 @@ export function isNodeFault(err: unknown): boolean {
   return NODE_FAULT_CODES.has(e.code ?? '') || NODE_FAULT_ERRNOS.has(e.errno ?? 0) || CLOSED.test(e.message ?? '')
 }
 /** Refused before anything ran: safe to send again anywhere. */
-const isRefused = (err: unknown) => (err as Coded | undefined)?.errno === 1047 || (err as Coded | undefined)?.code === 'WSREP_NOT_READY'
-const sqlText = (q: unknown) => (typeof q === 'string' ? q : (q as { sql?: string } | undefined)?.sql ?? '')
+const isRefused = (err: unknown) =>
+  (err as Coded | undefined)?.errno === 1047 || (err as Coded | undefined)?.code === 'WSREP_NOT_READY'
+const sqlText = (q: unknown) => (typeof q === 'string' ? q : ((q as { sql?: string } | undefined)?.sql ?? ''))
 const isRead = (q: unknown) => /^\s*(\(\s*)?(select|show)\b/i.test(sqlText(q))
 
 export interface FailoverOptions extends Omit<PoolOptions, 'uri' | 'host' | 'port'> {
@@ -72,10 +85,14 @@ export class FailoverPool {
     return [...idx.filter((i) => this.downUntil[i] <= now), ...idx.filter((i) => this.downUntil[i] > now)]
   }
 
-  private markDown(i: number) { this.downUntil[i] = Date.now() + DOWN_MS }
+  private markDown(i: number) {
+    this.downUntil[i] = Date.now() + DOWN_MS
+  }
 
   /** Which host a new connection would go to now (for logs and tests). */
-  currentHost(): DbHost { return this.hosts[this.order()[0]] }
+  currentHost(): DbHost {
+    return this.hosts[this.order()[0]]
+  }
 
   /** Check a new connection once (Galera: ready, causal reads). Throws when the node cannot serve. */
   private async prepare(i: number, conn: PoolConnection): Promise<void> {
@@ -91,17 +108,29 @@ export class FailoverPool {
     if (wsrepOn) {
       // SHOW answers also on a node that is not ready (it refuses most other statements).
       const [status] = (await conn.query("SHOW STATUS LIKE 'wsrep_ready'")) as unknown as [{ Value: string }[]]
-      if (status[0]?.Value !== 'ON') throw Object.assign(new Error(`Galera node ${this.hosts[i].host}:${this.hosts[i].port} is not ready (wsrep_ready=${status[0]?.Value ?? '?'})`), { code: 'WSREP_NOT_READY', errno: 1047 })
+      if (status[0]?.Value !== 'ON')
+        throw Object.assign(
+          new Error(
+            `Galera node ${this.hosts[i].host}:${this.hosts[i].port} is not ready (wsrep_ready=${status[0]?.Value ?? '?'})`,
+          ),
+          { code: 'WSREP_NOT_READY', errno: 1047 },
+        )
       await conn.query(`SET SESSION wsrep_sync_wait = ${Math.max(0, Math.min(15, Math.trunc(this.syncWait)))}`)
     }
     this.prepared.add(conn.connection)
   }
 
-  /** Mark the host down when a statement on its connection shows a node fault; a refused connection is dropped, not reused. */
+  /**
+   * Mark the host down when a statement on its connection shows a node fault; a refused connection is dropped, not
+   * reused.
+   */
   private watch(i: number, conn: PoolConnection): PoolConnection {
     let refused = false
     const seen = (err: unknown) => {
-      if (isNodeFault(err)) { this.markDown(i); if (isRefused(err)) refused = true }
+      if (isNodeFault(err)) {
+        this.markDown(i)
+        if (isRefused(err)) refused = true
+      }
       throw err
     }
     const query = conn.query.bind(conn) as (...a: unknown[]) => Promise<unknown>
@@ -119,8 +148,21 @@ export class FailoverPool {
     let last: unknown
     for (const i of this.order()) {
       let conn: PoolConnection
-      try { conn = await this.pools[i].getConnection() } catch (err) { last = err; this.markDown(i); continue }
-      try { await this.prepare(i, conn) } catch (err) { conn.destroy(); last = err; this.markDown(i); continue }
+      try {
+        conn = await this.pools[i].getConnection()
+      } catch (err) {
+        last = err
+        this.markDown(i)
+        continue
+      }
+      try {
+        await this.prepare(i, conn)
+      } catch (err) {
+        conn.destroy()
+        last = err
+        this.markDown(i)
+        continue
+      }
       this.downUntil[i] = 0
       this.hostOfConn.set(conn.connection, this.hosts[i])
       return this.watch(i, conn)
@@ -134,7 +176,8 @@ export class FailoverPool {
       try {
         return await (conn[how] as (...a: unknown[]) => Promise<unknown>)(...args)
       } catch (err) {
-        if (attempt === 0 && this.hosts.length > 1 && (isRefused(err) || (isNodeFault(err) && isRead(args[0])))) continue
+        if (attempt === 0 && this.hosts.length > 1 && (isRefused(err) || (isNodeFault(err) && isRead(args[0]))))
+          continue
         throw err
       } finally {
         conn.release()
@@ -153,14 +196,22 @@ export class FailoverPool {
     try {
       const i = this.hosts.findIndex((h) => h === this.hostOf(conn))
       await conn.query(this.galera[i] ? 'SET STATEMENT wsrep_sync_wait = 0 FOR SELECT 1' : 'SELECT 1')
-    } finally { conn.release() }
+    } finally {
+      conn.release()
+    }
   }
 
   private readonly hostOfConn = new WeakMap<object, DbHost>()
-  private hostOf(conn: PoolConnection): DbHost | undefined { return this.hostOfConn.get(conn.connection) }
+  private hostOf(conn: PoolConnection): DbHost | undefined {
+    return this.hostOfConn.get(conn.connection)
+  }
 
-  query(...args: unknown[]) { return this.send('query', args) }
-  execute(...args: unknown[]) { return this.send('execute', args) }
+  query(...args: unknown[]) {
+    return this.send('query', args)
+  }
+  execute(...args: unknown[]) {
+    return this.send('execute', args)
+  }
 
   async end(): Promise<void> {
     await Promise.all(this.pools.map((p) => p.end()))
@@ -168,7 +219,8 @@ export class FailoverPool {
 
   /** mysql2's Pool emits connection events; listeners are put on every host's pool. */
   on(event: string, listener: (...a: unknown[]) => void): this {
-    for (const p of this.pools) (p as unknown as { on: (e: string, l: (...a: unknown[]) => void) => void }).on(event, listener)
+    for (const p of this.pools)
+      (p as unknown as { on: (e: string, l: (...a: unknown[]) => void) => void }).on(event, listener)
     return this
   }
 }

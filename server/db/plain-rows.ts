@@ -6,7 +6,11 @@ type Field = Column | SQL | SQL.Aliased
 type Built = { toSQL(): { sql: string; params: unknown[] } }
 type ColumnMeta = { name: string; columnType?: number; extendedFormat?: string }
 /** What plainRows needs of a field list, made once (list pages pass the same module-level object every time). */
-interface Prepared { aliased: Record<string, SQL.Aliased>; jsonKeys: string[]; boolKeys: string[] }
+interface Prepared {
+  aliased: Record<string, SQL.Aliased>
+  jsonKeys: string[]
+  boolKeys: string[]
+}
 const prepared = new WeakMap<object, Prepared>()
 
 function prepare(fields: Record<string, Field>): Prepared {
@@ -14,7 +18,11 @@ function prepare(fields: Record<string, Field>): Prepared {
   if (!p) {
     const keys = Object.keys(fields)
     const ofType = (t: string) => keys.filter((k) => is(fields[k], Column) && (fields[k] as Column).columnType === t)
-    p = { aliased: Object.fromEntries(keys.map((k) => [k, sql`${fields[k]}`.as(k)])), jsonKeys: ofType('MySqlJson'), boolKeys: ofType('MySqlBoolean') }
+    p = {
+      aliased: Object.fromEntries(keys.map((k) => [k, sql`${fields[k]}`.as(k)])),
+      jsonKeys: ofType('MySqlJson'),
+      boolKeys: ofType('MySqlBoolean'),
+    }
     prepared.set(fields, p)
   }
   return p
@@ -34,7 +42,12 @@ function prepare(fields: Record<string, Field>): Prepared {
  * scripts/lib.sh). The cache drops a result at the commit of any write to a table the query reads,
  * so an answer is never stale; where the cache is off the hint is ignored.
  */
-export async function plainRows<F extends Record<string, Field>>(db: Db, fields: F, build: (aliased: Record<keyof F, SQL.Aliased>) => Built, opts: { cache?: boolean } = {}): Promise<SelectResultFields<F>[]> {
+export async function plainRows<F extends Record<string, Field>>(
+  db: Db,
+  fields: F,
+  build: (aliased: Record<keyof F, SQL.Aliased>) => Built,
+  opts: { cache?: boolean } = {},
+): Promise<SelectResultFields<F>[]> {
   const { aliased, jsonKeys, boolKeys } = prepare(fields)
   const built = build(aliased as Record<keyof F, SQL.Aliased>).toSQL()
   const text = opts.cache ? built.sql.replace(/^select /, 'select SQL_CACHE ') : built.sql
@@ -42,7 +55,9 @@ export async function plainRows<F extends Record<string, Field>>(db: Db, fields:
   const [rows, meta] = (await db.$client.query(text, params)) as unknown as [Record<string, unknown>[], ColumnMeta[]]
   // mysql2 decodes JSON itself where the server says a value is JSON (MySQL's JSON type, MariaDB's
   // extended metadata); only a JSON column that still arrives as text is parsed here.
-  const decoded = jsonKeys.length ? new Set(meta.filter((f) => f.columnType === 245 || f.extendedFormat === 'json').map((f) => f.name)) : null
+  const decoded = jsonKeys.length
+    ? new Set(meta.filter((f) => f.columnType === 245 || f.extendedFormat === 'json').map((f) => f.name))
+    : null
   const json = decoded ? jsonKeys.filter((k) => !decoded.has(k)) : jsonKeys
   if (json.length || boolKeys.length) {
     for (const r of rows) {

@@ -25,7 +25,12 @@ type Coded = { code?: string; errno?: number; cause?: unknown; message?: string 
 /** The mysql2 errors in `err` (Drizzle wraps them as `cause`). */
 function chain(err: unknown): Coded[] {
   const out: Coded[] = []
-  for (let e = err as Coded | undefined, i = 0; e && typeof e === 'object' && i < 5; e = e.cause as Coded | undefined, i++) out.push(e)
+  for (
+    let e = err as Coded | undefined, i = 0;
+    e && typeof e === 'object' && i < 5;
+    e = e.cause as Coded | undefined, i++
+  )
+    out.push(e)
   return out
 }
 
@@ -37,17 +42,23 @@ export function isRetryableTxError(err: unknown, commitSent: boolean): boolean {
 }
 
 /** Jittered exponential back-off, at most 500 ms a pause (all eight attempts: about 1–2 s). */
-const pause = (attempt: number) => new Promise((r) => setTimeout(r, Math.round(Math.min(500, (5 + Math.random() * 20) * 2 ** attempt))))
+const pause = (attempt: number) =>
+  new Promise((r) => setTimeout(r, Math.round(Math.min(500, (5 + Math.random() * 20) * 2 ** attempt))))
 
 /**
  * Run `attempt` (one whole transaction) until it commits, at most TX_ATTEMPTS times. `attempt`
  * gets `commitSent`, to call after its own work and before the COMMIT goes out.
  */
-export async function withTxRetry<T>(attempt: (commitSent: () => void) => Promise<T>, attempts = TX_ATTEMPTS): Promise<T> {
+export async function withTxRetry<T>(
+  attempt: (commitSent: () => void) => Promise<T>,
+  attempts = TX_ATTEMPTS,
+): Promise<T> {
   for (let i = 1; ; i++) {
     let sent = false
     try {
-      return await attempt(() => { sent = true })
+      return await attempt(() => {
+        sent = true
+      })
     } catch (err) {
       if (i >= attempts || !isRetryableTxError(err, sent)) throw err
       await pause(i)

@@ -3,7 +3,10 @@
  * The app connects to the first host that answers and moves to the next when it fails (see
  * failover-pool.ts); with one host it is the ordinary mysql2 URL.
  */
-export interface DbHost { host: string; port: number }
+export interface DbHost {
+  host: string
+  port: number
+}
 export interface DatabaseUrl {
   hosts: DbHost[]
   /** `user:password` as written (still percent-encoded). */
@@ -23,7 +26,8 @@ export function parseDatabaseUrl(url: string): DatabaseUrl {
     const hp = /^(\[[0-9a-fA-F:.]+\]|[^:[\]]+)(?::(\d+))?$/.exec(part.trim())
     if (!hp) throw new Error(`DATABASE_URL: "${part}" is not a host[:port]`)
     const port = hp[2] === undefined ? 3306 : Number(hp[2])
-    if (!Number.isInteger(port) || port < 1 || port > 65535) throw new Error(`DATABASE_URL: port of "${part}" must be 1–65535`)
+    if (!Number.isInteger(port) || port < 1 || port > 65535)
+      throw new Error(`DATABASE_URL: port of "${part}" must be 1–65535`)
     return { host: hp[1], port }
   })
   const database = decodeURIComponent(m[3] ?? '')

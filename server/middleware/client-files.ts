@@ -10,23 +10,37 @@ import path from 'node:path'
  * and `Vary: Accept-Encoding` tells caches that the answer depends on that header. Any other GET
  * that is not an API route gets index.html (the client's router takes it from there).
  */
-const ENCODINGS = [['br', '.br'], ['gzip', '.gz']] as const
+const ENCODINGS = [
+  ['br', '.br'],
+  ['gzip', '.gz'],
+] as const
 type Encoding = (typeof ENCODINGS)[number][0]
 
 const TYPES: Record<string, string> = {
-  '.js': 'text/javascript; charset=utf-8', '.mjs': 'text/javascript; charset=utf-8', '.css': 'text/css; charset=utf-8',
-  '.html': 'text/html; charset=utf-8', '.svg': 'image/svg+xml', '.json': 'application/json; charset=utf-8', '.txt': 'text/plain; charset=utf-8',
+  '.js': 'text/javascript; charset=utf-8',
+  '.mjs': 'text/javascript; charset=utf-8',
+  '.css': 'text/css; charset=utf-8',
+  '.html': 'text/html; charset=utf-8',
+  '.svg': 'image/svg+xml',
+  '.json': 'application/json; charset=utf-8',
+  '.txt': 'text/plain; charset=utf-8',
 }
 
 export const IMMUTABLE = 'public, max-age=31536000, immutable'
 
-/** `/assets/x.js` → the encodings it has a precompressed copy in; read once, the build does not change under a running server. */
+/**
+ * `/assets/x.js` → the encodings it has a precompressed copy in; read once, the build does not change under a running
+ * server.
+ */
 function findVariants(dir: string): Map<string, Set<Encoding>> {
   const found = new Map<string, Set<Encoding>>()
   const walk = (sub: string) => {
     for (const entry of fs.readdirSync(path.join(dir, sub), { withFileTypes: true })) {
       const rel = `${sub}/${entry.name}`
-      if (entry.isDirectory()) { walk(rel); continue }
+      if (entry.isDirectory()) {
+        walk(rel)
+        continue
+      }
       for (const [encoding, ext] of ENCODINGS) {
         if (!rel.endsWith(ext)) continue
         const original = rel.slice(0, -ext.length)
@@ -63,17 +77,30 @@ export function clientFiles(dir: string): RequestHandler {
   const send: (rel: string) => RequestHandler = (rel) => (req, res, next) => {
     const has = variants.get(rel)
     // Our order (brotli is smaller), among what the request accepts (q > 0).
-    const ext = has ? ENCODINGS.find(([e]) => has.has(e) && req.acceptsEncodings(e) === e)?.[1] ?? '' : ''
+    const ext = has ? (ENCODINGS.find(([e]) => has.has(e) && req.acceptsEncodings(e) === e)?.[1] ?? '') : ''
     const url = req.url
     req.url = encodeURI(rel + ext)
-    serve(req, res, (err?: unknown) => { req.url = url; next(err) })
+    serve(req, res, (err?: unknown) => {
+      req.url = url
+      next(err)
+    })
   }
-  const isFile = (rel: string) => { try { return fs.statSync(path.join(dir, rel)).isFile() } catch { return false } }
+  const isFile = (rel: string) => {
+    try {
+      return fs.statSync(path.join(dir, rel)).isFile()
+    } catch {
+      return false
+    }
+  }
 
   return (req, res, next) => {
     if (req.method !== 'GET' && req.method !== 'HEAD') return next()
     let rel: string
-    try { rel = decodeURIComponent(req.path) } catch { return next() }
+    try {
+      rel = decodeURIComponent(req.path)
+    } catch {
+      return next()
+    }
     if (rel.includes('\0') || rel.split('/').includes('..')) return next()
     if (rel !== '/index.html' && isFile(rel)) return send(rel)(req, res, next)
     if (rel.startsWith('/assets/')) return next() // a missing hashed file is a 404, not the page

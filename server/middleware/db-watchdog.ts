@@ -18,28 +18,48 @@ import type { ApiErrorBody } from '../../shared/types'
 export const CHECK_AFTER_MS = 2000
 export const PROBE_TIMEOUT_MS = 1500
 
-export const DB_UNAVAILABLE_MESSAGE = 'The database is not answering right now, so this could not be done. Try again in a minute; if you were saving something, reload the page afterwards to see whether it was saved.'
+export const DB_UNAVAILABLE_MESSAGE =
+  'The database is not answering right now, so this could not be done. Try again in a minute; if you were saving something, reload the page afterwards to see whether it was saved.'
 
 export class DbMonitor {
   private inflight: Promise<boolean> | null = null
   private last = { at: 0, isUp: true }
-  constructor(private readonly pool: Pool, private readonly timeoutMs = PROBE_TIMEOUT_MS) {}
+  constructor(
+    private readonly pool: Pool,
+    private readonly timeoutMs = PROBE_TIMEOUT_MS,
+  ) {}
 
   /** Does the database answer? One probe at a time; an answer younger than `maxAgeMs` is reused. */
   isUp(maxAgeMs = 500): Promise<boolean> {
     if (Date.now() - this.last.at < maxAgeMs) return Promise.resolve(this.last.isUp)
-    this.inflight ??= this.probe().then((isUp) => { this.last = { at: Date.now(), isUp }; this.inflight = null; return isUp })
+    this.inflight ??= this.probe().then((isUp) => {
+      this.last = { at: Date.now(), isUp }
+      this.inflight = null
+      return isUp
+    })
     return this.inflight
   }
 
   private async probe(): Promise<boolean> {
     let timer: NodeJS.Timeout | undefined
-    const timeout = new Promise<false>((resolve) => { timer = setTimeout(() => resolve(false), this.timeoutMs) })
+    const timeout = new Promise<false>((resolve) => {
+      timer = setTimeout(() => resolve(false), this.timeoutMs)
+    })
     try {
       // The failover pool's ping skips Galera's causal wait (server/db/failover-pool.ts).
-      const ping = (this.pool as Pool & { ping?: () => Promise<void> }).ping?.bind(this.pool) ?? (() => this.pool.query('SELECT 1'))
-      return await Promise.race([ping().then(() => true, () => false), timeout])
-    } finally { clearTimeout(timer) }
+      const ping =
+        (this.pool as Pool & { ping?: () => Promise<void> }).ping?.bind(this.pool) ??
+        (() => this.pool.query('SELECT 1'))
+      return await Promise.race([
+        ping().then(
+          () => true,
+          () => false,
+        ),
+        timeout,
+      ])
+    } finally {
+      clearTimeout(timer)
+    }
   }
 }
 
@@ -61,11 +81,16 @@ export function dbWatchdog(pool: Pool, checkAfterMs = CHECK_AFTER_MS): RequestHa
     let timer: NodeJS.Timeout | undefined
     const check = async () => {
       if (res.headersSent || res.writableEnded) return
-      if (await monitor.isUp()) { timer = setTimeout(check, checkAfterMs); return }
+      if (await monitor.isUp()) {
+        timer = setTimeout(check, checkAfterMs)
+        return
+      }
       if (res.headersSent) return
       const body: ApiErrorBody = { error: 'unavailable', message: DB_UNAVAILABLE_MESSAGE, requestId: req.id }
       res.locals.isAnsweredByWatchdog = true
-      res.status(503).set({ 'Retry-After': '30', 'Content-Type': 'application/json; charset=utf-8', 'Cache-Control': 'no-store' })
+      res
+        .status(503)
+        .set({ 'Retry-After': '30', 'Content-Type': 'application/json; charset=utf-8', 'Cache-Control': 'no-store' })
       rawEnd(JSON.stringify(body))
     }
     timer = setTimeout(check, checkAfterMs)

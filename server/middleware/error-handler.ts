@@ -22,8 +22,13 @@ type DbError = { code?: string; errno?: number; sqlMessage?: string; message?: s
 
 /** The mysql2 error behind `err` (Drizzle wraps it as `cause`), if there is one. */
 export function dbErrorOf(err: unknown): DbError | null {
-  for (let e = err as DbError | undefined, i = 0; e && typeof e === 'object' && i < 5; e = e.cause as DbError | undefined, i++) {
-    if (typeof e.errno === 'number' || (typeof e.code === 'string' && /^(ER_|PROTOCOL_|E[A-Z]+$)/.test(e.code))) return e
+  for (
+    let e = err as DbError | undefined, i = 0;
+    e && typeof e === 'object' && i < 5;
+    e = e.cause as DbError | undefined, i++
+  ) {
+    if (typeof e.errno === 'number' || (typeof e.code === 'string' && /^(ER_|PROTOCOL_|E[A-Z]+$)/.test(e.code)))
+      return e
   }
   return null
 }
@@ -33,11 +38,26 @@ export function dbErrorOf(err: unknown): DbError | null {
  * frozen (a query timed out), out of connections. Answered 503 (try again), not 500.
  */
 const UNAVAILABLE_CODES = new Set([
-  'ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENETUNREACH', 'ENOTFOUND', 'EAI_AGAIN',
-  'PROTOCOL_CONNECTION_LOST', 'PROTOCOL_SEQUENCE_TIMEOUT', 'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR', 'PROTOCOL_ENQUEUE_AFTER_QUIT',
-  'ER_CON_COUNT_ERROR', 'ER_TOO_MANY_USER_CONNECTIONS', 'ER_SERVER_SHUTDOWN', 'ER_LOCK_WAIT_TIMEOUT', 'ER_QUERY_INTERRUPTED',
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  'EHOSTUNREACH',
+  'ENETUNREACH',
+  'ENOTFOUND',
+  'EAI_AGAIN',
+  'PROTOCOL_CONNECTION_LOST',
+  'PROTOCOL_SEQUENCE_TIMEOUT',
+  'PROTOCOL_ENQUEUE_AFTER_FATAL_ERROR',
+  'PROTOCOL_ENQUEUE_AFTER_QUIT',
+  'ER_CON_COUNT_ERROR',
+  'ER_TOO_MANY_USER_CONNECTIONS',
+  'ER_SERVER_SHUTDOWN',
+  'ER_LOCK_WAIT_TIMEOUT',
+  'ER_QUERY_INTERRUPTED',
   // still refused after the transaction retries (server/db/tx-retry.ts): busy rows, or a Galera node not ready
-  'ER_LOCK_DEADLOCK', 'WSREP_NOT_READY',
+  'ER_LOCK_DEADLOCK',
+  'WSREP_NOT_READY',
 ])
 const UNAVAILABLE_ERRNOS = new Set([1040, 1203, 1053, 1205, 1213, 1047, 1317, 2002, 2003, 2006, 2013])
 export function isDbUnavailable(err: unknown): boolean {
@@ -50,9 +70,12 @@ export function isDbUnavailable(err: unknown): boolean {
 
 /** Unique indexes over several columns, and the form field each one is about. */
 const INDEX_FIELDS: Record<string, string> = {
-  chips_wafer_index_uq: 'index', arrays_chip_position_uq: 'position', notice_log_key_uq: 'noticeKey',
+  chips_wafer_index_uq: 'index',
+  arrays_chip_position_uq: 'position',
+  notice_log_key_uq: 'noticeKey',
 }
-const TABLE_PREFIX = /^(materials|locations|wafers|chips|arrays|laser_setups|measurement_sessions|users|invitations|label_jobs|files)_/
+const TABLE_PREFIX =
+  /^(materials|locations|wafers|chips|arrays|laser_setups|measurement_sessions|users|invitations|label_jobs|files)_/
 const camel = (s: string) => s.replace(/_([a-z])/g, (_m, c: string) => c.toUpperCase())
 
 /**
@@ -71,7 +94,11 @@ export function duplicateKeyBody(e: DbError): ApiErrorBody {
 }
 
 export const apiNotFound: RequestHandler = (req, res) => {
-  const body: ApiErrorBody = { error: 'not_found', message: `No API route ${req.method} ${req.path}`, requestId: req.id }
+  const body: ApiErrorBody = {
+    error: 'not_found',
+    message: `No API route ${req.method} ${req.path}`,
+    requestId: req.id,
+  }
   res.status(404).json(body)
 }
 
@@ -100,11 +127,22 @@ export function errorHandler(log: Logger): ErrorRequestHandler {
     } else if (err instanceof EngineError) {
       status = 400
       body = { error: 'bad_request', message: err.message, fields: { [err.field || '_']: [err.message] } }
-    } else if (err && typeof err === 'object' && 'type' in err && (err as { type: string }).type === 'entity.parse.failed') {
+    } else if (
+      err &&
+      typeof err === 'object' &&
+      'type' in err &&
+      (err as { type: string }).type === 'entity.parse.failed'
+    ) {
       status = 400
       body = { error: 'bad_request', message: 'The request body is not valid JSON.' }
-    } else if (err && typeof err === 'object' && 'status' in err && typeof (err as { status: unknown }).status === 'number'
-      && (err as { status: number }).status >= 400 && (err as { status: number }).status < 500) {
+    } else if (
+      err &&
+      typeof err === 'object' &&
+      'status' in err &&
+      typeof (err as { status: unknown }).status === 'number' &&
+      (err as { status: number }).status >= 400 &&
+      (err as { status: number }).status < 500
+    ) {
       status = (err as { status: number }).status
       body = { error: 'bad_request', message: (err as Error).message || 'Bad request' }
     } else {

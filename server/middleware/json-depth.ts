@@ -22,8 +22,12 @@ export function jsonDepth(buf: Uint8Array, limit = Infinity): number {
       if (c === BACKSLASH) i++
       else if (c === QUOTE) inString = false
     } else if (c === QUOTE) inString = true
-    else if (OPEN.has(c)) { if (++depth > max) { max = depth; if (max > limit) return max } }
-    else if (CLOSE.has(c)) depth--
+    else if (OPEN.has(c)) {
+      if (++depth > max) {
+        max = depth
+        if (max > limit) return max
+      }
+    } else if (CLOSE.has(c)) depth--
   }
   return max
 }
@@ -31,6 +35,11 @@ export function jsonDepth(buf: Uint8Array, limit = Infinity): number {
 /** `express.json({ verify })`: refuse a body nested deeper than MAX_JSON_DEPTH with a 400. */
 export function refuseDeepJson(_req: unknown, _res: unknown, buf: Buffer): void {
   if (jsonDepth(buf, MAX_JSON_DEPTH) > MAX_JSON_DEPTH) {
-    throw Object.assign(new Error(`The request body is nested too deeply: at most ${MAX_JSON_DEPTH} levels of arrays and objects are accepted.`), { status: 400, expose: true })
+    throw Object.assign(
+      new Error(
+        `The request body is nested too deeply: at most ${MAX_JSON_DEPTH} levels of arrays and objects are accepted.`,
+      ),
+      { status: 400, expose: true },
+    )
   }
 }

@@ -15,7 +15,11 @@ export const originCheck: RequestHandler = (req, _res, next) => {
   const origin = req.get('origin')
   if (origin && origin !== 'null') {
     let host: string
-    try { host = new URL(origin).host } catch { return next(new ForbiddenError('Cross-site request refused.')) }
+    try {
+      host = new URL(origin).host
+    } catch {
+      return next(new ForbiddenError('Cross-site request refused.'))
+    }
     if (host !== req.get('host')) return next(new ForbiddenError('Cross-site request refused.'))
   } else if (origin === 'null') {
     return next(new ForbiddenError('Cross-site request refused.'))

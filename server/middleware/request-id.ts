@@ -2,7 +2,9 @@ import { randomUUID } from 'node:crypto'
 import type { RequestHandler } from 'express'
 
 declare module 'express-serve-static-core' {
-  interface Request { id: string }
+  interface Request {
+    id: string
+  }
 }
 
 /** Give every request an id, echoed in `X-Request-Id` and in error bodies and logs. */

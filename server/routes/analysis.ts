@@ -1,11 +1,23 @@
 import { Router } from 'express'
 import { idParamSchema } from '../../shared/schemas/auth'
-import { barePatternSchema, fitRequestSchema, patternQuerySchema, spectrumRequestSchema } from '../../shared/schemas/analysis'
+import {
+  barePatternSchema,
+  fitRequestSchema,
+  patternQuerySchema,
+  spectrumRequestSchema,
+} from '../../shared/schemas/analysis'
 import type { AppContext } from '../context'
 import { parse } from '../middleware/validate'
 import { currentUser, requireAbility } from '../auth/guards'
 import { createFileStorage } from '../services/files/create-storage'
-import { arrayPattern, barePattern, chipPattern, fitSession, listSessionAnalyses, spectrumSession } from '../services/analysis/analysis'
+import {
+  arrayPattern,
+  barePattern,
+  chipPattern,
+  fitSession,
+  listSessionAnalyses,
+  spectrumSession,
+} from '../services/analysis/analysis'
 import { sheetSessions } from '../services/analysis/analysis-sheet'
 
 /**

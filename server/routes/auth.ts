@@ -27,8 +27,12 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
     skipSuccessfulRequests: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '').toLowerCase().slice(0, 190)}`,
-    handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts', 'Too many failed sign-ins. Wait ten minutes and try again.')),
+    keyGenerator: (req) =>
+      `${ipKeyGenerator(req.ip ?? '')}|${String(req.body?.email ?? '')
+        .toLowerCase()
+        .slice(0, 190)}`,
+    handler: (_req, _res, next) =>
+      next(new AppError(429, 'too_many_attempts', 'Too many failed sign-ins. Wait ten minutes and try again.')),
   })
 
   // Failed sign-ins per account from any address (guesses spread over many addresses): twice the
@@ -40,9 +44,18 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
     skipSuccessfulRequests: true,
     standardHeaders: 'draft-8',
     legacyHeaders: false,
-    keyGenerator: (req) => String(req.body?.email ?? '').toLowerCase().slice(0, 190),
-    handler: (_req, _res, next) => next(new AppError(429, 'too_many_attempts',
-      `Too many failed sign-ins for this account. Wait ${ACCOUNT_WINDOW_MIN} minutes and try again; if it was not you, tell your administrator.`)),
+    keyGenerator: (req) =>
+      String(req.body?.email ?? '')
+        .toLowerCase()
+        .slice(0, 190),
+    handler: (_req, _res, next) =>
+      next(
+        new AppError(
+          429,
+          'too_many_attempts',
+          `Too many failed sign-ins for this account. Wait ${ACCOUNT_WINDOW_MIN} minutes and try again; if it was not you, tell your administrator.`,
+        ),
+      ),
   })
 
   r.post('/login', loginLimiter, accountLimiter, (req, res, next) => {
@@ -58,11 +71,16 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
   r.post('/logout', (req, res, next) => {
     req.logout((err) => {
       if (err) return next(err)
-      req.session.destroy(() => { res.clearCookie('sid'); res.status(204).end() })
+      req.session.destroy(() => {
+        res.clearCookie('sid')
+        res.status(204).end()
+      })
     })
   })
 
-  r.get('/me', requireUser, (req, res) => { res.json({ user: toPublicUser(currentUser(req)) }) })
+  r.get('/me', requireUser, (req, res) => {
+    res.json({ user: toPublicUser(currentUser(req)) })
+  })
 
   r.post('/password', requireUser, async (req, res) => {
     const input = parse(changePasswordSchema, req.body)
@@ -70,7 +88,9 @@ export function authRoutes(ctx: AppContext, pp: passport.PassportStatic): Router
     res.status(204).end()
   })
 
-  r.get('/preferences', requireUser, async (req, res) => { res.json(await getPreferences(ctx.db, currentUser(req).id)) })
+  r.get('/preferences', requireUser, async (req, res) => {
+    res.json(await getPreferences(ctx.db, currentUser(req).id))
+  })
 
   r.patch('/preferences', requireUser, async (req, res) => {
     res.json(await setPreferences(ctx.db, currentUser(req).id, parse(preferencesSchema, req.body)))

@@ -15,16 +15,29 @@ export function healthRoutes(ctx: AppContext): Router {
   const files = createFileStorage(ctx.env.DATA_DIR, ctx.env)
   r.get('/', async (_req, res) => {
     const [isDbUp, isMailUp, storageProblem] = await Promise.all([
-      dbMonitorOf(ctx.pool).isUp(0), ctx.mailUp().catch(() => false),
-      files.checkWritable ? files.checkWritable().then(() => null, (err: unknown) => storageFailure(err).message) : null,
+      dbMonitorOf(ctx.pool).isUp(0),
+      ctx.mailUp().catch(() => false),
+      files.checkWritable
+        ? files.checkWritable().then(
+            () => null,
+            (err: unknown) => storageFailure(err).message,
+          )
+        : null,
     ])
     const problems = [...(isDbUp ? [] : ['The database does not answer.']), ...(storageProblem ? [storageProblem] : [])]
     const body: HealthStatus = {
-      status: problems.length ? 'degraded' : 'ok', database: isDbUp ? 'up' : 'down', mail: isMailUp ? 'up' : 'down', storage: storageProblem ? 'down' : 'up',
+      status: problems.length ? 'degraded' : 'ok',
+      database: isDbUp ? 'up' : 'down',
+      mail: isMailUp ? 'up' : 'down',
+      storage: storageProblem ? 'down' : 'up',
       ...(problems.length ? { message: problems.join(' ') } : {}),
-      uptimeS: Math.round((Date.now() - ctx.startedAt) / 1000), version: process.env.npm_package_version ?? '0.1.0',
+      uptimeS: Math.round((Date.now() - ctx.startedAt) / 1000),
+      version: process.env.npm_package_version ?? '0.1.0',
     }
-    res.status(isDbUp ? 200 : 503).set('Cache-Control', 'no-store').json(body)
+    res
+      .status(isDbUp ? 200 : 503)
+      .set('Cache-Control', 'no-store')
+      .json(body)
   })
   return r
 }

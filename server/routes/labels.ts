@@ -26,12 +26,16 @@ export function labelRoutes(ctx: AppContext): Router {
   // One label as an SVG file at its physical size (e.g. /api/labels/chip-box/C-0001-01.svg).
   r.get('/:template/:code.svg', requireAbility('read', 'Label'), async (req, res) => {
     const { template, code } = parse(downloadParams, req.params)
-    const { labels: [label] } = await renderLabels(ctx.db, ctx.publicUrl, { template, codes: [code], skip: 0 })
-    res.set({
-      'Content-Type': 'image/svg+xml; charset=utf-8',
-      'Content-Disposition': `attachment; filename="${label.code}-${template}.svg"`,
-      'X-Content-Type-Options': 'nosniff',
-    }).send(label.svg)
+    const {
+      labels: [label],
+    } = await renderLabels(ctx.db, ctx.publicUrl, { template, codes: [code], skip: 0 })
+    res
+      .set({
+        'Content-Type': 'image/svg+xml; charset=utf-8',
+        'Content-Disposition': `attachment; filename="${label.code}-${template}.svg"`,
+        'X-Content-Type-Options': 'nosniff',
+      })
+      .send(label.svg)
   })
   return r
 }

@@ -17,8 +17,12 @@ export function mailRoutes(ctx: AppContext): Router {
     res.status(201).json({ isSent, recipients, since, until })
   })
   r.use(requireAbility('read', 'Mail'))
-  r.get('/', async (_req, res) => { res.json({ messages: await listReceived(ctx.db) }) })
-  r.get('/queue', async (_req, res) => { res.json({ queue: await listQueue(ctx.db) }) })
+  r.get('/', async (_req, res) => {
+    res.json({ messages: await listReceived(ctx.db) })
+  })
+  r.get('/queue', async (_req, res) => {
+    res.json({ queue: await listQueue(ctx.db) })
+  })
   r.get('/:id', async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
     const msg = await getReceived(ctx.db, id)

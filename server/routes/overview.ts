@@ -10,7 +10,10 @@ import { overviewFor } from '../services/home/overview'
 export function overviewRoutes(ctx: AppContext): Router {
   const r = Router()
   r.get('/', requireUser, async (req, res) => {
-    const body = await overviewFor(ctx.db, currentUser(req), { dataDir: ctx.env.DATA_DIR, storageKind: ctx.env.FILE_STORAGE })
+    const body = await overviewFor(ctx.db, currentUser(req), {
+      dataDir: ctx.env.DATA_DIR,
+      storageKind: ctx.env.FILE_STORAGE,
+    })
     res.set('Cache-Control', 'no-store').json(body)
   })
   return r

@@ -14,11 +14,19 @@ export function searchRoutes(ctx: AppContext): Router {
   r.get('/', requireUser, async (req, res) => {
     const { q } = parse(searchQuerySchema, req.query)
     const [records, people] = await Promise.all([searchRecords(ctx.db, q), searchUsers(ctx.db, q)])
-    const hits: SearchHit[] = [...records, ...people.map((p) => ({
-      kind: 'person', id: p.id, label: p.name,
-      detail: `${p.email} · ${p.roles.map((x) => ROLE_LABELS[x]).join(', ')}${p.active ? '' : ' · deactivated'}`,
-      to: `/people?focus=${p.id}`,
-    }) as SearchHit)]
+    const hits: SearchHit[] = [
+      ...records,
+      ...people.map(
+        (p) =>
+          ({
+            kind: 'person',
+            id: p.id,
+            label: p.name,
+            detail: `${p.email} · ${p.roles.map((x) => ROLE_LABELS[x]).join(', ')}${p.active ? '' : ' · deactivated'}`,
+            to: `/people?focus=${p.id}`,
+          }) as SearchHit,
+      ),
+    ]
     res.json({ hits })
   })
   return r

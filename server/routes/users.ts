@@ -26,7 +26,13 @@ export function userRoutes(ctx: AppContext): Router {
   })
   r.post('/:id/password-reset', requireAbility('manage', 'User'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
-    await sendPasswordReset(ctx.db, currentUser(req), id, parse(accountActionSchema, req.body ?? {}).reason, ctx.publicUrl)
+    await sendPasswordReset(
+      ctx.db,
+      currentUser(req),
+      id,
+      parse(accountActionSchema, req.body ?? {}).reason,
+      ctx.publicUrl,
+    )
     res.status(204).end()
   })
   return r

@@ -2,7 +2,10 @@ import { createDb } from '../db/client'
 import { applyMigrations } from '../db/migrate'
 
 const url = process.env.DATABASE_URL
-if (!url) { console.error('DATABASE_URL is not set'); process.exit(2) }
+if (!url) {
+  console.error('DATABASE_URL is not set')
+  process.exit(2)
+}
 const { pool, db } = createDb(url, 2)
 try {
   await applyMigrations(db)

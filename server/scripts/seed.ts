@@ -3,7 +3,10 @@ import { seedDemo } from '../db/seed/index'
 import { DEMO_PASSWORD, DEMO_PEOPLE } from '../db/seed/people'
 
 const url = process.env.DATABASE_URL
-if (!url) { console.error('DATABASE_URL is not set'); process.exit(2) }
+if (!url) {
+  console.error('DATABASE_URL is not set')
+  process.exit(2)
+}
 const { pool, db } = createDb(url, 2)
 try {
   const seeded = await seedDemo(db)

@@ -47,7 +47,10 @@ const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/
 
 /** Read one cell as a finite number (`NaN` when it is not one). */
 export function parseCell(raw: string, isDecimalComma: boolean): number {
-  let t = raw.trim().replace(/^"(.*)"$/, '$1').trim()
+  let t = raw
+    .trim()
+    .replace(/^"(.*)"$/, '$1')
+    .trim()
   if (isDecimalComma && /^[^.]*,[^.,]*$/.test(t)) t = t.replace(',', '.')
   return NUMBER.test(t) ? Number(t) : Number.NaN
 }
@@ -70,7 +73,9 @@ function detectSeparator(lines: readonly string[]): Separator {
     const split = sample.map((l) => splitLine(l, sep))
     const width = modalWidth(split.map((c) => c.length)) ?? 0
     if (width < 2) continue
-    const score = split.filter((c) => c.length === width && c.every((x) => !Number.isNaN(parseCell(x, sep !== ',')))).length
+    const score = split.filter(
+      (c) => c.length === width && c.every((x) => !Number.isNaN(parseCell(x, sep !== ','))),
+    ).length
     if (score > bestScore) [best, bestScore] = [sep, score]
   }
   return best
@@ -82,7 +87,9 @@ export function parseTable(text: string, options: ParseTableOptions = {}): Parse
   const maxRows = options.maxRows ?? MAX_TABLE_ROWS
   if (text.length > maxChars)
     throw new AnalysisError({
-      code: 'TOO_LARGE', field: 'file', value: text.length,
+      code: 'TOO_LARGE',
+      field: 'file',
+      value: text.length,
       message: `the file is too large: ${text.length} characters, the limit is ${maxChars}`,
       hint: 'decimate the sweep or split the file',
     })
@@ -93,10 +100,17 @@ export function parseTable(text: string, options: ParseTableOptions = {}): Parse
     if (t !== '' && t[0] !== '#') content.push({ text: l, line: i + 1 })
   })
   if (content.length === 0)
-    throw new AnalysisError({ code: 'EMPTY', field: 'file', value: '', message: 'the file is empty (no data rows, only blank or # comment lines)' })
+    throw new AnalysisError({
+      code: 'EMPTY',
+      field: 'file',
+      value: '',
+      message: 'the file is empty (no data rows, only blank or # comment lines)',
+    })
   if (content.length > maxRows + 1)
     throw new AnalysisError({
-      code: 'TOO_LARGE', field: 'file', value: content.length,
+      code: 'TOO_LARGE',
+      field: 'file',
+      value: content.length,
       message: `the file is too large: ${content.length} rows, the limit is ${maxRows} rows`,
       hint: 'decimate the sweep or split the file',
     })
@@ -106,12 +120,26 @@ export function parseTable(text: string, options: ParseTableOptions = {}): Parse
   const numeric = cells.map((c) => c.map((x) => parseCell(x, isDecimalComma)))
   const hasHeader = numeric[0].filter((v) => Number.isNaN(v)).length > numeric[0].length / 2
   const width = modalWidth(cells.slice(hasHeader ? 1 : 0).map((c) => c.length)) ?? cells[0].length
-  const columns = Array.from({ length: width }, (_, i) => (hasHeader ? cells[0][i]?.trim().replace(/^"(.*)"$/, '$1') : undefined) || `column ${i + 1}`)
-  const table: ParsedTable = { columns, rows: [], lines: [], hasHeader, separator, isDecimalComma, skipped: [], cellIssues: [] }
+  const columns = Array.from(
+    { length: width },
+    (_, i) => (hasHeader ? cells[0][i]?.trim().replace(/^"(.*)"$/, '$1') : undefined) || `column ${i + 1}`,
+  )
+  const table: ParsedTable = {
+    columns,
+    rows: [],
+    lines: [],
+    hasHeader,
+    separator,
+    isDecimalComma,
+    skipped: [],
+    cellIssues: [],
+  }
   for (let r = hasHeader ? 1 : 0; r < cells.length; r++) collectRow(table, cells[r], numeric[r], content[r].line, width)
   if (table.rows.length === 0)
     throw new AnalysisError({
-      code: 'NO_NUMBERS', field: 'file', value: table.skipped.slice(0, 3),
+      code: 'NO_NUMBERS',
+      field: 'file',
+      value: table.skipped.slice(0, 3),
       message: `no row of the file could be read as numbers (${table.skipped.length} rows skipped${table.skipped[0] ? `, e.g. line ${table.skipped[0].line}: ${table.skipped[0].reason}` : ''})`,
       hint: 'export the data as text columns of numbers, e.g. "angle,intensity"',
     })
@@ -120,7 +148,10 @@ export function parseTable(text: string, options: ParseTableOptions = {}): Parse
 
 function collectRow(table: ParsedTable, raw: string[], values: number[], line: number, width: number): void {
   if (raw.length !== width) {
-    const commaHint = table.separator === ',' && /\d,\d/.test(raw.join(',')) ? ' (a decimal comma in a comma-separated file? use ";" as separator or "." as decimal mark)' : ''
+    const commaHint =
+      table.separator === ',' && /\d,\d/.test(raw.join(','))
+        ? ' (a decimal comma in a comma-separated file? use ";" as separator or "." as decimal mark)'
+        : ''
     table.skipped.push({ line, reason: `has ${raw.length} fields, expected ${width}${commaHint}` })
     return
   }
@@ -139,6 +170,7 @@ function modalWidth(widths: readonly number[]): number | undefined {
   const counts = new Map<number, number>()
   for (const w of widths) counts.set(w, (counts.get(w) ?? 0) + 1)
   let best: number | undefined
-  for (const [w, c] of counts) if (best === undefined || c > (counts.get(best) ?? 0) || (c === counts.get(best) && w > best)) best = w
+  for (const [w, c] of counts)
+    if (best === undefined || c > (counts.get(best) ?? 0) || (c === counts.get(best) && w > best)) best = w
   return best
 }

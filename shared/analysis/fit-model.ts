@@ -19,7 +19,8 @@ export interface TrigPoly {
 export function toTrigPoly(f: (u: number) => number, degree: number): TrigPoly {
   const M = 4 * (degree + 1)
   const values = Array.from({ length: M }, (_, j) => f((2 * Math.PI * j) / M))
-  const coef = (m: number, g: (x: number) => number) => ((m === 0 ? 1 : 2) / M) * values.reduce((s, v, j) => s + v * g((2 * Math.PI * m * j) / M), 0)
+  const coef = (m: number, g: (x: number) => number) =>
+    ((m === 0 ? 1 : 2) / M) * values.reduce((s, v, j) => s + v * g((2 * Math.PI * m * j) / M), 0)
   const ms = Array.from({ length: degree + 1 }, (_, m) => m)
   return { cos: ms.map((m) => coef(m, Math.cos)), sin: ms.map((m) => (m === 0 ? 0 : coef(m, Math.sin))) }
 }
@@ -66,12 +67,21 @@ export interface FitDesign {
 }
 
 /** Model value and gradient (same order as the parameters) at data point i. */
-export function evaluatePoint(design: FitDesign, params: readonly number[], i: number): { value: number; grad: number[] } {
+export function evaluatePoint(
+  design: FitDesign,
+  params: readonly number[],
+  i: number,
+): { value: number; grad: number[] } {
   const { fitted, amplitudes } = design
   const [s, phi] = params
   const u = design.anglesRad[i] - phi
   const analyser = design.analysers[design.channel[i]]
-  const comps: (keyof AmplitudeBasis)[] = analyser === 'parallel' ? ['parallel'] : analyser === 'perpendicular' ? ['perpendicular'] : ['parallel', 'perpendicular']
+  const comps: (keyof AmplitudeBasis)[] =
+    analyser === 'parallel'
+      ? ['parallel']
+      : analyser === 'perpendicular'
+        ? ['perpendicular']
+        : ['parallel', 'perpendicular']
   const nr = fitted.length - 1
   const grad = new Array<number>(params.length).fill(0)
   let f = 0

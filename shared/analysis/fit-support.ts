@@ -40,7 +40,12 @@ export function chooseObservable(amplitudes: readonly AmplitudeBasis[], analyser
 }
 
 /** Starting parameters at azimuth `phi` (rad) and ratios `r`: scale and backgrounds by linear least squares. */
-export function linearStart(design: FitDesign, yn: readonly number[], phi: number, r: readonly number[]): number[] | undefined {
+export function linearStart(
+  design: FitDesign,
+  yn: readonly number[],
+  phi: number,
+  r: readonly number[],
+): number[] | undefined {
   const C = design.analysers.length
   const base = [1, phi, ...r, ...new Array<number>(C).fill(0)]
   const f = yn.map((_, i) => evaluatePoint(design, base, i).value)
@@ -55,19 +60,41 @@ export function linearStart(design: FitDesign, yn: readonly number[], phi: numbe
  * fitted pattern of every channel unchanged: the azimuth is only defined modulo it. A flat pattern
  * leaves the azimuth undetermined.
  */
-export function patternPeriod(design: FitDesign, params: readonly number[]): { periodDeg: number; isDetermined: boolean; notes: string[] } {
+export function patternPeriod(
+  design: FitDesign,
+  params: readonly number[],
+): { periodDeg: number; isDetermined: boolean; notes: string[] } {
   const C = design.analysers.length
   const degree = design.amplitudes[0].parallel.cos.length - 1
   const probe: FitDesign = { ...design, anglesRad: [], channel: [] }
-  for (let c = 0; c < C; c++) for (const u of PROBE) (probe.anglesRad.push(u), probe.channel.push(c))
-  const pattern = (phi: number) => probe.anglesRad.map((_, i) => evaluatePoint(probe, [1, phi, ...params.slice(2)], i).value)
+  for (let c = 0; c < C; c++) {
+    for (const u of PROBE) {
+      probe.anglesRad.push(u)
+      probe.channel.push(c)
+    }
+  }
+  const pattern = (phi: number) =>
+    probe.anglesRad.map((_, i) => evaluatePoint(probe, [1, phi, ...params.slice(2)], i).value)
   const ref = pattern(params[1])
   const span = Math.max(...ref) - Math.min(...ref)
   if (!(span > 1e-9 * Math.max(...ref.map(Math.abs))))
-    return { periodDeg: 360, isDetermined: false, notes: ['the model pattern does not change with the pump angle for these analysers: the azimuth cannot be determined'] }
+    return {
+      periodDeg: 360,
+      isDetermined: false,
+      notes: [
+        'the model pattern does not change with the pump angle for these analysers: the azimuth cannot be determined',
+      ],
+    }
   for (let k = 2 * degree; k >= 2; k--) {
     const shifted = pattern(params[1] + (2 * Math.PI) / k)
-    if (shifted.every((v, i) => Math.abs(v - ref[i]) < 1e-7 * span)) return { periodDeg: 360 / k, isDetermined: true, notes: [`the pattern repeats every ${(360 / k).toFixed(2)}°: the azimuth is given modulo ${(360 / k).toFixed(2)}°`] }
+    if (shifted.every((v, i) => Math.abs(v - ref[i]) < 1e-7 * span))
+      return {
+        periodDeg: 360 / k,
+        isDetermined: true,
+        notes: [
+          `the pattern repeats every ${(360 / k).toFixed(2)}°: the azimuth is given modulo ${(360 / k).toFixed(2)}°`,
+        ],
+      }
   }
   return { periodDeg: 360, isDetermined: true, notes: [] }
 }

@@ -21,7 +21,9 @@ import { AnalysisError } from './errors'
 
 /** Options of {@link fitPolarSweep}. */
 export interface FitOptions {
-  /** Number of starting azimuths spread over 360°; default 24 (15° apart: at least 4 per period of a six-fold pattern). */
+  /**
+   * Number of starting azimuths spread over 360°; default 24 (15° apart: at least 4 per period of a six-fold pattern).
+   */
   azimuthStarts?: number
   /** Iteration cap per start; default 100. */
   maxIterations?: number
@@ -90,19 +92,30 @@ export function fitPolarSweep(sweep: PolarSweep, model: PatternModel, options: F
   const fitted = chooseObservable(amplitudes, analysers)
   if (fitted.length === 0)
     throw new AnalysisError({
-      code: 'NOTHING_TO_FIT', field: 'model', value: model,
+      code: 'NOTHING_TO_FIT',
+      field: 'model',
+      value: model,
       message: `the bulk ${model.pointGroup} tensor on this cut gives no in-plane harmonic field at normal incidence (order ${model.order}); there is no pattern to fit`,
       hint: 'the signal, if any, comes from effects outside the model (surface, shape, oblique or high-NA collection)',
     })
   const anglesRad: number[] = []
   const channel: number[] = []
   const y: number[] = []
-  sweep.channels.forEach((c, ci) => c.intensity.forEach((v, i) => (anglesRad.push((sweep.anglesDeg[i] * Math.PI) / 180), channel.push(ci), y.push(v))))
+  sweep.channels.forEach((c, ci) =>
+    c.intensity.forEach((v, i) => (anglesRad.push((sweep.anglesDeg[i] * Math.PI) / 180), channel.push(ci), y.push(v))),
+  )
   const p = 1 + fitted.length + analysers.length
   if (y.length <= p)
-    throw new AnalysisError({ code: 'TOO_FEW_POINTS', field: 'sweep', value: y.length, message: `${y.length} points cannot fix ${p} parameters`, hint: 'measure more angles' })
+    throw new AnalysisError({
+      code: 'TOO_FEW_POINTS',
+      field: 'sweep',
+      value: y.length,
+      message: `${y.length} points cannot fix ${p} parameters`,
+      hint: 'measure more angles',
+    })
   const yMax = Math.max(...y.map(Math.abs))
-  if (!(yMax > 0)) throw new AnalysisError({ code: 'NOTHING_TO_FIT', field: 'sweep', value: yMax, message: 'every intensity is zero' })
+  if (!(yMax > 0))
+    throw new AnalysisError({ code: 'NOTHING_TO_FIT', field: 'sweep', value: yMax, message: 'every intensity is zero' })
   const yn = y.map((v) => v / yMax)
   const design: FitDesign = { anglesRad, channel, analysers, fitted, amplitudes }
   const best = runStarts(design, yn, options)
@@ -132,12 +145,25 @@ function runStarts(design: FitDesign, yn: number[], options: FitOptions): Optimu
       if (!init) continue
       starts++
       const out = levenbergMarquardt({ x, y: yn }, fn, {
-        initialValues: init, jacobianFunction: jac, minValues, maxValues,
-        maxIterations: options.maxIterations ?? 100, errorTolerance: 1e-14 * yn.length, damping: 1e-3,
+        initialValues: init,
+        jacobianFunction: jac,
+        minValues,
+        maxValues,
+        maxIterations: options.maxIterations ?? 100,
+        errorTolerance: 1e-14 * yn.length,
+        damping: 1e-3,
       })
-      if (Number.isFinite(out.parameterError) && (!best || out.parameterError < best.ssr)) best = { params: out.parameterValues, ssr: out.parameterError, starts: 0 }
+      if (Number.isFinite(out.parameterError) && (!best || out.parameterError < best.ssr))
+        best = { params: out.parameterValues, ssr: out.parameterError, starts: 0 }
     }
-  if (!best) throw new AnalysisError({ code: 'FIT_FAILED', field: 'sweep', value: null, message: 'the fit did not converge from any start', hint: 'check that the intensity columns hold the harmonic signal' })
+  if (!best)
+    throw new AnalysisError({
+      code: 'FIT_FAILED',
+      field: 'sweep',
+      value: null,
+      message: 'the fit did not converge from any start',
+      hint: 'check that the intensity columns hold the harmonic signal',
+    })
   return { ...best, starts }
 }
 
@@ -164,7 +190,14 @@ function summarise(design: FitDesign, best: Optimum, ctx: Context): PolarFitResu
   const residuals = evals.map((e, i) => {
     const c = ctx.sweep.channels[design.channel[i]]
     const model = e.value * ctx.yMax
-    return { angleDeg: (design.anglesRad[i] * 180) / Math.PI, column: c.column, analyser: c.analyser, observed: ctx.y[i], model, residual: ctx.y[i] - model }
+    return {
+      angleDeg: (design.anglesRad[i] * 180) / Math.PI,
+      column: c.column,
+      analyser: c.analyser,
+      observed: ctx.y[i],
+      model,
+      residual: ctx.y[i] - model,
+    }
   })
   const ratios: FittedRatio[] = ctx.labels.map((label, k) => {
     const j = design.fitted.indexOf(k)
@@ -174,22 +207,50 @@ function summarise(design: FitDesign, best: Optimum, ctx: Context): PolarFitResu
   })
   const symmetry = ctx.sweep.channels.map((c, ci) => {
     const pts = residuals.filter((_, i) => design.channel[i] === ci)
-    const dataFold = findDominantHarmonic(pts.map((r) => r.angleDeg), pts.map((r) => r.observed)).fold
-    const modelFold = findDominantHarmonic(pts.map((r) => r.angleDeg), pts.map((r) => r.model)).fold
+    const dataFold = findDominantHarmonic(
+      pts.map((r) => r.angleDeg),
+      pts.map((r) => r.observed),
+    ).fold
+    const modelFold = findDominantHarmonic(
+      pts.map((r) => r.angleDeg),
+      pts.map((r) => r.model),
+    ).fold
     return { column: c.column, analyser: c.analyser, dataFold, modelFold, isMatch: dataFold === modelFold }
   })
   const notes = [...period.notes]
   if (!cov) notes.push('the parameters are not all independent at the optimum: uncertainties are not available')
-  if (ratios.some((r) => r.role === 'not-observable')) notes.push(`not observable with these analysers at normal incidence: ${ratios.filter((r) => r.role === 'not-observable').map((r) => r.label).join(', ')}`)
+  if (ratios.some((r) => r.role === 'not-observable'))
+    notes.push(
+      `not observable with these analysers at normal incidence: ${ratios
+        .filter((r) => r.role === 'not-observable')
+        .map((r) => r.label)
+        .join(', ')}`,
+    )
   return {
     model: ctx.model,
     azimuth: { value: ((phiDeg % periodDeg) + periodDeg) % periodDeg, sigma: (sigma(1) * 180) / Math.PI },
-    azimuthPeriodDeg: periodDeg, isAzimuthDetermined: period.isDetermined,
-    ratios, scale: { value: params[0] * ctx.yMax, sigma: sigma(0) * ctx.yMax },
-    backgrounds: ctx.sweep.channels.map((c, ci) => ({ column: c.column, value: params[2 + nr + ci] * ctx.yMax, sigma: sigma(2 + nr + ci) * ctx.yMax })),
-    rSquared: rSquared(ctx.y, design.channel, residuals.map((r) => r.residual)),
-    ssr: ssrN * ctx.yMax ** 2, dof: n - p, residuals, symmetry, isSymmetryMatch: symmetry.every((s) => s.isMatch),
-    starts: best.starts, assumptions: PATTERN_ASSUMPTIONS, notes,
+    azimuthPeriodDeg: periodDeg,
+    isAzimuthDetermined: period.isDetermined,
+    ratios,
+    scale: { value: params[0] * ctx.yMax, sigma: sigma(0) * ctx.yMax },
+    backgrounds: ctx.sweep.channels.map((c, ci) => ({
+      column: c.column,
+      value: params[2 + nr + ci] * ctx.yMax,
+      sigma: sigma(2 + nr + ci) * ctx.yMax,
+    })),
+    rSquared: rSquared(
+      ctx.y,
+      design.channel,
+      residuals.map((r) => r.residual),
+    ),
+    ssr: ssrN * ctx.yMax ** 2,
+    dof: n - p,
+    residuals,
+    symmetry,
+    isSymmetryMatch: symmetry.every((s) => s.isMatch),
+    starts: best.starts,
+    assumptions: PATTERN_ASSUMPTIONS,
+    notes,
   }
 }
 

@@ -10,7 +10,14 @@ export { parseTable, parseCell, MAX_TABLE_ROWS, MAX_TABLE_CHARS } from './csv'
 export type { ParsedTable, ParseTableOptions, Separator, SkippedRow } from './csv'
 export { readSweep, readSweepText, chooseUnit } from './sweep'
 export type { Analyser, PolarSweep, SweepChannel, ReadSweepOptions } from './sweep'
-export { PATTERN_ASSUMPTIONS, describePatternBasis, buildLabTensor, rotateAboutNormal, inducedPolarization, predictPattern } from './patterns'
+export {
+  PATTERN_ASSUMPTIONS,
+  describePatternBasis,
+  buildLabTensor,
+  rotateAboutNormal,
+  inducedPolarization,
+  predictPattern,
+} from './patterns'
 export type { PatternModel, PatternPoint, PatternBasis } from './patterns'
 export { fitPolarSweep } from './fit'
 export type { FitOptions, Estimate, FittedRatio, FitResidual, SymmetryCheck, PolarFitResult } from './fit'

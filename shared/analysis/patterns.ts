@@ -53,8 +53,19 @@ export interface PatternBasis {
 /** The engine's basis of χ(N) for the model, rotated into the lab frame at azimuth 0. */
 export function describePatternBasis(model: PatternModel): PatternBasis {
   if (model.order !== 2 && model.order !== 3)
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'order', value: model.order, allowed: [2, 3], message: `polar patterns are modelled for orders 2 and 3, got ${JSON.stringify(model.order)}` })
-  const sample = prepareSampleTensor({ pointGroup: model.pointGroup, normal: model.normal, reference: model.reference, order: model.order })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'order',
+      value: model.order,
+      allowed: [2, 3],
+      message: `polar patterns are modelled for orders 2 and 3, got ${JSON.stringify(model.order)}`,
+    })
+  const sample = prepareSampleTensor({
+    pointGroup: model.pointGroup,
+    normal: model.normal,
+    reference: model.reference,
+    order: model.order,
+  })
   const labels = sample.form.pivots.map((p) => basisLabel(sample.form.space.labels[p]))
   return { labels, tensors: sample.tensors }
 }
@@ -82,7 +93,13 @@ export function buildLabTensor(model: PatternModel, ratios?: readonly number[], 
   const basis = describePatternBasis(model)
   const w = ratios ?? basis.tensors.map((_, k) => (k === 0 ? 1 : 0))
   if (w.length !== basis.tensors.length || !w.every(Number.isFinite))
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'ratios', value: w, allowed: basis.labels, message: `give ${basis.tensors.length} finite ratios, one per independent component (${basis.labels.join(', ')})` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'ratios',
+      value: w,
+      allowed: basis.labels,
+      message: `give ${basis.tensors.length} finite ratios, one per independent component (${basis.labels.join(', ')})`,
+    })
   const t = new Float64Array(3 ** (model.order + 1))
   basis.tensors.forEach((b, k) => b.forEach((v, f) => (t[f] += w[k] * v)))
   return azimuthDeg === 0 ? t : rotateAboutNormal(t, model.order + 1, azimuthDeg)
@@ -104,7 +121,12 @@ export function inducedPolarization(tensor: Float64Array, order: number, angleDe
 }
 
 /** Predicted pattern of the model with the given ratios and crystal azimuth, at `anglesDeg`. */
-export function predictPattern(model: PatternModel, ratios: readonly number[] | undefined, azimuthDeg: number, anglesDeg: readonly number[]): PatternPoint[] {
+export function predictPattern(
+  model: PatternModel,
+  ratios: readonly number[] | undefined,
+  azimuthDeg: number,
+  anglesDeg: readonly number[],
+): PatternPoint[] {
   const t = buildLabTensor(model, ratios, azimuthDeg)
   const engine = model.order === 2 ? predictPolarPattern(t, anglesDeg) : undefined
   return anglesDeg.map((angleDeg, i) => {

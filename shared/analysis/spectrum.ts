@@ -29,20 +29,42 @@ export interface ReadSpectrumOptions {
 /** Read a spectrum table (x in nm, or pixels with `calibration`). */
 export function readSpectrum(table: ParsedTable, options: ReadSpectrumOptions = {}): Spectrum {
   if (table.columns.length < 2)
-    throw new AnalysisError({ code: 'TOO_FEW_COLUMNS', field: 'file', value: table.columns, message: 'a spectrum needs two columns: wavelength (or pixel) and intensity' })
+    throw new AnalysisError({
+      code: 'TOO_FEW_COLUMNS',
+      field: 'file',
+      value: table.columns,
+      message: 'a spectrum needs two columns: wavelength (or pixel) and intensity',
+    })
   const [xc, yc] = [options.xColumn ?? 0, options.yColumn ?? 1]
   const isPixel = options.calibration !== undefined
   if (!isPixel && table.hasHeader && /pix/i.test(table.columns[xc]))
-    throw new AnalysisError({ code: 'INVALID_OPTION', field: 'calibration', value: table.columns[xc], message: `column "${table.columns[xc]}" holds pixels; a wavelength calibration is needed`, hint: 'give the calibration coefficients λ = c0 + c1·p (+ c2·p² …) in nm' })
+    throw new AnalysisError({
+      code: 'INVALID_OPTION',
+      field: 'calibration',
+      value: table.columns[xc],
+      message: `column "${table.columns[xc]}" holds pixels; a wavelength calibration is needed`,
+      hint: 'give the calibration coefficients λ = c0 + c1·p (+ c2·p² …) in nm',
+    })
   const skipped = [...table.skipped]
   const points: [number, number][] = []
   table.rows.forEach((row, r) => {
-    if (Number.isFinite(row[xc]) && Number.isFinite(row[yc])) points.push([isPixel ? polynomial(options.calibration!, row[xc]) : row[xc], row[yc]])
+    if (Number.isFinite(row[xc]) && Number.isFinite(row[yc]))
+      points.push([isPixel ? polynomial(options.calibration!, row[xc]) : row[xc], row[yc]])
     else skipped.push({ line: table.lines[r], reason: 'wavelength or intensity is not a finite number' })
   })
-  if (points.length < 5) throw new AnalysisError({ code: 'TOO_FEW_POINTS', field: 'file', value: points.length, message: `only ${points.length} readable points; a spectrum needs at least 5` })
+  if (points.length < 5)
+    throw new AnalysisError({
+      code: 'TOO_FEW_POINTS',
+      field: 'file',
+      value: points.length,
+      message: `only ${points.length} readable points; a spectrum needs at least 5`,
+    })
   points.sort((a, b) => a[0] - b[0])
-  const notes = isPixel ? [`x converted from pixels with λ = ${options.calibration!.map((c, k) => (k === 0 ? `${c}` : `${c}·p${k > 1 ? `^${k}` : ''}`)).join(' + ')} nm`] : []
+  const notes = isPixel
+    ? [
+        `x converted from pixels with λ = ${options.calibration!.map((c, k) => (k === 0 ? `${c}` : `${c}·p${k > 1 ? `^${k}` : ''}`)).join(' + ')} nm`,
+      ]
+    : []
   return { wavelengthsNm: points.map((p) => p[0]), intensity: points.map((p) => p[1]), skipped, notes }
 }
 
@@ -89,12 +111,22 @@ export interface HarmonicPeak {
 export function findHarmonicPeak(spectrum: Spectrum, options: HarmonicPeakOptions): HarmonicPeak {
   const { wavelengthsNm: x, intensity: y } = spectrum
   if (!(options.pumpWavelengthNm > 0) || !Number.isInteger(options.order) || options.order < 2)
-    throw new AnalysisError({ code: 'INVALID_OPTION', field: 'pumpWavelengthNm', value: options, message: 'give a positive pump wavelength (nm) and an integer order ≥ 2' })
+    throw new AnalysisError({
+      code: 'INVALID_OPTION',
+      field: 'pumpWavelengthNm',
+      value: options,
+      message: 'give a positive pump wavelength (nm) and an integer order ≥ 2',
+    })
   const target = options.pumpWavelengthNm / options.order
   const half = options.searchHalfWidthNm ?? Math.max(5, 0.02 * target)
   const inSearch = indices(x, target - half, target + half)
   if (inSearch.length === 0)
-    throw new AnalysisError({ code: 'NO_DATA_IN_WINDOW', field: 'spectrum', value: [x[0], x[x.length - 1]], message: `the spectrum (${x[0].toFixed(1)}–${x[x.length - 1].toFixed(1)} nm) has no point near λ/N = ${target.toFixed(1)} nm` })
+    throw new AnalysisError({
+      code: 'NO_DATA_IN_WINDOW',
+      field: 'spectrum',
+      value: [x[0], x[x.length - 1]],
+      message: `the spectrum (${x[0].toFixed(1)}–${x[x.length - 1].toFixed(1)} nm) has no point near λ/N = ${target.toFixed(1)} nm`,
+    })
   const top = inSearch.reduce((b, i) => (y[i] > y[b] ? i : b))
   const floor = Math.min(...inSearch.map((i) => y[i]))
   const fwhm = halfWidth(x, y, top, floor)
@@ -104,8 +136,17 @@ export function findHarmonicPeak(spectrum: Spectrum, options: HarmonicPeakOption
   const hi = x[top] + w
   const flank = [...indices(x, lo - bw, lo, true), ...indices(x, hi, hi + bw, true)]
   if (flank.length < 3)
-    throw new AnalysisError({ code: 'NO_DATA_IN_WINDOW', field: 'spectrum', value: [lo - bw, hi + bw], message: `fewer than 3 points in the background windows beside the peak at ${x[top].toFixed(1)} nm`, hint: 'record a wider spectrum around the harmonic' })
-  const [intercept, slope] = leastSquares(flank.map((i) => [1, x[i]]), flank.map((i) => y[i])) ?? [mean(flank.map((i) => y[i])), 0]
+    throw new AnalysisError({
+      code: 'NO_DATA_IN_WINDOW',
+      field: 'spectrum',
+      value: [lo - bw, hi + bw],
+      message: `fewer than 3 points in the background windows beside the peak at ${x[top].toFixed(1)} nm`,
+      hint: 'record a wider spectrum around the harmonic',
+    })
+  const [intercept, slope] = leastSquares(
+    flank.map((i) => [1, x[i]]),
+    flank.map((i) => y[i]),
+  ) ?? [mean(flank.map((i) => y[i])), 0]
   const bg = (v: number) => intercept + slope * v
   const noise = Math.sqrt(flank.reduce((s, i) => s + (y[i] - bg(x[i])) ** 2, 0) / Math.max(1, flank.length - 2))
   const inPeak = indices(x, lo, hi)
@@ -117,9 +158,21 @@ export function findHarmonicPeak(spectrum: Spectrum, options: HarmonicPeakOption
   const height = y[top] - bg(x[top])
   const snr = noise > 0 ? height / noise : height > 0 ? Infinity : 0
   return {
-    expectedWavelengthNm: target, peakWavelengthNm: x[top], offsetNm: x[top] - target, fwhmNm: fwhm, height, integral, snr,
-    isDetected: snr >= (options.minSnr ?? 3), searchWindowNm: [target - half, target + half], integrationWindowNm: [lo, hi],
-    backgroundWindowsNm: [[lo - bw, lo], [hi, hi + bw]], background: { intercept, slopePerNm: slope },
+    expectedWavelengthNm: target,
+    peakWavelengthNm: x[top],
+    offsetNm: x[top] - target,
+    fwhmNm: fwhm,
+    height,
+    integral,
+    snr,
+    isDetected: snr >= (options.minSnr ?? 3),
+    searchWindowNm: [target - half, target + half],
+    integrationWindowNm: [lo, hi],
+    backgroundWindowsNm: [
+      [lo - bw, lo],
+      [hi, hi + bw],
+    ],
+    background: { intercept, slopePerNm: slope },
   }
 }
 

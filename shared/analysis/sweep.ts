@@ -56,14 +56,22 @@ export function readSweepText(text: string, options: ReadSweepOptions = {}): Pol
 export function readSweep(table: ParsedTable, options: ReadSweepOptions = {}): PolarSweep {
   if (table.columns.length < 2)
     throw new AnalysisError({
-      code: 'TOO_FEW_COLUMNS', field: 'file', value: table.columns,
+      code: 'TOO_FEW_COLUMNS',
+      field: 'file',
+      value: table.columns,
       message: `a sweep needs an angle column and at least one intensity column; the file has ${table.columns.length} column`,
       hint: 'export "angle, intensity" (and optionally a second intensity column)',
     })
   const notes: string[] = []
-  const angleIndex = options.angleColumn !== undefined ? columnIndex(table, options.angleColumn, 'angleColumn') : detectAngle(table, notes)
+  const angleIndex =
+    options.angleColumn !== undefined
+      ? columnIndex(table, options.angleColumn, 'angleColumn')
+      : detectAngle(table, notes)
   const picks = options.intensityColumns
-    ? options.intensityColumns.map((c) => ({ index: columnIndex(table, c.column, 'intensityColumns'), analyser: c.analyser }))
+    ? options.intensityColumns.map((c) => ({
+        index: columnIndex(table, c.column, 'intensityColumns'),
+        analyser: c.analyser,
+      }))
     : detectIntensities(table, angleIndex, notes)
   const used = [angleIndex, ...picks.map((p) => p.index)]
   const skipped = [...table.skipped]
@@ -71,45 +79,81 @@ export function readSweep(table: ParsedTable, options: ReadSweepOptions = {}): P
   table.rows.forEach((row, r) => {
     const bad = used.filter((c) => !Number.isFinite(row[c]))
     if (bad.length === 0) return void keep.push(r)
-    const texts = table.cellIssues.filter((i) => i.line === table.lines[r] && bad.includes(i.column)).map((i) => `"${i.text}" in ${table.columns[i.column]}`)
+    const texts = table.cellIssues
+      .filter((i) => i.line === table.lines[r] && bad.includes(i.column))
+      .map((i) => `"${i.text}" in ${table.columns[i.column]}`)
     skipped.push({ line: table.lines[r], reason: `not a finite number: ${texts.join(', ') || 'empty cell'}` })
   })
   skipped.sort((a, b) => a.line - b.line)
   if (keep.length < 3)
-    throw new AnalysisError({ code: 'TOO_FEW_POINTS', field: 'file', value: keep.length, message: `only ${keep.length} readable rows; a sweep needs at least 3`, hint: skipped[0] ? `line ${skipped[0].line}: ${skipped[0].reason}` : undefined })
+    throw new AnalysisError({
+      code: 'TOO_FEW_POINTS',
+      field: 'file',
+      value: keep.length,
+      message: `only ${keep.length} readable rows; a sweep needs at least 3`,
+      hint: skipped[0] ? `line ${skipped[0].line}: ${skipped[0].reason}` : undefined,
+    })
   const raw = keep.map((r) => table.rows[r][angleIndex])
   const { unit, reason } = chooseUnit(raw, options.angleUnit ?? 'auto')
   return {
     anglesDeg: raw.map((a) => (unit === 'rad' ? (a * 180) / Math.PI : a)),
-    channels: picks.map((p) => ({ column: table.columns[p.index], analyser: p.analyser, intensity: keep.map((r) => table.rows[r][p.index]) })),
-    angleColumn: table.columns[angleIndex], angleUnit: unit, angleUnitReason: reason, skipped, notes,
+    channels: picks.map((p) => ({
+      column: table.columns[p.index],
+      analyser: p.analyser,
+      intensity: keep.map((r) => table.rows[r][p.index]),
+    })),
+    angleColumn: table.columns[angleIndex],
+    angleUnit: unit,
+    angleUnitReason: reason,
+    skipped,
+    notes,
   }
 }
 
 /** Radians iff max |angle| ≤ 2π + 0.01 (unless forced). */
-export function chooseUnit(angles: readonly number[], requested: 'deg' | 'rad' | 'auto'): { unit: 'deg' | 'rad'; reason: string } {
-  if (requested !== 'auto') return { unit: requested, reason: `set by the user (${requested === 'deg' ? 'degrees' : 'radians'})` }
+export function chooseUnit(
+  angles: readonly number[],
+  requested: 'deg' | 'rad' | 'auto',
+): { unit: 'deg' | 'rad'; reason: string } {
+  if (requested !== 'auto')
+    return { unit: requested, reason: `set by the user (${requested === 'deg' ? 'degrees' : 'radians'})` }
   const max = Math.max(...angles.map(Math.abs))
   return max <= 2 * Math.PI + 0.01
-    ? { unit: 'rad', reason: `read as radians: the largest |angle| is ${max.toPrecision(4)} ≤ 2π (override if these are degrees)` }
+    ? {
+        unit: 'rad',
+        reason: `read as radians: the largest |angle| is ${max.toPrecision(4)} ≤ 2π (override if these are degrees)`,
+      }
     : { unit: 'deg', reason: `read as degrees: the largest |angle| is ${max.toPrecision(4)} > 2π` }
 }
 
 function columnIndex(table: ParsedTable, column: string | number, field: string): number {
   const i = typeof column === 'number' ? column : table.columns.findIndex((c) => c === column)
   if (i < 0 || i >= table.columns.length)
-    throw new AnalysisError({ code: 'UNKNOWN_COLUMN', field, value: column, message: `no column ${JSON.stringify(column)}; the file has ${table.columns.map((c) => JSON.stringify(c)).join(', ')}` })
+    throw new AnalysisError({
+      code: 'UNKNOWN_COLUMN',
+      field,
+      value: column,
+      message: `no column ${JSON.stringify(column)}; the file has ${table.columns.map((c) => JSON.stringify(c)).join(', ')}`,
+    })
   return i
 }
 
 function detectAngle(table: ParsedTable, notes: string[]): number {
-  const named = table.hasHeader ? table.columns.findIndex((c) => ANGLE_NAME.test(c) && !PAR_NAME.test(c) && !PERP_NAME.test(c) && !NONE_NAME.test(c)) : -1
+  const named = table.hasHeader
+    ? table.columns.findIndex(
+        (c) => ANGLE_NAME.test(c) && !PAR_NAME.test(c) && !PERP_NAME.test(c) && !NONE_NAME.test(c),
+      )
+    : -1
   if (named >= 0) return named
   notes.push(`angle column assumed to be the first column ("${table.columns[0]}")`)
   return 0
 }
 
-function detectIntensities(table: ParsedTable, angleIndex: number, notes: string[]): { index: number; analyser: Analyser }[] {
+function detectIntensities(
+  table: ParsedTable,
+  angleIndex: number,
+  notes: string[],
+): { index: number; analyser: Analyser }[] {
   const rest = table.columns.map((_, i) => i).filter((i) => i !== angleIndex)
   const byName = (re: RegExp) => (table.hasHeader ? rest.find((i) => re.test(table.columns[i])) : undefined)
   const par = byName(PAR_NAME)
@@ -121,10 +165,20 @@ function detectIntensities(table: ParsedTable, angleIndex: number, notes: string
   ]
   if (named.length > 0) return named
   if (none !== undefined) return [{ index: none, analyser: 'none' }]
-  const picks = rest.slice(0, 2).map((index, k) => ({ index, analyser: (k === 0 ? 'parallel' : 'perpendicular') as Analyser }))
-  notes.push(picks.length === 1
-    ? `analyser of "${table.columns[picks[0].index]}" not named in the header: assumed parallel (override if not)`
-    : `analysers not named in the header: "${table.columns[picks[0].index]}" assumed parallel, "${table.columns[picks[1].index]}" perpendicular`)
-  if (rest.length > 2) notes.push(`columns ignored: ${rest.slice(2).map((i) => `"${table.columns[i]}"`).join(', ')}`)
+  const picks = rest
+    .slice(0, 2)
+    .map((index, k) => ({ index, analyser: (k === 0 ? 'parallel' : 'perpendicular') as Analyser }))
+  notes.push(
+    picks.length === 1
+      ? `analyser of "${table.columns[picks[0].index]}" not named in the header: assumed parallel (override if not)`
+      : `analysers not named in the header: "${table.columns[picks[0].index]}" assumed parallel, "${table.columns[picks[1].index]}" perpendicular`,
+  )
+  if (rest.length > 2)
+    notes.push(
+      `columns ignored: ${rest
+        .slice(2)
+        .map((i) => `"${table.columns[i]}"`)
+        .join(', ')}`,
+    )
   return picks
 }

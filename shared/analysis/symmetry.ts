@@ -14,7 +14,11 @@ export interface HarmonicAnalysis {
 }
 
 /** Dominant angular harmonic of `values` sampled at `anglesDeg` (K = min(maxHarmonic, (n − 1)/2)). */
-export function findDominantHarmonic(anglesDeg: readonly number[], values: readonly number[], maxHarmonic = 12): HarmonicAnalysis {
+export function findDominantHarmonic(
+  anglesDeg: readonly number[],
+  values: readonly number[],
+  maxHarmonic = 12,
+): HarmonicAnalysis {
   const K = Math.min(maxHarmonic, Math.floor((values.length - 1) / 2))
   if (K < 1) return { fold: 0, amplitudes: [] }
   const design = anglesDeg.map((d) => {

@@ -17,7 +17,13 @@ import type { ChannelExplainInput } from './explain'
 import { parseChannelRequest } from './request'
 import { entryParity, sampleEntry, sampleNotes } from './sample-tensor'
 import { describeCircularHandedness, describePump, pumpParity, pumpProjections, signedList } from './pump'
-import { allowedFromSums, findAllowedMultipoles, findNormalEmission, harmonicParity, sumProjections } from './selection-rules'
+import {
+  allowedFromSums,
+  findAllowedMultipoles,
+  findNormalEmission,
+  harmonicParity,
+  sumProjections,
+} from './selection-rules'
 import { normalizeMirror } from './structure'
 import { describeStructureStep, explainRuleSteps } from './explain'
 import { BoundedCache } from './bounded-cache'
@@ -80,7 +86,9 @@ const CACHE_LIMIT = 4096
 const MAX_CACHED_LIST = 64
 const pumpCache = new BoundedCache<string, PumpOrderFacts>(CACHE_LIMIT)
 const structureCache = new BoundedCache<string, StructureFacts>(CACHE_LIMIT)
-/** Rule 4's answer per (pump, order, Q, n, window): m ascending (never handed out: callers get copies) and m as text. */
+/**
+ * Rule 4's answer per (pump, order, Q, n, window): m ascending (never handed out: callers get copies) and m as text.
+ */
 const allowedCache = new BoundedCache<string, AllowedM>(CACHE_LIMIT)
 
 interface AllowedM {
@@ -102,19 +110,28 @@ export function clearChannelMemos(): void {
  */
 function pumpKey(pump: PumpSpec, order: number): string | undefined {
   switch (pump.type) {
-    case 'circular': return typeof pump.m === 'number' ? `c|${pump.m}|${order}` : undefined
-    case 'linear': return typeof pump.angle === 'number' ? `l|${pump.angle}|${order}` : undefined
-    case 'vortex': return typeof pump.spin === 'number' && typeof pump.charge === 'number' ? `v|${pump.spin}|${pump.charge}|${order}` : undefined
+    case 'circular':
+      return typeof pump.m === 'number' ? `c|${pump.m}|${order}` : undefined
+    case 'linear':
+      return typeof pump.angle === 'number' ? `l|${pump.angle}|${order}` : undefined
+    case 'vortex':
+      return typeof pump.spin === 'number' && typeof pump.charge === 'number'
+        ? `v|${pump.spin}|${pump.charge}|${order}`
+        : undefined
     case 'explicit': {
       const { m, parity } = pump
       if (!Array.isArray(m) || m.length > MAX_CACHED_LIST || !m.every(isNumber)) return undefined
       if (parity === undefined) return `x|${m.join(',')}|-|${order}`
-      return typeof parity.mirror === 'number' && typeof parity.sign === 'number' ? `x|${m.join(',')}|${parity.mirror}|${parity.sign}|${order}` : undefined
+      return typeof parity.mirror === 'number' && typeof parity.sign === 'number'
+        ? `x|${m.join(',')}|${parity.mirror}|${parity.sign}|${order}`
+        : undefined
     }
     case 'elliptical':
     case 'radial':
-    case 'azimuthal': return `${pump.type}|${order}`
-    default: return undefined
+    case 'azimuthal':
+      return `${pump.type}|${order}`
+    default:
+      return undefined
   }
 }
 
@@ -128,11 +145,20 @@ function pumpOrderFacts(pump: PumpSpec, order: number): PumpOrderFacts {
   if (hit) return hit
   const projections = Object.freeze(pumpProjections(pump))
   const sums = Object.freeze(sumProjections(projections, order))
-  const facts: PumpOrderFacts = Object.freeze({ key, projections, sums, sumsText: signedList(sums), pumpText: describePump(pump) })
+  const facts: PumpOrderFacts = Object.freeze({
+    key,
+    projections,
+    sums,
+    sumsText: signedList(sums),
+    pumpText: describePump(pump),
+  })
   return key === undefined ? facts : pumpCache.set(key, facts)
 }
 
-/** Key of a structure, or undefined when n or a mirror is not a number (holes too) or the list is long: those are not cached. */
+/**
+ * Key of a structure, or undefined when n or a mirror is not a number (holes too) or the list is long: those are not
+ * cached.
+ */
 function structureKey(rotationOrder: number, mirrors: readonly number[]): string | undefined {
   if (typeof rotationOrder !== 'number' || mirrors.length > MAX_CACHED_LIST) return undefined
   for (let i = 0; i < mirrors.length; i++) if (typeof mirrors[i] !== 'number') return undefined
@@ -157,13 +183,23 @@ function describeStructure(rotationOrder: number, mirrors: readonly number[]): S
     picks.push(i)
     lines.push(k)
   }
-  const text = describeStructureStep(rotationOrder, mirrors.length, picks.map((i) => mirrors[i]))
+  const text = describeStructureStep(
+    rotationOrder,
+    mirrors.length,
+    picks.map((i) => mirrors[i]),
+  )
   return Object.freeze({ picks: Object.freeze(picks), lines: Object.freeze(lines), text })
 }
 
-/** Rule 4 for (pump, order) × Q × n × window; kept when the pump is and n and the window are integers (every validated request). */
+/**
+ * Rule 4 for (pump, order) × Q × n × window; kept when the pump is and n and the window are integers (every validated
+ * request).
+ */
 function allowedM(facts: PumpOrderFacts, q: readonly number[], qKey: string, n: number, window: number): AllowedM {
-  const key = facts.key !== undefined && Number.isInteger(n) && Number.isInteger(window) ? `${facts.key}#${qKey}#${n}#${window}` : undefined
+  const key =
+    facts.key !== undefined && Number.isInteger(n) && Number.isInteger(window)
+      ? `${facts.key}#${qKey}#${n}#${window}`
+      : undefined
   const hit = key === undefined ? undefined : allowedCache.get(key)
   if (hit) return hit
   const m = allowedFromSums(facts.sums, q, n, window)
@@ -175,8 +211,13 @@ function allowedM(facts: PumpOrderFacts, q: readonly number[], qKey: string, n: 
 export function evaluateChannels(req: ChannelRequest): ChannelResponse {
   const { crystal, pump, order } = req
   const entry = sampleEntry({
-    pointGroup: crystal.pointGroup, normal: crystal.normal, reference: crystal.reference, azimuthDeg: crystal.azimuthDeg,
-    order, surface: req.surface, symmetry: req.kleinman ? 'kleinman' : 'intrinsic',
+    pointGroup: crystal.pointGroup,
+    normal: crystal.normal,
+    reference: crystal.reference,
+    azimuthDeg: crystal.azimuthDeg,
+    order,
+    surface: req.surface,
+    symmetry: req.kleinman ? 'kleinman' : 'intrinsic',
   })
   const sample = entry.sample
   const q = sample.content.q
@@ -195,24 +236,59 @@ export function evaluateChannels(req: ChannelRequest): ChannelResponse {
     mirrors.push({ mirror, tensor, pump: pumpP, result })
     if (result !== 0) parity.push({ mirror, sign: result as 1 | -1 })
   }
-  const normalEmission: ChannelResponse['normalEmission'] = findNormalEmission(m, pump.type === 'circular' ? pump.m : undefined)
+  const normalEmission: ChannelResponse['normalEmission'] = findNormalEmission(
+    m,
+    pump.type === 'circular' ? pump.m : undefined,
+  )
   if (normalEmission.m.length === 2 && parity.length > 0) {
     const lines = new Set(parity.map((p) => normalizeMirror(p.sign === 1 ? p.mirror : p.mirror + 90)))
     if (lines.size === 1) normalEmission.polarizationDeg = [...lines][0]
     else normalEmission.suppressedByParity = true
   }
-  const multipoles = findAllowedMultipoles(m, parity.map((p) => p.sign), req.lmax)
+  const multipoles = findAllowedMultipoles(
+    m,
+    parity.map((p) => p.sign),
+    req.lmax,
+  )
   // Spread, not slice(): V8 copies a frozen array with slice() some twenty times slower.
   const explain = [...sampleNotes(entry, crystal)]
-  const steps = explainRuleSteps({
-    pump, order, pumpSums: facts.sums, q, rotationOrder: n, mirrorCount: req.structure.mirrors.length,
-    window: req.window, allowedM: m, mirrors, normalEmission, multipoles, lmax: req.lmax,
-  }, { pump: facts.pumpText, structure: structure.text, pumpSums: facts.sumsText, q: entry.qText, allowedM: allowed.text })
+  const steps = explainRuleSteps(
+    {
+      pump,
+      order,
+      pumpSums: facts.sums,
+      q,
+      rotationOrder: n,
+      mirrorCount: req.structure.mirrors.length,
+      window: req.window,
+      allowedM: m,
+      mirrors,
+      normalEmission,
+      multipoles,
+      lmax: req.lmax,
+    },
+    {
+      pump: facts.pumpText,
+      structure: structure.text,
+      pumpSums: facts.sumsText,
+      q: entry.qText,
+      allowedM: allowed.text,
+    },
+  )
   for (let i = 0; i < steps.length; i++) explain.push(steps[i])
   const weights = sample.content.weights
   const qWeights: ChannelResponse['qWeights'] = new Array(weights.length)
   for (let i = 0; i < weights.length; i++) qWeights[i] = { q: weights[i].q, weight: weights[i].weight }
-  const response: ChannelResponse = { q: [...q], m, parity, normalEmission, multipoles, explain, engineVersion: ENGINE_VERSION, qWeights }
+  const response: ChannelResponse = {
+    q: [...q],
+    m,
+    parity,
+    normalEmission,
+    multipoles,
+    explain,
+    engineVersion: ENGINE_VERSION,
+    qWeights,
+  }
   if (pump.type === 'circular') response.pumpHandedness = describeCircularHandedness(pump.m)
   return response
 }

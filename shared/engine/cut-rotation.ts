@@ -51,7 +51,12 @@ function cutPlane(cut: CutOrientation, field: string, out?: number[]): number {
   const nv = cut.normal
   const n = Math.sqrt(nv[0] * nv[0] + nv[1] * nv[1] + nv[2] * nv[2])
   if (!(n > 1e-12))
-    throw new EngineError({ code: 'ZERO_VECTOR', field: `${field}.normal`, value: cut.normal, message: 'the normal is the zero vector' })
+    throw new EngineError({
+      code: 'ZERO_VECTOR',
+      field: `${field}.normal`,
+      value: cut.normal,
+      message: 'the normal is the zero vector',
+    })
   const inv = 1 / n
   const z0 = nv[0] * inv
   const z1 = nv[1] * inv
@@ -59,7 +64,12 @@ function cutPlane(cut: CutOrientation, field: string, out?: number[]): number {
   const rv = cut.reference
   const r = Math.sqrt(rv[0] * rv[0] + rv[1] * rv[1] + rv[2] * rv[2])
   if (!(r > 1e-12))
-    throw new EngineError({ code: 'ZERO_VECTOR', field: `${field}.reference`, value: cut.reference, message: 'the reference is the zero vector' })
+    throw new EngineError({
+      code: 'ZERO_VECTOR',
+      field: `${field}.reference`,
+      value: cut.reference,
+      message: 'the reference is the zero vector',
+    })
   const along = rv[0] * z0 + rv[1] * z1 + rv[2] * z2
   const i0 = rv[0] - along * z0
   const i1 = rv[1] - along * z1
@@ -67,7 +77,9 @@ function cutPlane(cut: CutOrientation, field: string, out?: number[]): number {
   const p = Math.sqrt(i0 * i0 + i1 * i1 + i2 * i2)
   if (p < 1e-9 * r)
     throw new EngineError({
-      code: 'REFERENCE_PARALLEL_TO_NORMAL', field: `${field}.reference`, value: cut.reference,
+      code: 'REFERENCE_PARALLEL_TO_NORMAL',
+      field: `${field}.reference`,
+      value: cut.reference,
       message: `the reference ${JSON.stringify(cut.reference)} is parallel to the normal ${JSON.stringify(cut.normal)}`,
       hint: 'choose an in-plane direction, e.g. the wafer flat',
     })

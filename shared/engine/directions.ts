@@ -26,7 +26,9 @@ export function parseDirection(input: unknown, field: string, isCubic: boolean):
   if (Array.isArray(input)) {
     if (input.length !== 3 || !input.every(isFiniteNumber))
       throw new EngineError({
-        code: 'INVALID_DIRECTION', field, value: input,
+        code: 'INVALID_DIRECTION',
+        field,
+        value: input,
         message: `a direction must be an array of 3 finite numbers, got ${JSON.stringify(input)}`,
       })
     v = [input[0], input[1], input[2]]
@@ -39,7 +41,9 @@ export function parseDirection(input: unknown, field: string, isCubic: boolean):
       const miller = parseMiller(input.trim())
       if (miller && !isCubic)
         throw new EngineError({
-          code: 'INVALID_DIRECTION', field, value: input,
+          code: 'INVALID_DIRECTION',
+          field,
+          value: input,
           message: `Miller notation ${input} is only accepted for cubic crystals`,
           hint: 'for non-cubic crystals give X, Y, Z or a Cartesian vector such as [0,0,1]',
         })
@@ -47,13 +51,21 @@ export function parseDirection(input: unknown, field: string, isCubic: boolean):
     }
     if (!v)
       throw new EngineError({
-        code: 'INVALID_DIRECTION', field, value: input, allowed: ['X', 'Y', 'Z', '[uvw]', '(hkl)', '[x,y,z]'],
+        code: 'INVALID_DIRECTION',
+        field,
+        value: input,
+        allowed: ['X', 'Y', 'Z', '[uvw]', '(hkl)', '[x,y,z]'],
         message: `cannot read direction ${JSON.stringify(input)}`,
       })
   } else
     throw new EngineError({
-      code: input === undefined ? 'MISSING_FIELD' : 'INVALID_TYPE', field, value: input,
-      message: input === undefined ? 'a direction is required' : `a direction must be an array of 3 numbers or an axis name, got ${JSON.stringify(input)}`,
+      code: input === undefined ? 'MISSING_FIELD' : 'INVALID_TYPE',
+      field,
+      value: input,
+      message:
+        input === undefined
+          ? 'a direction is required'
+          : `a direction must be an array of 3 numbers or an axis name, got ${JSON.stringify(input)}`,
     })
   if (norm(v) < 1e-12)
     throw new EngineError({ code: 'ZERO_VECTOR', field, value: input, message: 'the direction is the zero vector' })

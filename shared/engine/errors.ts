@@ -58,7 +58,7 @@ export class EngineError extends Error {
 export function formatValue(value: unknown): string {
   let text: string
   try {
-    text = value === undefined ? 'undefined' : JSON.stringify(value) ?? String(value)
+    text = value === undefined ? 'undefined' : (JSON.stringify(value) ?? String(value))
   } catch {
     text = String(value)
   }

@@ -24,29 +24,59 @@ export function describeCut(normal: Vec3, isCubic: boolean): string {
 export function formatSymmetricSet(values: readonly number[]): string {
   const abs = [...new Set(values.map(Math.abs))].sort((a, b) => a - b)
   return abs
-    .flatMap((a) => (a === 0 ? ['0'] : values.includes(a) && values.includes(-a) ? [`±${a}`] : values.filter((v) => Math.abs(v) === a).map(signed)))
+    .flatMap((a) =>
+      a === 0
+        ? ['0']
+        : values.includes(a) && values.includes(-a)
+          ? [`±${a}`]
+          : values.filter((v) => Math.abs(v) === a).map(signed),
+    )
     .join(', ')
 }
 
 const pct = (w: number) => `${(100 * w).toFixed(w < 0.1 ? 1 : 0)}%`
 
 /** Derivation steps that depend only on the sample tensor (the channel path keeps them with its cached sample). */
-export function explainSample(sample: SampleTensor, cut: { normal: Vec3; reference: Vec3; azimuthDeg: number }): string[] {
+export function explainSample(
+  sample: SampleTensor,
+  cut: { normal: Vec3; reference: Vec3; azimuthDeg: number },
+): string[] {
   const { group, form, content } = sample
   const N = form.order
   const notes: string[] = []
   const perm = form.symmetry === 'kleinman' ? 'Kleinman' : 'intrinsic permutation'
-  const forms = N === 2 && form.independentCount > 0 ? `: ${describeDMatrixEqualities(form).join('; ')} (d = χ(2)/2, SHG convention, no factors of 2)` : ''
-  if (sample.isSurface) notes.push(`surface: the bulk tensor of ${group.symbol} is replaced by the isotropic-interface χ(${N}) (class ∞m, z = normal) with ${form.independentCount} independent component${form.independentCount === 1 ? '' : 's'}${forms}`)
-  else if (form.independentCount === 0) notes.push(`χ(${N}) vanishes in the bulk of class ${group.symbol} (${group.schoenflies})${group.isCentrosymmetric && N % 2 === 0 ? ': the class contains inversion, so every even-order bulk susceptibility is zero' : ''}`)
-  else notes.push(`χ(${N}) of class ${group.symbol} (${group.schoenflies}, standard setting) has ${form.independentCount} independent component${form.independentCount === 1 ? '' : 's'} (${perm} symmetry)${forms}`)
+  const forms =
+    N === 2 && form.independentCount > 0
+      ? `: ${describeDMatrixEqualities(form).join('; ')} (d = χ(2)/2, SHG convention, no factors of 2)`
+      : ''
+  if (sample.isSurface)
+    notes.push(
+      `surface: the bulk tensor of ${group.symbol} is replaced by the isotropic-interface χ(${N}) (class ∞m, z = normal) with ${form.independentCount} independent component${form.independentCount === 1 ? '' : 's'}${forms}`,
+    )
+  else if (form.independentCount === 0)
+    notes.push(
+      `χ(${N}) vanishes in the bulk of class ${group.symbol} (${group.schoenflies})${group.isCentrosymmetric && N % 2 === 0 ? ': the class contains inversion, so every even-order bulk susceptibility is zero' : ''}`,
+    )
+  else
+    notes.push(
+      `χ(${N}) of class ${group.symbol} (${group.schoenflies}, standard setting) has ${form.independentCount} independent component${form.independentCount === 1 ? '' : 's'} (${perm} symmetry)${forms}`,
+    )
   const f = sample.frame
-  notes.push(`lab frame: z ∥ ${formatDirection(cut.normal)}, x ∥ ${formatDirection([f[0], f[1], f[2]])} (reference ${formatDirection(cut.reference)} projected into the cut plane${cut.azimuthDeg ? `, rotated by ${cut.azimuthDeg}°` : ''}), y = z × x ∥ ${formatDirection([f[3], f[4], f[5]])}`)
-  const who = sample.isSurface ? `the isotropic interface` : `the ${describeCut(cut.normal, group.isCubic)} of a ${group.symbol} crystal`
-  if (content.q.length === 0) notes.push(`${who} has no χ(${N}) at all: Q is empty and no harmonic of order ${N} is generated`)
+  notes.push(
+    `lab frame: z ∥ ${formatDirection(cut.normal)}, x ∥ ${formatDirection([f[0], f[1], f[2]])} (reference ${formatDirection(cut.reference)} projected into the cut plane${cut.azimuthDeg ? `, rotated by ${cut.azimuthDeg}°` : ''}), y = z × x ∥ ${formatDirection([f[3], f[4], f[5]])}`,
+  )
+  const who = sample.isSurface
+    ? `the isotropic interface`
+    : `the ${describeCut(cut.normal, group.isCubic)} of a ${group.symbol} crystal`
+  if (content.q.length === 0)
+    notes.push(`${who} has no χ(${N}) at all: Q is empty and no harmonic of order ${N} is generated`)
   else {
-    const weights = content.weights.filter((w) => w.q >= 0).map((w) => `${w.q === 0 ? '0' : `±${w.q}`}: ${pct(w.q === 0 ? w.weight : 2 * w.weight)}`)
-    notes.push(`${who} carries Δm = ${formatSymmetricSet(content.q)} only (weights ${weights.join(', ')}); Q does not depend on the in-plane azimuth`)
+    const weights = content.weights
+      .filter((w) => w.q >= 0)
+      .map((w) => `${w.q === 0 ? '0' : `±${w.q}`}: ${pct(w.q === 0 ? w.weight : 2 * w.weight)}`)
+    notes.push(
+      `${who} carries Δm = ${formatSymmetricSet(content.q)} only (weights ${weights.join(', ')}); Q does not depend on the in-plane azimuth`,
+    )
   }
   return notes
 }
@@ -75,7 +105,11 @@ function parityWord(p: Parity): string {
 export function explainRules(x: ChannelExplainInput): string[] {
   return explainRuleSteps(x, {
     pump: describePump(x.pump),
-    structure: describeStructureStep(x.rotationOrder, x.mirrorCount, x.mirrors.map((m) => m.mirror)),
+    structure: describeStructureStep(
+      x.rotationOrder,
+      x.mirrorCount,
+      x.mirrors.map((m) => m.mirror),
+    ),
     pumpSums: signedList(x.pumpSums),
     q: x.q.length ? formatSymmetricSet(x.q) : '',
     allowedM: x.allowedM.length ? signedList(x.allowedM) : 'none',
@@ -109,26 +143,49 @@ export function describeStructureStep(rotationOrder: number, mirrorCount: number
 export function explainRuleSteps(x: ChannelExplainInput, texts: RuleStepTexts): string[] {
   const n = x.rotationOrder
   const steps = [texts.pump, texts.structure]
-  steps.push(`rule 4: m = (sum of ${x.order} pump projections ∈ {${texts.pumpSums}}) + (q ∈ {${texts.q}})${n === 0 ? '' : ` + k·${n}`} → m ∈ {${texts.allowedM}} for |m| ≤ ${x.window}`)
+  steps.push(
+    `rule 4: m = (sum of ${x.order} pump projections ∈ {${texts.pumpSums}}) + (q ∈ {${texts.q}})${n === 0 ? '' : ` + k·${n}`} → m ∈ {${texts.allowedM}} for |m| ≤ ${x.window}`,
+  )
   let hasEven = false
   let hasOdd = false
   for (const r of x.mirrors) {
     if (r.result !== 0) {
-      steps.push(`rule 5 at the mirror ${r.mirror}°: tensor ${parityWord(r.tensor)} × (pump ${parityWord(r.pump)})^${x.order} → the harmonic is ${parityWord(r.result)}`)
+      steps.push(
+        `rule 5 at the mirror ${r.mirror}°: tensor ${parityWord(r.tensor)} × (pump ${parityWord(r.pump)})^${x.order} → the harmonic is ${parityWord(r.result)}`,
+      )
       if (r.result === 1) hasEven = true
       else if (r.result === -1) hasOdd = true
-    } else if (r.tensor === 0) steps.push(`no parity rule at the mirror ${r.mirror}°: the rotated tensor is neither even nor odd under it (it is not a mirror of the cut crystal), so nothing is assumed`)
+    } else if (r.tensor === 0)
+      steps.push(
+        `no parity rule at the mirror ${r.mirror}°: the rotated tensor is neither even nor odd under it (it is not a mirror of the cut crystal), so nothing is assumed`,
+      )
     else steps.push(`no parity rule at the mirror ${r.mirror}°: the pump has no definite parity under it`)
   }
   const ne = x.normalEmission
-  if (!ne.allowed) steps.push(`rule 6: neither m = +1 nor m = −1 is allowed, so no harmonic is emitted along the normal (zeroth order)`)
+  if (!ne.allowed)
+    steps.push(
+      `rule 6: neither m = +1 nor m = −1 is allowed, so no harmonic is emitted along the normal (zeroth order)`,
+    )
   else {
-    const hand = ne.handedness ? ne.m.map((v, i) => `m = ${signed(v)} ${ne.handedness![i]}`).join(', ') : `m = ${signedList(ne.m)}`
-    const pol = ne.polarizationDeg !== undefined ? `; the parity rule fixes its polarisation at ${ne.polarizationDeg}°` : ''
-    const sup = ne.suppressedByParity ? '; however the parity rules demand different polarisations, so this emission cancels by symmetry' : ''
+    const hand = ne.handedness
+      ? ne.m.map((v, i) => `m = ${signed(v)} ${ne.handedness![i]}`).join(', ')
+      : `m = ${signedList(ne.m)}`
+    const pol =
+      ne.polarizationDeg !== undefined ? `; the parity rule fixes its polarisation at ${ne.polarizationDeg}°` : ''
+    const sup = ne.suppressedByParity
+      ? '; however the parity rules demand different polarisations, so this emission cancels by symmetry'
+      : ''
     steps.push(`rule 6: emission along the normal is allowed (${hand}${pol}${sup})`)
   }
-  const zero = !x.allowedM.includes(0) ? '' : hasEven && hasOdd ? '; m = 0 is excluded by conflicting parity rules' : hasOdd ? '; at m = 0 only magnetic multipoles (odd)' : hasEven ? '; at m = 0 only electric multipoles (even)' : ''
+  const zero = !x.allowedM.includes(0)
+    ? ''
+    : hasEven && hasOdd
+      ? '; m = 0 is excluded by conflicting parity rules'
+      : hasOdd
+        ? '; at m = 0 only magnetic multipoles (odd)'
+        : hasEven
+          ? '; at m = 0 only electric multipoles (even)'
+          : ''
   steps.push(`rule 7: ${x.multipoles.length} multipoles (E/M, 1 ≤ l ≤ ${x.lmax}, |m| ≤ l) are allowed${zero}`)
   return steps
 }

@@ -30,15 +30,29 @@ export { prepareSampleTensor, sampleParity } from './sample-tensor'
 export type { SampleTensor, SampleTensorInput } from './sample-tensor'
 
 export {
-  shapeSymmetry, latticeSymmetry, deriveArraySymmetry, intersectStructures, rotateStructure, closeStructure,
-  structureGroupName, normalizeMirror, SHAPE_KINDS, LATTICE_KINDS,
+  shapeSymmetry,
+  latticeSymmetry,
+  deriveArraySymmetry,
+  intersectStructures,
+  rotateStructure,
+  closeStructure,
+  structureGroupName,
+  normalizeMirror,
+  SHAPE_KINDS,
+  LATTICE_KINDS,
 } from './structure'
 export type { StructureSymmetry, ShapeSpec, ShapeKind, LatticeSpec, LatticeKind } from './structure'
 export { pumpProjections, pumpParity, describePump, describeCircularHandedness, isSameMirror, PUMP_TYPES } from './pump'
 export type { PumpSpec, CircularHandedness } from './pump'
 export { parsePump } from './pump-request'
 
-export { sumProjections, findAllowedHarmonics, harmonicParity, findNormalEmission, findAllowedMultipoles } from './selection-rules'
+export {
+  sumProjections,
+  findAllowedHarmonics,
+  harmonicParity,
+  findNormalEmission,
+  findAllowedMultipoles,
+} from './selection-rules'
 export type { AllowedMInput, NormalEmission, Multipole } from './selection-rules'
 export { describeCut, explainSample, explainRules } from './explain'
 export { parseChannelRequest, CHANNEL_DEFAULTS } from './request'

@@ -18,8 +18,7 @@ export const IDENTITY3: Mat3 = [1, 0, 0, 0, 1, 0, 0, 0, 1]
 export function mulMat3(a: Mat3, b: Mat3): Mat3 {
   const out = new Array<number>(9)
   for (let r = 0; r < 3; r++)
-    for (let c = 0; c < 3; c++)
-      out[3 * r + c] = a[3 * r] * b[c] + a[3 * r + 1] * b[3 + c] + a[3 * r + 2] * b[6 + c]
+    for (let c = 0; c < 3; c++) out[3 * r + c] = a[3 * r] * b[c] + a[3 * r + 1] * b[3 + c] + a[3 * r + 2] * b[6 + c]
   return out
 }
 
@@ -34,9 +33,7 @@ export function mulMat3Vec(m: Mat3, v: Vec3): Vec3 {
 
 /** Determinant of a 3×3 matrix. */
 export function det3(m: Mat3): number {
-  return (
-    m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6])
-  )
+  return m[0] * (m[4] * m[8] - m[5] * m[7]) - m[1] * (m[3] * m[8] - m[5] * m[6]) + m[2] * (m[3] * m[7] - m[4] * m[6])
 }
 
 /** Scalar product. */
@@ -66,16 +63,32 @@ export function rotationAboutAxis(axis: Vec3, angleRad: number): Mat3 {
   const s = Math.sin(angleRad)
   const t = 1 - c
   return [
-    t * x * x + c, t * x * y - s * z, t * x * z + s * y,
-    t * x * y + s * z, t * y * y + c, t * y * z - s * x,
-    t * x * z - s * y, t * y * z + s * x, t * z * z + c,
+    t * x * x + c,
+    t * x * y - s * z,
+    t * x * z + s * y,
+    t * x * y + s * z,
+    t * y * y + c,
+    t * y * z - s * x,
+    t * x * z - s * y,
+    t * y * z + s * x,
+    t * z * z + c,
   ]
 }
 
 /** Reflection through the plane with unit normal `n`: I − 2 n nᵀ. */
 export function reflectionMatrix(n: Vec3): Mat3 {
   const [x, y, z] = scale(n, 1 / norm(n))
-  return [1 - 2 * x * x, -2 * x * y, -2 * x * z, -2 * x * y, 1 - 2 * y * y, -2 * y * z, -2 * x * z, -2 * y * z, 1 - 2 * z * z]
+  return [
+    1 - 2 * x * x,
+    -2 * x * y,
+    -2 * x * z,
+    -2 * x * y,
+    1 - 2 * y * y,
+    -2 * y * z,
+    -2 * x * z,
+    -2 * y * z,
+    1 - 2 * z * z,
+  ]
 }
 
 /** Result of {@link rref}: the reduced rows (same width) and the pivot column of each. */

@@ -42,16 +42,40 @@ export interface PlanOption {
 }
 
 const SHAPE_COMPLEXITY: Record<string, number> = {
-  disk: 0, square: 1, rectangle: 1, ellipse: 1, ring: 2, triangle: 2, hexagon: 2, cross: 2,
-  dimer: 3, 'l-shape': 3, 'split-ring': 3, gammadion: 4, custom: 5,
+  disk: 0,
+  square: 1,
+  rectangle: 1,
+  ellipse: 1,
+  ring: 2,
+  triangle: 2,
+  hexagon: 2,
+  cross: 2,
+  dimer: 3,
+  'l-shape': 3,
+  'split-ring': 3,
+  gammadion: 4,
+  custom: 5,
 }
-const LATTICE_COMPLEXITY: Record<string, number> = { single: 0, square: 1, hexagonal: 1, rectangular: 2, oblique: 3, custom: 4 }
+const LATTICE_COMPLEXITY: Record<string, number> = {
+  single: 0,
+  square: 1,
+  hexagonal: 1,
+  rectangular: 2,
+  oblique: 3,
+  custom: 4,
+}
 
 function readShape(v: unknown, f: string): ShapeSpec {
   const o = readObject(v, f)
   const kind = readString(o.kind, `${f}.kind`) as ShapeSpec['kind']
   if (!SHAPE_KINDS.includes(kind))
-    throw new EngineError({ code: 'UNKNOWN_SHAPE', field: `${f}.kind`, value: kind, allowed: SHAPE_KINDS, message: `unknown shape ${JSON.stringify(kind)}` })
+    throw new EngineError({
+      code: 'UNKNOWN_SHAPE',
+      field: `${f}.kind`,
+      value: kind,
+      allowed: SHAPE_KINDS,
+      message: `unknown shape ${JSON.stringify(kind)}`,
+    })
   const rotationOrder = o.rotationOrder === undefined ? undefined : readNumber(o.rotationOrder, `${f}.rotationOrder`)
   const mirrors = readArray(o.mirrors, `${f}.mirrors`, (x, g) => readNumber(x, g), [])
   return { kind, azimuthDeg: readNumber(o.azimuthDeg, `${f}.azimuthDeg`, 0), rotationOrder, mirrors }
@@ -61,7 +85,13 @@ function readLattice(v: unknown, f: string): LatticeSpec {
   const o = readObject(v, f)
   const kind = readString(o.kind, `${f}.kind`) as LatticeSpec['kind']
   if (!LATTICE_KINDS.includes(kind))
-    throw new EngineError({ code: 'UNKNOWN_LATTICE', field: `${f}.kind`, value: kind, allowed: LATTICE_KINDS, message: `unknown lattice ${JSON.stringify(kind)}` })
+    throw new EngineError({
+      code: 'UNKNOWN_LATTICE',
+      field: `${f}.kind`,
+      value: kind,
+      allowed: LATTICE_KINDS,
+      message: `unknown lattice ${JSON.stringify(kind)}`,
+    })
   const rotationOrder = o.rotationOrder === undefined ? undefined : readNumber(o.rotationOrder, `${f}.rotationOrder`)
   return { kind, rotationOrder, mirrors: readArray(o.mirrors, `${f}.mirrors`, (x, g) => readNumber(x, g), []) }
 }
@@ -70,8 +100,12 @@ function wantedM(want: WantedEmission, pump: PumpSpec): number[] {
   if (want === 'any') return [-1, 1]
   if (pump.type !== 'circular')
     throw new EngineError({
-      code: 'OUT_OF_RANGE', field: 'want', value: want, allowed: ['any'],
-      message: `"${want}" is defined only for a circular pump, got a ${pump.type} pump`, hint: 'use want: "any"',
+      code: 'OUT_OF_RANGE',
+      field: 'want',
+      value: want,
+      allowed: ['any'],
+      message: `"${want}" is defined only for a circular pump, got a ${pump.type} pump`,
+      hint: 'use want: "any"',
     })
   return [want === 'co' ? pump.m : -pump.m]
 }
@@ -84,10 +118,19 @@ function wantedM(want: WantedEmission, pump: PumpSpec): number[] {
 export function planFabrication(request: unknown): PlanOption[] {
   const r = readObject(request, '')
   const group = getPointGroup(readString(r.pointGroup, 'pointGroup'), 'pointGroup')
-  const cuts = readArray(r.cuts, 'cuts', (v, f) => {
-    const c = readObject(v, f)
-    return { normal: parseDirection(c.normal, `${f}.normal`, group.isCubic), reference: parseDirection(c.reference, `${f}.reference`, group.isCubic) }
-  }, undefined, true)
+  const cuts = readArray(
+    r.cuts,
+    'cuts',
+    (v, f) => {
+      const c = readObject(v, f)
+      return {
+        normal: parseDirection(c.normal, `${f}.normal`, group.isCubic),
+        reference: parseDirection(c.reference, `${f}.reference`, group.isCubic),
+      }
+    },
+    undefined,
+    true,
+  )
   const shapes = readArray(r.shapes, 'shapes', readShape, undefined, true)
   const lattices = readArray(r.lattices, 'lattices', readLattice, [{ kind: 'single' }])
   const pump = parsePump(r.pump)
@@ -96,28 +139,58 @@ export function planFabrication(request: unknown): PlanOption[] {
   const order = r.order
   const want = readString(r.want ?? 'any', 'want') as WantedEmission
   if (!['co', 'counter', 'any'].includes(want))
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'want', value: want, allowed: ['co', 'counter', 'any'], message: `must be co, counter or any, got ${JSON.stringify(want)}` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'want',
+      value: want,
+      allowed: ['co', 'counter', 'any'],
+      message: `must be co, counter or any, got ${JSON.stringify(want)}`,
+    })
   const surface = readBoolean(r.surface, 'surface', false)
   const targets = wantedM(want, pump)
   const sums = sumProjections(pumpProjections(pump), order)
   const options: PlanOption[] = []
   cuts.forEach((cut, cutIndex) => {
-    const { sample } = sampleEntry({ pointGroup: group.symbol, normal: cut.normal, reference: cut.reference, order, surface })
+    const { sample } = sampleEntry({
+      pointGroup: group.symbol,
+      normal: cut.normal,
+      reference: cut.reference,
+      order,
+      surface,
+    })
     shapes.forEach((shape, si) =>
       lattices.forEach((lattice, li) => {
         const sym = deriveArraySymmetry(shape, lattice)
         const n = sym.rotationOrder
-        const allowedM = findAllowedHarmonics({ pumpProjections: pumpProjections(pump), order, q: sample.content.q, rotationOrder: n, window: order + 6 })
+        const allowedM = findAllowedHarmonics({
+          pumpProjections: pumpProjections(pump),
+          order,
+          q: sample.content.q,
+          rotationOrder: n,
+          window: order + 6,
+        })
         const normalM = targets.filter((t) => allowedM.includes(t))
         if (normalM.length === 0) return
-        const reaches = (q: number) => normalM.some((t) => sums.some((s) => (n === 0 ? t - s - q === 0 : (((t - s - q) % n) + n) % n === 0)))
+        const reaches = (q: number) =>
+          normalM.some((t) => sums.some((s) => (n === 0 ? t - s - q === 0 : (((t - s - q) % n) + n) % n === 0)))
         const used = sample.content.weights.filter((w) => reaches(w.q))
         const weight = Math.round(used.reduce((a, w) => a + w.weight, 0) * 1e9) / 1e9
         const name = structureGroupName(sym)
         const cutName = describeCut(cut.normal, group.isCubic)
-        const hand = pump.type === 'circular' ? normalM.map((x) => (x === pump.m ? 'co-rotating' : 'counter-rotating')).join(' and ') : `m = ${normalM.map(signed).join(', ')}`
+        const hand =
+          pump.type === 'circular'
+            ? normalM.map((x) => (x === pump.m ? 'co-rotating' : 'counter-rotating')).join(' and ')
+            : `m = ${normalM.map(signed).join(', ')}`
         options.push({
-          cutIndex, cut: cutName, shape: shapes[si], lattice: lattices[li], structureGroup: name, rotationOrder: n, allowedM, normalM, weight,
+          cutIndex,
+          cut: cutName,
+          shape: shapes[si],
+          lattice: lattices[li],
+          structureGroup: name,
+          rotationOrder: n,
+          allowedM,
+          normalM,
+          weight,
           complexity: (SHAPE_COMPLEXITY[shape.kind] ?? 5) + (LATTICE_COMPLEXITY[lattice.kind] ?? 4),
           reason: `${cutName} of ${group.symbol}, ${shape.kind} on a ${lattice.kind} lattice (${name}): ${hand} emission along the normal through q ∈ {${used.map((w) => signed(w.q)).join(', ')}}${n === 0 ? '' : ` + k·${n}`} (weight ${(100 * weight).toFixed(0)}%)`,
         })

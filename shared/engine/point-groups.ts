@@ -28,8 +28,18 @@ export interface PointGroup {
 export const POINT_GROUP_SYMBOLS: readonly string[] = POINT_GROUP_TABLE.map((e) => e.symbol)
 
 const ALIASES: Record<string, string> = {
-  m3m: 'm-3m', 'm3': 'm-3', '43m': '-43m', '-3m1': '-3m', '3m1': '3m', '321': '32',
-  '-62m': '-6m2', '∞mm': '∞m', infm: '∞m', 'inf-m': '∞m', isotropic: '∞∞m', infinfm: '∞∞m',
+  m3m: 'm-3m',
+  m3: 'm-3',
+  '43m': '-43m',
+  '-3m1': '-3m',
+  '3m1': '3m',
+  '321': '32',
+  '-62m': '-6m2',
+  '∞mm': '∞m',
+  infm: '∞m',
+  'inf-m': '∞m',
+  isotropic: '∞∞m',
+  infinfm: '∞∞m',
 }
 
 function matrixKey(m: Mat3): string {
@@ -68,7 +78,11 @@ function build(symbol: string): PointGroup {
     const elements = closeGroup(generators)
     const inv = matrixKey(SYMMETRY_OPERATIONS.I)
     return Object.freeze({
-      symbol, schoenflies: entry.schoenflies, system: entry.system, generators: frozenMatrices(generators), elements: frozenMatrices(elements),
+      symbol,
+      schoenflies: entry.schoenflies,
+      system: entry.system,
+      generators: frozenMatrices(generators),
+      elements: frozenMatrices(elements),
       order: elements.length,
       isCentrosymmetric: elements.some((g) => matrixKey(g) === inv),
       isCubic: entry.system === 'cubic',
@@ -76,7 +90,11 @@ function build(symbol: string): PointGroup {
   }
   const limit = LIMIT_GROUP_TABLE.find((e) => e.symbol === symbol)!
   return Object.freeze({
-    symbol, schoenflies: limit.schoenflies, system: 'limiting' as const, generators: frozenMatrices(limit.generators), elements: Object.freeze([]),
+    symbol,
+    schoenflies: limit.schoenflies,
+    system: 'limiting' as const,
+    generators: frozenMatrices(limit.generators),
+    elements: Object.freeze([]),
     order: Infinity,
     isCentrosymmetric: limit.generators.some((g) => det3(g) < 0 && matrixKey(g) === matrixKey(SYMMETRY_OPERATIONS.I)),
     isCubic: false,
@@ -102,7 +120,10 @@ export function getPointGroup(symbol: string, field = 'pointGroup'): PointGroup 
   const canonical = typeof symbol === 'string' ? normalizePointGroupSymbol(symbol) : undefined
   if (!canonical)
     throw new EngineError({
-      code: 'UNKNOWN_POINT_GROUP', field, value: symbol, allowed: POINT_GROUP_SYMBOLS,
+      code: 'UNKNOWN_POINT_GROUP',
+      field,
+      value: symbol,
+      allowed: POINT_GROUP_SYMBOLS,
       message: `unknown point group ${JSON.stringify(symbol)}; expected a Hermann–Mauguin symbol of one of the 32 classes`,
       hint: 'use ASCII Hermann–Mauguin symbols such as -43m, 3m, 6mm, m-3m, or ∞m for an isotropic interface',
     })

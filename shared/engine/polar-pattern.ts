@@ -16,7 +16,13 @@ export interface PolarPoint {
 /** Polar pattern of a lab-frame rank-3 tensor (flat, 27 components) at the given angles. */
 export function predictPolarPattern(chi2Lab: Float64Array, anglesDeg: readonly number[]): PolarPoint[] {
   if (chi2Lab.length !== 27)
-    throw new EngineError({ code: 'UNSUPPORTED', field: 'tensor', value: chi2Lab.length, allowed: [27], message: 'the polar pattern needs a rank-3 χ(2) tensor (27 components)' })
+    throw new EngineError({
+      code: 'UNSUPPORTED',
+      field: 'tensor',
+      value: chi2Lab.length,
+      allowed: [27],
+      message: 'the polar pattern needs a rank-3 χ(2) tensor (27 components)',
+    })
   return anglesDeg.map((angleDeg) => {
     const a = (angleDeg * Math.PI) / 180
     const e = [Math.cos(a), Math.sin(a), 0]

@@ -25,13 +25,18 @@ export const PUMP_TYPES = ['circular', 'linear', 'elliptical', 'vortex', 'radial
  */
 export function pumpProjections(pump: PumpSpec): number[] {
   switch (pump.type) {
-    case 'circular': return [pump.m]
+    case 'circular':
+      return [pump.m]
     case 'linear':
-    case 'elliptical': return [-1, 1]
-    case 'vortex': return [pump.spin + pump.charge]
+    case 'elliptical':
+      return [-1, 1]
+    case 'vortex':
+      return [pump.spin + pump.charge]
     case 'radial':
-    case 'azimuthal': return [0]
-    case 'explicit': return [...new Set(pump.m)].sort((a, b) => a - b)
+    case 'azimuthal':
+      return [0]
+    case 'explicit':
+      return [...new Set(pump.m)].sort((a, b) => a - b)
   }
 }
 
@@ -53,11 +58,14 @@ export function pumpParity(pump: PumpSpec, psiDeg: number): Parity {
       if (close(psiDeg, pump.angle)) return 1
       if (close(psiDeg, pump.angle + 90)) return -1
       return 0
-    case 'radial': return 1
-    case 'azimuthal': return -1
+    case 'radial':
+      return 1
+    case 'azimuthal':
+      return -1
     case 'explicit':
       return pump.parity && close(psiDeg, pump.parity.mirror) ? pump.parity.sign : 0
-    default: return 0
+    default:
+      return 0
   }
 }
 
@@ -85,7 +93,7 @@ function words(helicity: 1 | -1): string {
  */
 export function describeCircularHandedness(m: 1 | -1): CircularHandedness {
   const plus = m
-  const minus = (-m) as 1 | -1
+  const minus = -m as 1 | -1
   return {
     m,
     rotationSeenFromAbove: m > 0 ? 'counter-clockwise' : 'clockwise',
@@ -98,13 +106,20 @@ export function describeCircularHandedness(m: 1 | -1): CircularHandedness {
 export function describePump(pump: PumpSpec): string {
   const m = pumpProjections(pump).map(signed).join(', ')
   switch (pump.type) {
-    case 'circular': return `circular pump, m = ${signed(pump.m)} (${describeCircularHandedness(pump.m).rotationSeenFromAbove} seen from +z)`
-    case 'linear': return `linear pump polarised at ${pump.angle}°, m ∈ {${m}}, even under the mirror at ${normalizeMirror(pump.angle)}° and odd under the one at ${normalizeMirror(pump.angle + 90)}°`
-    case 'elliptical': return `elliptical pump, m ∈ {${m}}, no mirror parity`
-    case 'vortex': return `vortex pump, spin ${signed(pump.spin)} and charge ${signed(pump.charge)}: m = ${m}, no mirror parity`
-    case 'radial': return 'radially polarised pump, m = 0, even under every vertical mirror'
-    case 'azimuthal': return 'azimuthally polarised pump, m = 0, odd under every vertical mirror'
-    case 'explicit': return `pump with m ∈ {${m}}${pump.parity ? `, ${pump.parity.sign > 0 ? 'even' : 'odd'} under the mirror at ${pump.parity.mirror}°` : ', no declared parity'}`
+    case 'circular':
+      return `circular pump, m = ${signed(pump.m)} (${describeCircularHandedness(pump.m).rotationSeenFromAbove} seen from +z)`
+    case 'linear':
+      return `linear pump polarised at ${pump.angle}°, m ∈ {${m}}, even under the mirror at ${normalizeMirror(pump.angle)}° and odd under the one at ${normalizeMirror(pump.angle + 90)}°`
+    case 'elliptical':
+      return `elliptical pump, m ∈ {${m}}, no mirror parity`
+    case 'vortex':
+      return `vortex pump, spin ${signed(pump.spin)} and charge ${signed(pump.charge)}: m = ${m}, no mirror parity`
+    case 'radial':
+      return 'radially polarised pump, m = 0, even under every vertical mirror'
+    case 'azimuthal':
+      return 'azimuthally polarised pump, m = 0, odd under every vertical mirror'
+    case 'explicit':
+      return `pump with m ∈ {${m}}${pump.parity ? `, ${pump.parity.sign > 0 ? 'even' : 'odd'} under the mirror at ${pump.parity.mirror}°` : ', no declared parity'}`
   }
 }
 
@@ -120,7 +135,9 @@ function formatSigned(n: number): string {
 
 /** Texts of the small integers, formed once (projections and m stay well inside ±SIGNED_SPAN). */
 const SIGNED_SPAN = 256
-const SIGNED_TEXT: readonly string[] = Array.from({ length: 2 * SIGNED_SPAN + 1 }, (_, i) => formatSigned(i - SIGNED_SPAN))
+const SIGNED_TEXT: readonly string[] = Array.from({ length: 2 * SIGNED_SPAN + 1 }, (_, i) =>
+  formatSigned(i - SIGNED_SPAN),
+)
 
 /** Signed texts of a (dense) list joined by `, `: the same text as `values.map(signed).join(', ')`. */
 export function signedList(values: readonly number[]): string {

@@ -30,7 +30,14 @@ export interface ChannelRequest {
 }
 
 /** Default values of the optional request fields. */
-export const CHANNEL_DEFAULTS = { surface: false, kleinman: false, azimuthDeg: 0, mirrors: [] as number[], lmax: 4, window: 8 } as const
+export const CHANNEL_DEFAULTS = {
+  surface: false,
+  kleinman: false,
+  azimuthDeg: 0,
+  mirrors: [] as number[],
+  lmax: 4,
+  window: 8,
+} as const
 
 /** Validate an untrusted request; throws EngineError whose `field` is the dot path of the bad input. */
 export function parseChannelRequest(input: unknown): ChannelRequest {
@@ -53,7 +60,9 @@ export function parseChannelRequest(input: unknown): ChannelRequest {
     crystal: { pointGroup: group.symbol, normal, reference, azimuthDeg },
     surface: readBoolean(r.surface, 'surface', CHANNEL_DEFAULTS.surface),
     kleinman: readBoolean(r.kleinman, 'kleinman', CHANNEL_DEFAULTS.kleinman),
-    structure, pump, order: r.order,
+    structure,
+    pump,
+    order: r.order,
     lmax: readInteger(r.lmax, 'lmax', 1, 8, CHANNEL_DEFAULTS.lmax),
     window: readInteger(r.window, 'window', 1, 64, CHANNEL_DEFAULTS.window),
   }

@@ -71,7 +71,9 @@ export function sampleTensorKey(input: SampleTensorInput): string {
 
 /** `v.join(',')`, formed without the array call for the usual three numbers. */
 function vectorKey(v: Vec3): string {
-  return v.length === 3 && typeof v[0] === 'number' && typeof v[1] === 'number' && typeof v[2] === 'number' ? `${v[0]},${v[1]},${v[2]}` : v.join(',')
+  return v.length === 3 && typeof v[0] === 'number' && typeof v[1] === 'number' && typeof v[2] === 'number'
+    ? `${v[0]},${v[1]},${v[2]}`
+    : v.join(',')
 }
 
 /** The cached entry of a sample (engine-internal). Throws EngineError for bad group, order or vectors. */
@@ -88,22 +90,47 @@ function makeEntry(key: string, input: SampleTensorInput): SampleEntry {
   const form = cachedTensorForm(isSurface ? '∞m' : group.symbol, input.order, { symmetry })
   const tensors = isSurface ? form.tensors : Object.freeze(form.tensors.map((t) => rotateToSample(t, form.rank, frame)))
   const c = computeCylindricalContent(tensors, form.rank)
-  const content = Object.freeze({ q: Object.freeze(c.q), weights: Object.freeze(c.weights.map((w) => Object.freeze(w))) }) as Readonly<CylindricalContent>
-  const sample: SampleTensor = Object.freeze({ key, group, form, isSurface, frame: Object.freeze(frame.slice()), rank: form.rank, tensors, content })
-  return { sample, qKey: content.q.join(','), qText: content.q.length ? formatSymmetricSet(content.q) : '', parities: new BoundedCache(MAX_PARITIES) }
+  const content = Object.freeze({
+    q: Object.freeze(c.q),
+    weights: Object.freeze(c.weights.map((w) => Object.freeze(w))),
+  }) as Readonly<CylindricalContent>
+  const sample: SampleTensor = Object.freeze({
+    key,
+    group,
+    form,
+    isSurface,
+    frame: Object.freeze(frame.slice()),
+    rank: form.rank,
+    tensors,
+    content,
+  })
+  return {
+    sample,
+    qKey: content.q.join(','),
+    qText: content.q.length ? formatSymmetricSet(content.q) : '',
+    parities: new BoundedCache(MAX_PARITIES),
+  }
 }
 
 /** The lab-frame χ(N) of a sample, the caller's own copy. Throws EngineError for bad group, order or vectors. */
 export function prepareSampleTensor(input: SampleTensorInput): SampleTensor {
   const s = sampleEntry(input).sample
   return {
-    ...s, form: { ...s.form, space: { ...s.form.space, parameterOf: s.form.space.parameterOf.slice() }, tensors: s.form.tensors.map((t) => t.slice()) },
+    ...s,
+    form: {
+      ...s.form,
+      space: { ...s.form.space, parameterOf: s.form.space.parameterOf.slice() },
+      tensors: s.form.tensors.map((t) => t.slice()),
+    },
     tensors: s.tensors.map((t) => t.slice()),
   }
 }
 
 /** The derivation steps that depend only on the sample, made once per cached sample. */
-export function sampleNotes(entry: SampleEntry, cut: { normal: Vec3; reference: Vec3; azimuthDeg: number }): readonly string[] {
+export function sampleNotes(
+  entry: SampleEntry,
+  cut: { normal: Vec3; reference: Vec3; azimuthDeg: number },
+): readonly string[] {
   return (entry.notes ??= Object.freeze(explainSample(entry.sample, cut)))
 }
 
@@ -115,7 +142,9 @@ export function sampleParity(sample: SampleTensor, psiDeg: number): Parity {
 /** {@link sampleParity} of a cached sample for an azimuth already reduced by `normalizeMirror`, kept with the entry. */
 export function entryParity(entry: SampleEntry, psi: number): Parity {
   const hit = entry.parities.get(psi)
-  return hit !== undefined ? hit : entry.parities.set(psi, computeMirrorParity(entry.sample.tensors, entry.sample.rank, psi))
+  return hit !== undefined
+    ? hit
+    : entry.parities.set(psi, computeMirrorParity(entry.sample.tensors, entry.sample.rank, psi))
 }
 
 /** Empty the sample-tensor cache (benchmarks measure cold evaluations with it). */

@@ -45,7 +45,15 @@ const TABLE_WINDOW = 4096
  * input takes the general set-and-sort path, which gives the same list.
  */
 export function allowedFromSums(sums: readonly number[], q: readonly number[], n: number, window: number): number[] {
-  if (!(Number.isInteger(window) && window >= 0 && window <= TABLE_WINDOW && Number.isInteger(n) && n >= 0 && allIntegers(sums) && allIntegers(q)))
+  if (!(
+    Number.isInteger(window) &&
+    window >= 0 &&
+    window <= TABLE_WINDOW &&
+    Number.isInteger(n) &&
+    n >= 0 &&
+    allIntegers(sums) &&
+    allIntegers(q)
+  ))
     return allowedBySet(sums, q, n, window)
   const out: number[] = []
   if (q.length === 0 || sums.length === 0) return out
@@ -120,7 +128,8 @@ export function findNormalEmission(allowedM: readonly number[], pumpM?: 1 | -1):
   if (allowedM.includes(-1)) m.push(-1)
   if (allowedM.includes(1)) m.push(1)
   const out: NormalEmission = { allowed: m.length > 0, m }
-  if (pumpM !== undefined && m.length > 0) out.handedness = m.map((x) => (x === pumpM ? 'co-rotating' : 'counter-rotating'))
+  if (pumpM !== undefined && m.length > 0)
+    out.handedness = m.map((x) => (x === pumpM ? 'co-rotating' : 'counter-rotating'))
   return out
 }
 
@@ -138,7 +147,11 @@ export interface Multipole {
  * and one odd combination, so both remain.
  * @param paritySigns signs of the parity rules that apply (rule 5), one per mirror.
  */
-export function findAllowedMultipoles(allowedM: readonly number[], paritySigns: readonly (1 | -1)[], lmax: number): Multipole[] {
+export function findAllowedMultipoles(
+  allowedM: readonly number[],
+  paritySigns: readonly (1 | -1)[],
+  lmax: number,
+): Multipole[] {
   const hasEven = paritySigns.includes(1)
   const hasOdd = paritySigns.includes(-1)
   const out: Multipole[] = []

@@ -16,9 +16,13 @@ export interface StructureSymmetry {
 
 /** Meta-atom shapes. Orientations in the meta-atom frame are given beside each. */
 export type ShapeKind =
-  | 'disk' | 'ring' // C∞v
-  | 'ellipse' | 'rectangle' | 'dimer' // C2v, long axis (dimer axis) along x
-  | 'square' | 'cross' // C4v, sides / equal arms along x and y
+  | 'disk'
+  | 'ring' // C∞v
+  | 'ellipse'
+  | 'rectangle'
+  | 'dimer' // C2v, long axis (dimer axis) along x
+  | 'square'
+  | 'cross' // C4v, sides / equal arms along x and y
   | 'triangle' // C3v, equilateral, one vertex along +y
   | 'hexagon' // C6v, one vertex along +x
   | 'l-shape' // C1 + the mirror at 45° (equal arms along +x and +y)
@@ -86,16 +90,23 @@ function gcd(a: number, b: number): number {
  * Close a (rotationOrder, mirrors) description into a group: with an n-fold axis, one mirror ψ
  * implies mirrors ψ + k·180/n; with n = ∞ any mirror implies all of them.
  */
-export function closeStructure(rotationOrder: number, mirrors: readonly number[] | 'all', field = 'structure'): StructureSymmetry {
+export function closeStructure(
+  rotationOrder: number,
+  mirrors: readonly number[] | 'all',
+  field = 'structure',
+): StructureSymmetry {
   if (!Number.isInteger(rotationOrder) || rotationOrder < 0)
     throw new EngineError({
-      code: 'OUT_OF_RANGE', field: `${field}.rotationOrder`, value: rotationOrder,
+      code: 'OUT_OF_RANGE',
+      field: `${field}.rotationOrder`,
+      value: rotationOrder,
       message: `rotationOrder must be a non-negative integer (0 = ∞), got ${JSON.stringify(rotationOrder)}`,
     })
   if (mirrors === 'all') return { rotationOrder, mirrors: 'all' }
   if (rotationOrder === 0) return { rotationOrder, mirrors: mirrors.length > 0 ? 'all' : [] }
   const set = new Set<number>()
-  for (const psi of mirrors) for (let k = 0; k < rotationOrder; k++) set.add(normalizeMirror(psi + (k * 180) / rotationOrder))
+  for (const psi of mirrors)
+    for (let k = 0; k < rotationOrder; k++) set.add(normalizeMirror(psi + (k * 180) / rotationOrder))
   return { rotationOrder, mirrors: [...set].sort((a, b) => a - b) }
 }
 
@@ -106,7 +117,10 @@ export function shapeSymmetry(shape: ShapeSpec, field = 'shape'): StructureSymme
   else if (shape.kind in SHAPES) base = SHAPES[shape.kind as Exclude<ShapeKind, 'custom'>]
   else
     throw new EngineError({
-      code: 'UNKNOWN_SHAPE', field: `${field}.kind`, value: shape.kind, allowed: SHAPE_KINDS,
+      code: 'UNKNOWN_SHAPE',
+      field: `${field}.kind`,
+      value: shape.kind,
+      allowed: SHAPE_KINDS,
       message: `unknown shape ${JSON.stringify(shape.kind)}`,
     })
   return rotateStructure(base, shape.azimuthDeg ?? 0)
@@ -117,7 +131,10 @@ export function latticeSymmetry(lattice: LatticeSpec, field = 'lattice'): Struct
   if (lattice.kind === 'custom') return closeStructure(lattice.rotationOrder ?? 1, lattice.mirrors ?? [], field)
   if (lattice.kind in LATTICES) return LATTICES[lattice.kind as Exclude<LatticeKind, 'custom'>]
   throw new EngineError({
-    code: 'UNKNOWN_LATTICE', field: `${field}.kind`, value: lattice.kind, allowed: LATTICE_KINDS,
+    code: 'UNKNOWN_LATTICE',
+    field: `${field}.kind`,
+    value: lattice.kind,
+    allowed: LATTICE_KINDS,
     message: `unknown lattice ${JSON.stringify(lattice.kind)}`,
   })
 }
@@ -125,7 +142,10 @@ export function latticeSymmetry(lattice: LatticeSpec, field = 'lattice'): Struct
 /** Rotate a structure's group by `azimuthDeg` about the normal (mirrors shift by the azimuth). */
 export function rotateStructure(s: StructureSymmetry, azimuthDeg: number): StructureSymmetry {
   if (s.mirrors === 'all' || azimuthDeg === 0) return s
-  return { rotationOrder: s.rotationOrder, mirrors: s.mirrors.map((m) => normalizeMirror(m + azimuthDeg)).sort((a, b) => a - b) }
+  return {
+    rotationOrder: s.rotationOrder,
+    mirrors: s.mirrors.map((m) => normalizeMirror(m + azimuthDeg)).sort((a, b) => a - b),
+  }
 }
 
 /** Common subgroup of two structure groups (intersection): n = gcd(n1, n2) with 0 = ∞, mirrors ∩. */

@@ -47,7 +47,10 @@ export interface TensorFormOptions {
 export function assertOrder(order: unknown, field = 'order'): asserts order is number {
   if (typeof order !== 'number' || !Number.isInteger(order) || order < MIN_ORDER || order > MAX_ORDER)
     throw new EngineError({
-      code: 'OUT_OF_RANGE', field, value: order, allowed: [2, 3, 4, 5],
+      code: 'OUT_OF_RANGE',
+      field,
+      value: order,
+      allowed: [2, 3, 4, 5],
       message: `order must be an integer from ${MIN_ORDER} to ${MAX_ORDER} (χ(N), N = 2 for SHG), got ${JSON.stringify(order)}`,
     })
 }
@@ -84,7 +87,16 @@ export function solveInvariantSubspace(
   space.orbits.forEach((o, p) => {
     if (clean.some((v) => v[p] !== 0)) nonZeroCount += o.length
   })
-  return { rank, symmetry, space: copySpace(space), basis: clean, tensors, pivots, independentCount: clean.length, nonZeroCount }
+  return {
+    rank,
+    symmetry,
+    space: copySpace(space),
+    basis: clean,
+    tensors,
+    pivots,
+    independentCount: clean.length,
+    nonZeroCount,
+  }
 }
 
 /** A caller's own copy of a parameter space (its index table is a typed array, which cannot be frozen). */
@@ -125,9 +137,13 @@ export function cachedTensorForm(pointGroup: string, order: number, options: Ten
   return formCache.getOrSet(`${group.symbol}|${order}|${symmetry}`, () => {
     const solved = solveInvariantSubspace(group.generators, order + 1, symmetry)
     return Object.freeze({
-      pointGroup: group.symbol, order, ...solved,
-      space: Object.freeze(solved.space), basis: Object.freeze(solved.basis.map((row) => Object.freeze(row))),
-      tensors: Object.freeze(solved.tensors), pivots: Object.freeze(solved.pivots),
+      pointGroup: group.symbol,
+      order,
+      ...solved,
+      space: Object.freeze(solved.space),
+      basis: Object.freeze(solved.basis.map((row) => Object.freeze(row))),
+      tensors: Object.freeze(solved.tensors),
+      pivots: Object.freeze(solved.pivots),
     })
   })
 }

@@ -27,7 +27,9 @@ export function indexDigits(flat: number, rank: number): number[] {
 
 /** Axis label (e.g. `xyz`) of a flat index. */
 export function indexLabel(flat: number, rank: number): string {
-  return indexDigits(flat, rank).map((d) => AXES[d]).join('')
+  return indexDigits(flat, rank)
+    .map((d) => AXES[d])
+    .join('')
 }
 
 /** Flat index of an axis label such as `xyz`. */
@@ -84,7 +86,10 @@ function orderKey(digits: number[]): number {
   return digits.reduce((f, d) => 3 * f + d, 0)
 }
 
-/** Per (rank, symmetry): a handful of entries (ranks 3–6, three modes). Orbits and labels are frozen; `parameterOf` never leaves the engine uncopied. */
+/**
+ * Per (rank, symmetry): a handful of entries (ranks 3–6, three modes). Orbits and labels are frozen; `parameterOf`
+ * never leaves the engine uncopied.
+ */
 const spaceCache = new BoundedCache<string, ParameterSpace>(64)
 
 /** Parameter space of a rank-`rank` tensor under the given permutation symmetry (cached). */
@@ -107,7 +112,13 @@ export function parameterSpace(rank: number, symmetry: PermutationSymmetry): Par
     const best = [...o].sort((a, b) => orderKey(indexDigits(a, rank)) - orderKey(indexDigits(b, rank)) || a - b)[0]
     return indexLabel(best, rank)
   })
-  const space: ParameterSpace = Object.freeze({ rank, symmetry, orbits: Object.freeze(orbits.map((o) => Object.freeze(o))), labels: Object.freeze(labels), parameterOf })
+  const space: ParameterSpace = Object.freeze({
+    rank,
+    symmetry,
+    orbits: Object.freeze(orbits.map((o) => Object.freeze(o))),
+    labels: Object.freeze(labels),
+    parameterOf,
+  })
   return spaceCache.set(cacheKey, space)
 }
 

@@ -20,7 +20,12 @@ export function voigtName(i: number, l: number): string {
 /** Numeric 3×6 d-matrix of a rank-3 flat tensor (entries d_il = T_{i,jk}). */
 export function toVoigt(t: Float64Array): number[][] {
   if (t.length !== 27)
-    throw new EngineError({ code: 'UNSUPPORTED', field: 'tensor', value: t.length, message: 'Voigt notation needs a rank-3 tensor (27 components)' })
+    throw new EngineError({
+      code: 'UNSUPPORTED',
+      field: 'tensor',
+      value: t.length,
+      message: 'Voigt notation needs a rank-3 tensor (27 components)',
+    })
   return [0, 1, 2].map((i) => PAIR_LABELS.map((p) => t[flatIndex(AXES[i] + p)]))
 }
 
@@ -30,7 +35,13 @@ export type SymbolicEntry = readonly { parameter: string; coefficient: number }[
 /** Symbolic 3×6 d-matrix of a solved χ(2) form: each entry is Σ coefficient × parameter. */
 export function formDMatrix(form: TensorForm): SymbolicEntry[][] {
   if (form.rank !== 3)
-    throw new EngineError({ code: 'UNSUPPORTED', field: 'order', value: form.order, allowed: [2], message: 'a d-matrix exists only for χ(2)' })
+    throw new EngineError({
+      code: 'UNSUPPORTED',
+      field: 'order',
+      value: form.order,
+      allowed: [2],
+      message: 'a d-matrix exists only for χ(2)',
+    })
   const names = form.pivots.map((p) => pivotName(form, p))
   return [0, 1, 2].map((i) =>
     PAIR_LABELS.map((pair) => {
@@ -72,7 +83,9 @@ export function describeDMatrixEqualities(form: TensorForm): string[] {
         if (name !== parameter) list.push(`${formatCoefficient(1 / coefficient, false)}${name}`)
         single.set(parameter, list)
       } else {
-        mixed.push(`${name} = ${entry.map((e, k) => `${k > 0 ? (e.coefficient < 0 ? ' − ' : ' + ') : e.coefficient < 0 ? '−' : ''}${formatCoefficient(Math.abs(e.coefficient), true)}${e.parameter}`).join('')}`)
+        mixed.push(
+          `${name} = ${entry.map((e, k) => `${k > 0 ? (e.coefficient < 0 ? ' − ' : ' + ') : e.coefficient < 0 ? '−' : ''}${formatCoefficient(Math.abs(e.coefficient), true)}${e.parameter}`).join('')}`,
+        )
       }
     }),
   )
@@ -82,5 +95,7 @@ export function describeDMatrixEqualities(form: TensorForm): string[] {
 
 /** Number of non-zero entries of the 3×6 d-matrix of a solved χ(2) form. */
 export function countNonZeroVoigt(form: TensorForm): number {
-  return formDMatrix(form).flat().filter((e) => e.length > 0).length
+  return formDMatrix(form)
+    .flat()
+    .filter((e) => e.length > 0).length
 }

@@ -27,7 +27,7 @@ export interface ClassHintInput {
   averagePowerW?: number
   /** 1/e² beam diameter at 100 mm from the exit (mm); a beam over 7 mm may be 1M/2M. Default 1 mm. */
   beamDiameterMm?: number
-  pulse?: { durationS: number, repetitionRateHz?: number | null, energyJ?: number | null }
+  pulse?: { durationS: number; repetitionRateHz?: number | null; energyJ?: number | null }
 }
 
 /** One requirement checked for one class. */
@@ -72,11 +72,19 @@ function checksFor(cls: AelClass, input: ClassHintInput, share: number): ClassCh
   add('single pulse', energy, 'J', aelPulse(cls, nm, p.durationS))
   if (cls === '3B') return out
   const T = timeBaseS(cls, nm)
-  const g = groupPulses({ edition: 'IEC-60825-1:2014', wavelengthNm: nm, pulseDurationS: p.durationS, repetitionRateHz: p.repetitionRateHz!, exposureDurationS: T })
+  const g = groupPulses({
+    edition: 'IEC-60825-1:2014',
+    wavelengthNm: nm,
+    pulseDurationS: p.durationS,
+    repetitionRateHz: p.repetitionRateHz!,
+    exposureDurationS: T,
+  })
   const c5 = correctionC5(g, T).value
   const groupAel = aelPulse(cls, nm, g.effectiveDurationS)
-  add('pulse train', energy * g.pulsesPerGroup, 'J',
-    { value: groupAel.value === null ? null : groupAel.value * c5, formula: `C5 × ${groupAel.formula}, C5 = ${fmt(c5)}, ${fmt(g.pulsesPerGroup)} pulses per group` })
+  add('pulse train', energy * g.pulsesPerGroup, 'J', {
+    value: groupAel.value === null ? null : groupAel.value * c5,
+    formula: `C5 × ${groupAel.formula}, C5 = ${fmt(c5)}, ${fmt(g.pulsesPerGroup)} pulses per group`,
+  })
   return out
 }
 
@@ -84,7 +92,7 @@ function lowestClass(input: ClassHintInput, share: number, checks: ClassCheck[])
   for (const cls of ORDER) {
     const c = checksFor(cls, input, share)
     checks.push(...c)
-    if (c.every(x => x.passes)) return cls
+    if (c.every((x) => x.passes)) return cls
   }
   return '4'
 }
@@ -102,7 +110,12 @@ export function classHint(input: ClassHintInput): ClassHintResult {
   }
   const edition = 'IEC-60825-1:2014' as const
   if (!isClassHintWavelength(nm))
-    return { hint: computed<ClassHint>('outside-table', 'class', `no table entry for ${fmt(nm)} nm: ${ASK_THE_LSO}`, SOURCE, { edition }), checks: [] }
+    return {
+      hint: computed<ClassHint>('outside-table', 'class', `no table entry for ${fmt(nm)} nm: ${ASK_THE_LSO}`, SOURCE, {
+        edition,
+      }),
+      checks: [],
+    }
   const checks: ClassCheck[] = []
   const full = lowestClass(input, 1, checks)
   let hint: ClassHint = full
@@ -112,8 +125,27 @@ export function classHint(input: ClassHintInput): ClassHintResult {
     if (throughAperture === '1') hint = '1M?'
     else if (throughAperture === '2') hint = '2M?'
   }
-  const failed = checks.filter(c => !c.passes).map(c => `Class ${c.cls} ${c.rule}: ${si(c.emission, c.unit)} > ${c.ael.value === null ? 'n/a' : si(c.ael.value, c.unit)} (${c.ael.formula})`)
+  const failed = checks
+    .filter((c) => !c.passes)
+    .map(
+      (c) =>
+        `Class ${c.cls} ${c.rule}: ${si(c.emission, c.unit)} > ${c.ael.value === null ? 'n/a' : si(c.ael.value, c.unit)} (${c.ael.formula})`,
+    )
   const notes = ['indicative only; the manufacturer’s classification and the LSO govern', ...failed]
-  if (hint.endsWith('?')) notes.push('within the lower class through a 7 mm aperture only: magnifying optics may make it hazardous; ask the LSO')
-  return { hint: computed(hint, 'class', isSingle ? 'lowest class whose single-pulse AEL holds (single pulse, IEC 60825-1:2014 4.3 f)' : `lowest class whose AELs all hold (average, single pulse, pulse train × C5)`, SOURCE, { edition, notes }), checks }
+  if (hint.endsWith('?'))
+    notes.push(
+      'within the lower class through a 7 mm aperture only: magnifying optics may make it hazardous; ask the LSO',
+    )
+  return {
+    hint: computed(
+      hint,
+      'class',
+      isSingle
+        ? 'lowest class whose single-pulse AEL holds (single pulse, IEC 60825-1:2014 4.3 f)'
+        : `lowest class whose AELs all hold (average, single pulse, pulse train × C5)`,
+      SOURCE,
+      { edition, notes },
+    ),
+    checks,
+  }
 }

@@ -35,7 +35,10 @@ function c4c7(nm: number): number {
 /** CW AEL (W) for the class's time base (Class 1: 100 s; Class 2/3R visible: 0.25 s). */
 export function aelCw(cls: AelClass, nm: number): Ael {
   if (cls === '3B') return { value: 0.5, formula: 'AEL(3B) = 0.5 W' }
-  if (cls === '2') return isVisible(nm) ? { value: 1e-3, formula: 'AEL(2) = 1 mW' } : { value: null, formula: 'Class 2 exists for 400–700 nm only' }
+  if (cls === '2')
+    return isVisible(nm)
+      ? { value: 1e-3, formula: 'AEL(2) = 1 mW' }
+      : { value: null, formula: 'Class 2 exists for 400–700 nm only' }
   const class1 = (): Ael => {
     if (isEyeSafeBand(nm)) return { value: 1e-2, formula: 'AEL(1) = 10 mW (1500–1800 nm)' }
     if (isNearIr(nm)) return { value: 3.9e-4 * c4c7(nm), formula: 'AEL(1) = 3.9×10⁻⁴·C4·C7 W' }
@@ -80,5 +83,8 @@ function class3BPulse(nm: number, durationS: number): Ael {
   }
   if (durationS >= 1e-9) return { value: energy, formula: `AEL(3B) = ${text}` }
   // Below 1 ns: a peak-power limit equal to the 1 ns energy limit / 1 ns (our reading, unconfirmed).
-  return { value: (energy / 1e-9) * durationS, formula: `AEL(3B) = (${text} / 1 ns) × τ, a peak-power limit (IEC 60825-1:2014 Table 8)` }
+  return {
+    value: (energy / 1e-9) * durationS,
+    formula: `AEL(3B) = (${text} / 1 ns) × τ, a peak-power limit (IEC 60825-1:2014 Table 8)`,
+  }
 }

@@ -1,7 +1,8 @@
 /**
  * Derived beam quantities: pulse energy, peak power, peak intensity and fluence at a Gaussian
  * focus, and the nominal ocular hazard distance (NOHD). Plain physics (Siegman, Lasers, 1986)
- * and the NOHD form of ANSI Z136.1 / IEC TR 60825-14 (from memory; docs/laser-safety.md §8). SI results; use `perM2ToPerCm2` for lab units.
+ * and the NOHD form of ANSI Z136.1 / IEC TR 60825-14 (from memory; docs/laser-safety.md §8). SI results; use
+ * `perM2ToPerCm2` for lab units.
  */
 import { computed, fmt, si, type Computed } from './computed'
 import { requireNonNegative, requirePositive, SafetyInputError } from './errors'
@@ -29,9 +30,19 @@ export function peakPower(pulseEnergyJ: number, pulseDurationS: number, shape: P
   requirePositive('pulseDurationS', pulseDurationS)
   const k = PEAK_POWER_FACTOR[shape]
   if (k === undefined)
-    throw new SafetyInputError({ code: 'OUT_OF_RANGE', field: 'shape', value: shape, message: "must be 'gaussian' or 'sech2'" })
+    throw new SafetyInputError({
+      code: 'OUT_OF_RANGE',
+      field: 'shape',
+      value: shape,
+      message: "must be 'gaussian' or 'sech2'",
+    })
   const value = (k * pulseEnergyJ) / pulseDurationS
-  return computed(value, 'W', `P_pk = k·E/τ = ${k} × ${si(pulseEnergyJ, 'J')} / ${si(pulseDurationS, 's')} (${shape})`, SRC_DERIVED)
+  return computed(
+    value,
+    'W',
+    `P_pk = k·E/τ = ${k} × ${si(pulseEnergyJ, 'J')} / ${si(pulseDurationS, 's')} (${shape})`,
+    SRC_DERIVED,
+  )
 }
 
 /** Peak (on-axis) intensity of a Gaussian focus I₀ = 2P_pk/(π w₀²) (W/m²), w₀ the 1/e² radius. */
@@ -40,7 +51,12 @@ export function peakIntensity(peakPowerW: number, waistRadiusUm: number): Comput
   requirePositive('waistRadiusUm', waistRadiusUm)
   const w0 = umToM(waistRadiusUm)
   const value = (2 * peakPowerW) / (Math.PI * w0 * w0)
-  return computed(value, 'W/m²', `I₀ = 2P_pk/(π w₀²) = 2 × ${si(peakPowerW, 'W')} / (π × (${fmt(waistRadiusUm)} µm)²)`, SRC_DERIVED)
+  return computed(
+    value,
+    'W/m²',
+    `I₀ = 2P_pk/(π w₀²) = 2 × ${si(peakPowerW, 'W')} / (π × (${fmt(waistRadiusUm)} µm)²)`,
+    SRC_DERIVED,
+  )
 }
 
 /** Peak (on-axis) fluence of a Gaussian focus F₀ = 2E_p/(π w₀²) (J/m²), w₀ the 1/e² radius. */
@@ -49,8 +65,13 @@ export function peakFluence(pulseEnergyJ: number, waistRadiusUm: number): Comput
   requirePositive('waistRadiusUm', waistRadiusUm)
   const w0 = umToM(waistRadiusUm)
   const value = (2 * pulseEnergyJ) / (Math.PI * w0 * w0)
-  return computed(value, 'J/m²', `F₀ = 2E_p/(π w₀²) = 2 × ${si(pulseEnergyJ, 'J')} / (π × (${fmt(waistRadiusUm)} µm)²)`, SRC_DERIVED,
-    { notes: ['on-axis value; the mean over πw₀² is half of it'] })
+  return computed(
+    value,
+    'J/m²',
+    `F₀ = 2E_p/(π w₀²) = 2 × ${si(pulseEnergyJ, 'J')} / (π × (${fmt(waistRadiusUm)} µm)²)`,
+    SRC_DERIVED,
+    { notes: ['on-axis value; the mean over πw₀² is half of it'] },
+  )
 }
 
 /** Input of {@link nohd}. */
@@ -77,7 +98,10 @@ export function nohd(input: NohdInput): Computed {
   const phi = mradToRad(input.divergenceMrad)
   const hazardDiameter = Math.sqrt((4 * input.averagePowerW) / (Math.PI * input.mpeWm2))
   const value = Math.max(0, (hazardDiameter - a) / phi)
-  return computed(value, 'm',
+  return computed(
+    value,
+    'm',
     `NOHD = (√(4P/(π·MPE)) − a)/φ = (${si(hazardDiameter, 'm')} − ${si(a, 'm')}) / ${fmt(phi)} rad`,
-    'ANSI Z136.1-2014 Appendix B (NOHD)')
+    'ANSI Z136.1-2014 Appendix B (NOHD)',
+  )
 }

@@ -33,7 +33,7 @@ export function computed<V>(
   unit: string,
   formula: string,
   source: string,
-  extra: { edition?: MpeEdition, notes?: string[] } = {},
+  extra: { edition?: MpeEdition; notes?: string[] } = {},
 ): Computed<V> {
   const result: Computed<V> = { value, unit, formula, source, indicative: true }
   if (extra.edition) result.edition = extra.edition

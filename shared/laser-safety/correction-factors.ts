@@ -15,7 +15,8 @@ const SOURCE_C4 = 'IEC 60825-1:2014 Table A.1 (C4); Directive 2006/25/EC Annex I
  */
 export function correctionC4(wavelengthNm: number): Computed {
   requirePositive('wavelengthNm', wavelengthNm)
-  if (wavelengthNm < 400 || wavelengthNm > 1400) outsideTable('wavelengthNm', wavelengthNm, 'C4 is defined for 400–1400 nm')
+  if (wavelengthNm < 400 || wavelengthNm > 1400)
+    outsideTable('wavelengthNm', wavelengthNm, 'C4 is defined for 400–1400 nm')
   if (wavelengthNm < 700) return computed(1, '1', 'C4 = 1 (λ < 700 nm)', SOURCE_C4)
   if (wavelengthNm < 1050) {
     const value = 10 ** (0.002 * (wavelengthNm - 700))
@@ -31,9 +32,11 @@ export function correctionC4(wavelengthNm: number): Computed {
  */
 export function correctionC7(wavelengthNm: number, edition: MpeEdition): Computed {
   requirePositive('wavelengthNm', wavelengthNm)
-  if (wavelengthNm < 400 || wavelengthNm > 1400) outsideTable('wavelengthNm', wavelengthNm, 'C7 is defined for 400–1400 nm')
+  if (wavelengthNm < 400 || wavelengthNm > 1400)
+    outsideTable('wavelengthNm', wavelengthNm, 'C7 is defined for 400–1400 nm')
   const opts = { edition }
-  const src = edition === 'EU-2006/25/EC' ? 'Directive 2006/25/EC Annex II Table 2.5 (C_C)' : 'IEC 60825-1:2014 Table A.1 (C7)'
+  const src =
+    edition === 'EU-2006/25/EC' ? 'Directive 2006/25/EC Annex II Table 2.5 (C_C)' : 'IEC 60825-1:2014 Table A.1 (C7)'
   if (wavelengthNm < 1150) return computed(1, '1', 'C7 = 1 (λ < 1150 nm)', src, opts)
   if (wavelengthNm < 1200) {
     const value = 10 ** (0.018 * (wavelengthNm - 1150))
@@ -41,7 +44,13 @@ export function correctionC7(wavelengthNm: number, edition: MpeEdition): Compute
   }
   if (edition === 'IEC-60825-1:2014' && wavelengthNm >= 1250) {
     const value = 8 + 10 ** (0.04 * (wavelengthNm - 1250))
-    return computed(value, '1', `C7 = 8 + 10^(0.04·(λ − 1250)) = 8 + 10^(0.04·(${fmt(wavelengthNm)} − 1250))`, src, opts)
+    return computed(
+      value,
+      '1',
+      `C7 = 8 + 10^(0.04·(λ − 1250)) = 8 + 10^(0.04·(${fmt(wavelengthNm)} − 1250))`,
+      src,
+      opts,
+    )
   }
   return computed(8, '1', 'C7 = 8 (1200–1400 nm)', src, opts)
 }
@@ -64,10 +73,17 @@ const GROUPING_WINDOWS: readonly (readonly [number, number, number, number])[] =
 export function groupingWindow(wavelengthNm: number, edition: MpeEdition): Computed {
   requirePositive('wavelengthNm', wavelengthNm)
   const iec = edition === 'IEC-60825-1:2014'
-  const row = GROUPING_WINDOWS.find(([lo, hi]) => wavelengthNm >= lo && (wavelengthNm < hi || (hi === 1400 && wavelengthNm === 1400)))
+  const row = GROUPING_WINDOWS.find(
+    ([lo, hi]) => wavelengthNm >= lo && (wavelengthNm < hi || (hi === 1400 && wavelengthNm === 1400)),
+  )
   if (!row) return outsideTable('wavelengthNm', wavelengthNm, 'grouping window tabulated for 400–2600 nm only')
   const [lo, hi, ti, tmin] = row
   const name = iec ? 'T_i' : 'T_min'
-  return computed(iec ? ti : tmin, 's', `${name} = ${si(iec ? ti : tmin, 's')} (${lo}–${hi} nm)`,
-    iec ? 'IEC 60825-1:2014 Table 2 (T_i)' : 'Directive 2006/25/EC Annex II Table 2.6 (T_min)', { edition })
+  return computed(
+    iec ? ti : tmin,
+    's',
+    `${name} = ${si(iec ? ti : tmin, 's')} (${lo}–${hi} nm)`,
+    iec ? 'IEC 60825-1:2014 Table 2 (T_i)' : 'Directive 2006/25/EC Annex II Table 2.6 (T_min)',
+    { edition },
+  )
 }

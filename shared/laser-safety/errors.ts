@@ -42,7 +42,12 @@ export class SafetyInputError extends Error {
 /** Throws unless `value` is a finite number. */
 export function requireFinite(field: string, value: number): number {
   if (typeof value !== 'number' || !Number.isFinite(value))
-    throw new SafetyInputError({ code: 'INVALID_NUMBER', field, value, message: `must be a finite number, got ${String(value)}` })
+    throw new SafetyInputError({
+      code: 'INVALID_NUMBER',
+      field,
+      value,
+      message: `must be a finite number, got ${String(value)}`,
+    })
   return value
 }
 

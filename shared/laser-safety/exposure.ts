@@ -24,7 +24,10 @@ export const isAversionBand = (nm: number) => nm >= 400 && nm <= 700
  * 10 s rely on the aversion response, which exists for visible light only (IEC 60825-1:2014 4.3 e:
  * the 0.25 s time base is for 400–700 nm): outside 400–700 nm they are raised to 10 s, with the reason.
  */
-export function exposureDurationFor(wavelengthNm: number, requestedS: number): { durationS: number, note: string | null } {
+export function exposureDurationFor(
+  wavelengthNm: number,
+  requestedS: number,
+): { durationS: number; note: string | null } {
   const T = requirePositive('exposureDurationS', requestedS)
   if (T >= DEFAULT_EXPOSURE_DURATION_S || isAversionBand(wavelengthNm)) return { durationS: T, note: null }
   const what = T === 0.25 ? 'the 0.25 s aversion-response time' : `an evaluation time of ${fmt(T)} s (below 10 s)`
@@ -45,7 +48,7 @@ export interface BeamExposureInput {
   averagePowerW?: number
   /** 1/e² beam diameter at the eye position (mm). */
   beamDiameterMm: number
-  pulse?: { durationS: number, repetitionRateHz?: number | null, energyJ?: number | null }
+  pulse?: { durationS: number; repetitionRateHz?: number | null; energyJ?: number | null }
   /** Evaluation time T (s); default {@link DEFAULT_EXPOSURE_DURATION_S}. */
   exposureDurationS?: number
 }
@@ -81,14 +84,22 @@ function atEye(amount: number, unit: string, input: BeamExposureInput, durationS
   const share = apertureFraction(input.beamDiameterMm, d)
   const value = (amount * share) / circleAreaM2(d)
   const shareText = share === 1 ? '' : ` × ${fmt(share)} (share through aperture)`
-  return computed(value, unit, `${what} = ${si(amount, unit === 'W/m²' ? 'W' : 'J')}${shareText} / A(${fmt(d)} mm) = ${si(value, unit)}`, 'IEC 60825-1:2014 Annex A (exposure averaged over the limiting aperture)')
+  return computed(
+    value,
+    unit,
+    `${what} = ${si(amount, unit === 'W/m²' ? 'W' : 'J')}${shareText} / A(${fmt(d)} mm) = ${si(value, unit)}`,
+    'IEC 60825-1:2014 Annex A (exposure averaged over the limiting aperture)',
+  )
 }
 
 function check(exposure: Computed, limit: Computed): RuleCheck {
   return { exposure, limit, ratio: exposure.value / limit.value }
 }
 
-/** Compares the beam with the MPE under each applicable rule (IEC 60825-1:2014 Annex A; Directive 2006/25/EC Annex II Table 2.6). */
+/**
+ * Compares the beam with the MPE under each applicable rule (IEC 60825-1:2014 Annex A; Directive 2006/25/EC Annex II
+ * Table 2.6).
+ */
 export function checkExposure(input: BeamExposureInput): ExposureCheck {
   const edition = requireEdition(input.edition)
   requirePositive('wavelengthNm', input.wavelengthNm)
@@ -112,12 +123,23 @@ export function checkExposure(input: BeamExposureInput): ExposureCheck {
   const repetitionRateHz = p.repetitionRateHz as number
   requirePositive('pulse.durationS', durationS)
   requirePositive('pulse.repetitionRateHz', repetitionRateHz)
-  const limits = pulseTrainLimits({ edition, wavelengthNm: input.wavelengthNm, pulseDurationS: durationS, repetitionRateHz, exposureDurationS: T })
+  const limits = pulseTrainLimits({
+    edition,
+    wavelengthNm: input.wavelengthNm,
+    pulseDurationS: durationS,
+    repetitionRateHz,
+    exposureDurationS: T,
+  })
   const pulseEnergyJ = power / repetitionRateHz
   const singlePulse = check(atEye(pulseEnergyJ, 'J/m²', input, durationS, 'H_pulse'), limits.singlePulse)
   const g = limits.grouping
-  const pulseTrain = check(atEye(pulseEnergyJ * g.pulsesPerGroup, 'J/m²', input, g.effectiveDurationS, 'H_group'), limits.pulseTrain)
+  const pulseTrain = check(
+    atEye(pulseEnergyJ * g.pulsesPerGroup, 'J/m²', input, g.effectiveDurationS, 'H_group'),
+    limits.pulseTrain,
+  )
   const rules = { average, singlePulse, pulseTrain }
-  const governing = (Object.keys(rules) as (keyof typeof rules)[]).reduce((a, b) => (rules[b].ratio > rules[a].ratio ? b : a))
+  const governing = (Object.keys(rules) as (keyof typeof rules)[]).reduce((a, b) =>
+    rules[b].ratio > rules[a].ratio ? b : a,
+  )
   return { edition, average, singlePulse, pulseTrain, limits, governing, maxRatio: rules[governing].ratio }
 }

@@ -19,8 +19,11 @@ export interface En207Input {
   wavelengthNm: number
   averagePowerW?: number
   beamDiameterMm: number
-  pulse?: { durationS: number, repetitionRateHz?: number | null, energyJ?: number | null }
-  /** Interval (s) over which pulses are counted for N^(1/4); default 10 s; open until confirmed (docs/laser-safety.md §7). */
+  pulse?: { durationS: number; repetitionRateHz?: number | null; energyJ?: number | null }
+  /**
+   * Interval (s) over which pulses are counted for N^(1/4); default 10 s; open until confirmed (docs/laser-safety.md
+   * §7).
+   */
   countingIntervalS?: number
   /** Beams narrower than this are evaluated over this diameter (mm); default 1 mm; open until confirmed. */
   referenceDiameterMm?: number
@@ -66,21 +69,24 @@ function bandOf(wavelengthNm: number): Band {
 }
 
 /** Scale formula per band and mode: [formula text, function of (E or H', peak power density)]. */
-const SCALE: Record<Band, Record<'D' | 'IR' | 'M', [string, (x: { e: number, h: number, hN: number, pk: number }) => number]>> = {
+const SCALE: Record<
+  Band,
+  Record<'D' | 'IR' | 'M', [string, (x: { e: number; h: number; hN: number; pk: number }) => number]>
+> = {
   uv: {
-    D: ['LB = log10(E) + 3', x => Math.log10(x.e) + 3],
-    IR: ['LB = log10(H/3) − 1', x => Math.log10(x.h / 3) - 1],
-    M: ['LB = log10(P_pk/3) − 10', x => Math.log10(x.pk / 3) - 10],
+    D: ['LB = log10(E) + 3', (x) => Math.log10(x.e) + 3],
+    IR: ['LB = log10(H/3) − 1', (x) => Math.log10(x.h / 3) - 1],
+    M: ['LB = log10(P_pk/3) − 10', (x) => Math.log10(x.pk / 3) - 10],
   },
   visNir: {
-    D: ['LB = log10(E) − 1', x => Math.log10(x.e) - 1],
-    IR: ["LB = log10(H'/5) + 3", x => Math.log10(x.hN / 5) + 3],
-    M: ["LB = log10(H'/1.5) + 4", x => Math.log10(x.hN / 1.5) + 4],
+    D: ['LB = log10(E) − 1', (x) => Math.log10(x.e) - 1],
+    IR: ["LB = log10(H'/5) + 3", (x) => Math.log10(x.hN / 5) + 3],
+    M: ["LB = log10(H'/1.5) + 4", (x) => Math.log10(x.hN / 1.5) + 4],
   },
   ir: {
-    D: ['LB = log10(E) − 3', x => Math.log10(x.e) - 3],
-    IR: ['LB = log10(H) − 2', x => Math.log10(x.h) - 2],
-    M: ['LB = log10(P_pk) − 11', x => Math.log10(x.pk) - 11],
+    D: ['LB = log10(E) − 3', (x) => Math.log10(x.e) - 3],
+    IR: ['LB = log10(H) − 2', (x) => Math.log10(x.h) - 2],
+    M: ['LB = log10(P_pk) − 11', (x) => Math.log10(x.pk) - 11],
   },
 }
 
@@ -99,7 +105,8 @@ export function roundUpScale(raw: number): number {
 export function en207Labels(wavelengthNm: number, requirements: readonly En207Requirement[]): string[] {
   const byLb = new Map<number, string>()
   for (const mode of ['D', 'I', 'R', 'M'] as const)
-    for (const r of requirements.filter(q => q.mode === mode && q.isNeeded)) byLb.set(r.lb.value, (byLb.get(r.lb.value) ?? '') + mode)
+    for (const r of requirements.filter((q) => q.mode === mode && q.isNeeded))
+      byLb.set(r.lb.value, (byLb.get(r.lb.value) ?? '') + mode)
   return [...byLb].map(([lb, modes]) => `${modes} ${Math.round(wavelengthNm)} LB${lb}`)
 }
 
@@ -118,16 +125,30 @@ export function en207ScaleNumbers(input: En207Input): En207Requirement[] {
   const diameter = Math.max(input.beamDiameterMm, reference)
   const area = circleAreaM2(diameter)
   const nm = Math.round(input.wavelengthNm)
-  const make = (mode: En207Mode, key: 'D' | 'IR' | 'M', x: { e: number, h: number, hN: number, pk: number }, detail: string): En207Requirement => {
+  const make = (
+    mode: En207Mode,
+    key: 'D' | 'IR' | 'M',
+    x: { e: number; h: number; hN: number; pk: number },
+    detail: string,
+  ): En207Requirement => {
     const [formula, f] = SCALE[band][key]
     const rawScale = f(x)
     const lb = roundUpScale(rawScale)
     const isNeeded = lb > 0
     const outcome = isNeeded ? `LB${lb} (rounded up)` : 'at or below 0: none needed'
     return {
-      mode, rawScale, isNeeded, isWithinScale: lb <= 10, label: isNeeded ? `${mode} ${nm} LB${lb}` : `${mode} ${nm} none needed`,
-      lb: computed(lb, 'LB', `${formula} = ${fmt(rawScale)} → ${outcome}; ${detail}, area of ${fmt(diameter)} mm`, SOURCE,
-        { notes: lb > 10 ? ['above LB10: no EN 207 filter; ask the LSO'] : [] }),
+      mode,
+      rawScale,
+      isNeeded,
+      isWithinScale: lb <= 10,
+      label: isNeeded ? `${mode} ${nm} LB${lb}` : `${mode} ${nm} none needed`,
+      lb: computed(
+        lb,
+        'LB',
+        `${formula} = ${fmt(rawScale)} → ${outcome}; ${detail}, area of ${fmt(diameter)} mm`,
+        SOURCE,
+        { notes: lb > 10 ? ['above LB10: no EN 207 filter; ask the LSO'] : [] },
+      ),
     }
   }
   const p = input.pulse
@@ -156,7 +177,14 @@ export function en207ScaleNumbers(input: En207Input): En207Requirement[] {
   }
   if (mode === 'D') {
     const eLong = energy / durationS / area
-    result.push(make('D', 'D', { e: eLong, h: 0, hN: 0, pk: 0 }, `single pulse longer than 0.25 s: E = E_p/τ/A = ${si(eLong, 'W/m²')}`))
+    result.push(
+      make(
+        'D',
+        'D',
+        { e: eLong, h: 0, hN: 0, pk: 0 },
+        `single pulse longer than 0.25 s: E = E_p/τ/A = ${si(eLong, 'W/m²')}`,
+      ),
+    )
     return result
   }
   const h = energy / area

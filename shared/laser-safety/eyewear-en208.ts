@@ -14,7 +14,7 @@ export interface En208Input {
   averagePowerW?: number
   /** 1/e² beam diameter (mm). */
   beamDiameterMm: number
-  pulse?: { durationS: number, repetitionRateHz?: number | null, energyJ?: number | null }
+  pulse?: { durationS: number; repetitionRateHz?: number | null; energyJ?: number | null }
 }
 
 /**
@@ -53,7 +53,8 @@ export function en208ScaleNumber(input: En208Input): En208Requirement {
   }
   if (p) {
     requirePositive('pulse.durationS', p.durationS)
-    if (p.durationS < 1e-9) outsideTable('pulse.durationS', p.durationS, 'EN 208 has no criterion for pulses shorter than 1 ns')
+    if (p.durationS < 1e-9)
+      outsideTable('pulse.durationS', p.durationS, 'EN 208 has no criterion for pulses shorter than 1 ns')
     let e7: number
     let n: number
     if (isSingle) {
@@ -66,7 +67,9 @@ export function en208ScaleNumber(input: En208Input): En208Requirement {
     }
     if (p.durationS <= 2e-4) {
       const pulseRaw = Math.log10((e7 * n ** 0.25) / 2) + 7
-      parts.push(`pulsed: n = log10(E₇·N^(1/4)/2) + 7 = log10(${si(e7, 'J')} × ${fmt(n)}^(1/4) / 2) + 7 = ${fmt(pulseRaw)}`)
+      parts.push(
+        `pulsed: n = log10(E₇·N^(1/4)/2) + 7 = log10(${si(e7, 'J')} × ${fmt(n)}^(1/4) / 2) + 7 = ${fmt(pulseRaw)}`,
+      )
       raw = Math.max(raw, pulseRaw)
     } else if (isSingle) {
       const pLong = e7 / p.durationS
@@ -79,8 +82,9 @@ export function en208ScaleNumber(input: En208Input): En208Requirement {
   const isNeeded = rb > 0
   const outcome = isNeeded ? `RB${rb} (rounded up)` : 'at or below 0: none needed (below the RB1 limit)'
   return {
-    rb: computed(rb, 'RB', `${parts.join('; ')} → ${outcome}`, SOURCE,
-      { notes: rb > 5 ? ['above RB5: no EN 208 alignment filter; use full-protection eyewear and ask the LSO'] : [] }),
+    rb: computed(rb, 'RB', `${parts.join('; ')} → ${outcome}`, SOURCE, {
+      notes: rb > 5 ? ['above RB5: no EN 208 alignment filter; use full-protection eyewear and ask the LSO'] : [],
+    }),
     isNeeded,
     isWithinScale: rb <= 5,
     label: isNeeded ? `RB${rb}` : 'none needed',

@@ -17,7 +17,7 @@ export interface RequiredOd {
   /** Smallest whole OD that meets it (what a filter datasheet lists). */
   wholeOd: number
   /** log10(exposure/MPE) per rule; negative means that rule needs no filter. */
-  byRule: { average?: number, singlePulse?: number, pulseTrain?: number }
+  byRule: { average?: number; singlePulse?: number; pulseTrain?: number }
   check: ExposureCheck
 }
 
@@ -31,11 +31,15 @@ export function requiredOpticalDensity(input: BeamExposureInput): RequiredOd {
   const value = Math.max(0, Math.log10(check.maxRatio))
   const rule = check[check.governing]!
   const quantity = check.governing === 'average' ? 'E' : 'H'
-  const od = computed(value, '1',
+  const od = computed(
+    value,
+    '1',
     `OD = log10(${quantity} / MPE) = log10(${si(rule.exposure.value, rule.exposure.unit)} / ${si(rule.limit.value, rule.limit.unit)}) (${RULE_NAME[check.governing]} rule${check.average ? ', maximum over rules' : ''})`,
-    'EN 207:2017 Annex B (OD = log10(exposure/MPE)); MPE per IEC 60825-1:2014 Annex A', {
+    'EN 207:2017 Annex B (OD = log10(exposure/MPE)); MPE per IEC 60825-1:2014 Annex A',
+    {
       edition: check.edition,
       notes: [`limit: ${rule.limit.formula}`, `exposure: ${rule.exposure.formula}`],
-    })
+    },
+  )
   return { od, wholeOd: Math.ceil(value - 1e-9), byRule, check }
 }

@@ -25,13 +25,23 @@ export function setupWavelengths(fundamentalNm: number, harmonicOrders: readonly
   requirePositive('fundamentalNm', fundamentalNm)
   for (const n of harmonicOrders)
     if (!Number.isInteger(n) || n < 1 || n > MAX_HARMONIC_ORDER)
-      throw new SafetyInputError({ code: 'OUT_OF_RANGE', field: 'harmonicOrders', value: n, message: `orders must be integers 1–${MAX_HARMONIC_ORDER}, got ${String(n)}` })
+      throw new SafetyInputError({
+        code: 'OUT_OF_RANGE',
+        field: 'harmonicOrders',
+        value: n,
+        message: `orders must be integers 1–${MAX_HARMONIC_ORDER}, got ${String(n)}`,
+      })
   const orders = [...new Set([1, ...harmonicOrders])].sort((a, b) => a - b)
   return orders.map((n) => {
     const nm = fundamentalNm / n
     return {
       order: n,
-      wavelength: computed(nm, 'nm', n === 1 ? `λ = ${fmt(fundamentalNm)} nm` : `λ/${n} = ${fmt(fundamentalNm)} nm / ${n}`, 'harmonic order n of λ gives λ/n'),
+      wavelength: computed(
+        nm,
+        'nm',
+        n === 1 ? `λ = ${fmt(fundamentalNm)} nm` : `λ/${n} = ${fmt(fundamentalNm)} nm / ${n}`,
+        'harmonic order n of λ gives λ/n',
+      ),
       needsEyewear: true,
       isInSafetyTable: nm >= 400 && nm <= 1800,
     }
@@ -68,14 +78,22 @@ export function setupLines(wavelengthsNm: readonly number[], harmonicOrders: rea
   for (const w of wavelengthsNm) requirePositive('wavelengthsNm', w)
   for (const n of harmonicOrders)
     if (!Number.isInteger(n) || n < 1 || n > MAX_HARMONIC_ORDER)
-      throw new SafetyInputError({ code: 'OUT_OF_RANGE', field: 'harmonicOrders', value: n, message: `orders must be integers 1–${MAX_HARMONIC_ORDER}, got ${String(n)}` })
+      throw new SafetyInputError({
+        code: 'OUT_OF_RANGE',
+        field: 'harmonicOrders',
+        value: n,
+        message: `orders must be integers 1–${MAX_HARMONIC_ORDER}, got ${String(n)}`,
+      })
   const listed = [...new Set(wavelengthsNm)].sort((a, b) => b - a)
   const fundamentals: number[] = []
   const lines: SetupLine[] = []
   for (const nm of listed) {
     const parent = fundamentals.map((f) => ({ f, n: harmonicOrderOf(nm, f) })).find((x) => x.n !== null)
     if (parent) lines.push({ wavelengthNm: nm, order: parent.n!, fundamentalNm: parent.f, isListed: true })
-    else { fundamentals.push(nm); lines.push({ wavelengthNm: nm, order: 1, fundamentalNm: nm, isListed: true }) }
+    else {
+      fundamentals.push(nm)
+      lines.push({ wavelengthNm: nm, order: 1, fundamentalNm: nm, isListed: true })
+    }
   }
   const orders = [...new Set(harmonicOrders)].filter((n) => n > 1).sort((a, b) => a - b)
   for (const f of fundamentals)

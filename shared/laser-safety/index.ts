@@ -12,23 +12,47 @@ export { correctionC4, correctionC7, groupingWindow } from './correction-factors
 export { MPE_BANDS, type MpeBand, type MpeRow } from './mpe-table'
 export { limitingApertureMm, ocularMpe, ocularMpeIrradiance, type MpeInput } from './mpe'
 export {
-  correctionC5, correctionCP, groupPulses, pulseTrainLimits,
-  type PulseGrouping, type PulseTrainInput, type PulseTrainLimits,
+  correctionC5,
+  correctionCP,
+  groupPulses,
+  pulseTrainLimits,
+  type PulseGrouping,
+  type PulseTrainInput,
+  type PulseTrainLimits,
 } from './repetitive-pulses'
 export {
-  apertureFraction, checkExposure, DEFAULT_EXPOSURE_DURATION_S, EXPOSURE_DURATION_CHOICES_S, exposureDurationFor, isAversionBand,
-  type BeamExposureInput, type ExposureCheck, type RuleCheck,
+  apertureFraction,
+  checkExposure,
+  DEFAULT_EXPOSURE_DURATION_S,
+  EXPOSURE_DURATION_CHOICES_S,
+  exposureDurationFor,
+  isAversionBand,
+  type BeamExposureInput,
+  type ExposureCheck,
+  type RuleCheck,
 } from './exposure'
 export { aelCw, aelPulse, type Ael, type AelClass } from './ael-table'
 export { classHint, type ClassCheck, type ClassHint, type ClassHintInput, type ClassHintResult } from './ael-class-hint'
 export { requiredOpticalDensity, RULE_NAME, type RequiredOd } from './eyewear'
 export {
-  EN207_DEFAULT_COUNTING_INTERVAL_S, en207Labels, en207ModeFor, en207ScaleNumbers, roundUpScale,
-  type En207Input, type En207Mode, type En207Requirement,
+  EN207_DEFAULT_COUNTING_INTERVAL_S,
+  en207Labels,
+  en207ModeFor,
+  en207ScaleNumbers,
+  roundUpScale,
+  type En207Input,
+  type En207Mode,
+  type En207Requirement,
 } from './eyewear-en207'
 export { en208ScaleNumber, type En208Input, type En208Requirement } from './eyewear-en208'
 export {
-  nohd, peakFluence, peakIntensity, peakPower, pulseEnergy, PEAK_POWER_FACTOR,
-  type NohdInput, type PulseShape,
+  nohd,
+  peakFluence,
+  peakIntensity,
+  peakPower,
+  pulseEnergy,
+  PEAK_POWER_FACTOR,
+  type NohdInput,
+  type PulseShape,
 } from './beam'
 export { MAX_HARMONIC_ORDER, setupLines, setupWavelengths, type SetupLine, type SetupWavelength } from './harmonics'

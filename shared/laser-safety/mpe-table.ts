@@ -30,10 +30,22 @@ export interface MpeBand {
   rows: Record<MpeEdition, readonly MpeRow[]>
 }
 
-const h = (fromS: number, toS: number, k: number, exponent: number, factor: MpeFactor): MpeRow =>
-  ({ fromS, toS, quantity: 'H', k, exponent, factor })
-const e = (fromS: number, toS: number, k: number, factor: MpeFactor): MpeRow =>
-  ({ fromS, toS, quantity: 'E', k, exponent: 0, factor })
+const h = (fromS: number, toS: number, k: number, exponent: number, factor: MpeFactor): MpeRow => ({
+  fromS,
+  toS,
+  quantity: 'H',
+  k,
+  exponent,
+  factor,
+})
+const e = (fromS: number, toS: number, k: number, factor: MpeFactor): MpeRow => ({
+  fromS,
+  toS,
+  quantity: 'E',
+  k,
+  exponent: 0,
+  factor,
+})
 
 /** Longest and shortest durations the table covers (s). */
 export const MPE_MIN_DURATION_S = 1e-13
@@ -61,7 +73,9 @@ export const MPE_BANDS: readonly MpeBand[] = [
   { fromNm: 400, toNm: 700, includesUpper: false, rows: visibleOrNearIr('1') },
   { fromNm: 700, toNm: 1050, includesUpper: false, rows: visibleOrNearIr('C4') },
   {
-    fromNm: 1050, toNm: 1400, includesUpper: true,
+    fromNm: 1050,
+    toNm: 1400,
+    includesUpper: true,
     rows: {
       'EU-2006/25/EC': [
         h(1e-13, 1e-11, 1.5e-3, 0, 'C7'),
@@ -79,11 +93,15 @@ export const MPE_BANDS: readonly MpeBand[] = [
     },
   },
   {
-    fromNm: 1400, toNm: 1500, includesUpper: false,
+    fromNm: 1400,
+    toNm: 1500,
+    includesUpper: false,
     rows: sameInBoth([e(1e-13, 1e-9, 1e12, '1'), h(1e-9, 1e-3, 1e3, 0, '1'), h(1e-3, 10, 5.6e3, 0.25, '1')]),
   },
   {
-    fromNm: 1500, toNm: 1800, includesUpper: true,
+    fromNm: 1500,
+    toNm: 1800,
+    includesUpper: true,
     rows: sameInBoth([e(1e-13, 1e-9, 1e13, '1'), h(1e-9, 10, 1e4, 0, '1'), e(10, MPE_MAX_DURATION_S, 1000, '1')]),
   },
 ]

@@ -23,16 +23,23 @@ const SOURCE = {
 /** Throws unless `edition` is one of the two supported editions. */
 export function requireEdition(edition: MpeEdition): MpeEdition {
   if (edition !== 'EU-2006/25/EC' && edition !== 'IEC-60825-1:2014')
-    throw new SafetyInputError({ code: 'OUT_OF_RANGE', field: 'edition', value: edition, message: "must be 'EU-2006/25/EC' or 'IEC-60825-1:2014'" })
+    throw new SafetyInputError({
+      code: 'OUT_OF_RANGE',
+      field: 'edition',
+      value: edition,
+      message: "must be 'EU-2006/25/EC' or 'IEC-60825-1:2014'",
+    })
   return edition
 }
 
 function findBand(wavelengthNm: number): MpeBand {
-  const band = MPE_BANDS.find(b => wavelengthNm >= b.fromNm && (wavelengthNm < b.toNm || (b.includesUpper && wavelengthNm === b.toNm)))
+  const band = MPE_BANDS.find(
+    (b) => wavelengthNm >= b.fromNm && (wavelengthNm < b.toNm || (b.includesUpper && wavelengthNm === b.toNm)),
+  )
   return band ?? outsideTable('wavelengthNm', wavelengthNm, 'the MPE table covers 400–1800 nm')
 }
 
-function evaluateRow(row: MpeRow, input: MpeInput): { value: number, formula: string } {
+function evaluateRow(row: MpeRow, input: MpeInput): { value: number; formula: string } {
   const { wavelengthNm: nm, durationS: t, edition } = input
   const c4 = row.factor.includes('C4') ? correctionC4(nm).value : 1
   const c7 = row.factor.includes('C7') ? correctionC7(nm, edition).value : 1
@@ -40,7 +47,10 @@ function evaluateRow(row: MpeRow, input: MpeInput): { value: number, formula: st
   const factors = row.factor === '1' ? '' : ` with C4 = ${fmt(c4)}, C7 = ${fmt(c7)}`
   if (row.quantity === 'E') {
     const irradiance = row.k * c4 * c7
-    return { value: irradiance * t, formula: `H = E·t, E = ${fmt(row.k)}${factorText} W/m² = ${si(irradiance, 'W/m²')}${factors}` }
+    return {
+      value: irradiance * t,
+      formula: `H = E·t, E = ${fmt(row.k)}${factorText} W/m² = ${si(irradiance, 'W/m²')}${factors}`,
+    }
   }
   const value = row.k * c4 * c7 * t ** row.exponent
   const tText = row.exponent === 0 ? '' : `·t^${row.exponent}`
@@ -62,9 +72,9 @@ export function ocularMpe(input: MpeInput): Computed {
   const band = findBand(input.wavelengthNm)
   if (input.wavelengthNm < 600 && t > 10)
     outsideTable('durationS', t, 'photochemical limits govern 400–600 nm beyond 10 s and are not tabulated')
-  const rows = band.rows[edition].filter(r => t >= r.fromS && t <= r.toS)
+  const rows = band.rows[edition].filter((r) => t >= r.fromS && t <= r.toS)
   if (rows.length === 0) outsideTable('durationS', t, `no MPE row for ${band.fromNm}–${band.toNm} nm at this duration`)
-  const best = rows.map(r => evaluateRow(r, input)).reduce((a, b) => (b.value < a.value ? b : a))
+  const best = rows.map((r) => evaluateRow(r, input)).reduce((a, b) => (b.value < a.value ? b : a))
   return computed(best.value, 'J/m²', best.formula, SOURCE[edition], {
     edition,
     notes: ['point source (C6 = 1); exposure averaged over the limiting aperture (IEC 60825-1:2014 Annex A)'],
@@ -74,7 +84,10 @@ export function ocularMpe(input: MpeInput): Computed {
 /** Ocular MPE as a mean irradiance E = H/t (W/m²) over `durationS`. */
 export function ocularMpeIrradiance(input: MpeInput): Computed {
   const h = ocularMpe(input)
-  return computed(h.value / input.durationS, 'W/m²', `E = H/t; ${h.formula}`, h.source, { edition: h.edition, notes: h.notes })
+  return computed(h.value / input.durationS, 'W/m²', `E = H/t; ${h.formula}`, h.source, {
+    edition: h.edition,
+    notes: h.notes,
+  })
 }
 
 /**
@@ -89,6 +102,7 @@ export function limitingApertureMm(wavelengthNm: number, durationS: number): Com
   if (wavelengthNm < 400) outsideTable('wavelengthNm', wavelengthNm, 'apertures tabulated from 400 nm')
   if (wavelengthNm <= 1400) return computed(7, 'mm', 'D = 7 mm (400–1400 nm)', src)
   if (durationS <= 0.3) return computed(1, 'mm', 'D = 1 mm (λ > 1400 nm, t ≤ 0.3 s)', src)
-  if (durationS < 10) return computed(1.5 * durationS ** 0.375, 'mm', `D = 1.5·t^0.375 mm, t = ${si(durationS, 's')}`, src)
+  if (durationS < 10)
+    return computed(1.5 * durationS ** 0.375, 'mm', `D = 1.5·t^0.375 mm, t = ${si(durationS, 's')}`, src)
   return computed(3.5, 'mm', 'D = 3.5 mm (λ > 1400 nm, t ≥ 10 s)', src)
 }

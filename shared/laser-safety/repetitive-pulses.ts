@@ -55,7 +55,10 @@ export function groupPulses(input: PulseTrainInput): PulseGrouping {
   const isGrouped = input.repetitionRateHz * window.value > 1
   const effectiveDurationS = isGrouped ? window.value : input.pulseDurationS
   const pulsesPerGroup = isGrouped ? input.repetitionRateHz * window.value : 1
-  const effectivePulseCount = Math.max(1, isGrouped ? input.exposureDurationS / window.value : input.repetitionRateHz * input.exposureDurationS)
+  const effectivePulseCount = Math.max(
+    1,
+    isGrouped ? input.exposureDurationS / window.value : input.repetitionRateHz * input.exposureDurationS,
+  )
   return { window, isGrouped, pulsesPerGroup, effectiveDurationS, effectivePulseCount }
 }
 
@@ -74,14 +77,18 @@ export function correctionC5(grouping: PulseGrouping, exposureDurationS: number)
   if (exposureDurationS <= 0.25 || n <= 600)
     return computed(1, '1', `C5 = 1 (T ≤ 0.25 s or N ≤ 600; N = ${fmt(n)})`, src, { edition })
   const raw = 5 * n ** -0.25
-  return computed(Math.max(0.4, raw), '1', `C5 = max(0.4, 5·N^−0.25) = max(0.4, ${fmt(raw)}), N = ${fmt(n)}`, src, { edition })
+  return computed(Math.max(0.4, raw), '1', `C5 = max(0.4, 5·N^−0.25) = max(0.4, ${fmt(raw)}), N = ${fmt(n)}`, src, {
+    edition,
+  })
 }
 
 /** C_P = N^−0.25 of the Directive (Annex II Table 2.6); thermal limits only. */
 export function correctionCP(grouping: PulseGrouping): Computed {
   const n = grouping.effectivePulseCount
-  return computed(n ** -0.25, '1', `C_P = N^−0.25 = ${fmt(n)}^−0.25`, 'Directive 2006/25/EC Annex II Table 2.6',
-    { edition: 'EU-2006/25/EC', notes: ['applies to thermal limits only'] })
+  return computed(n ** -0.25, '1', `C_P = N^−0.25 = ${fmt(n)}^−0.25`, 'Directive 2006/25/EC Annex II Table 2.6', {
+    edition: 'EU-2006/25/EC',
+    notes: ['applies to thermal limits only'],
+  })
 }
 
 /** The three repetitive-pulse limits for a train (rules 1–3 of docs/laser-safety.md §5). */
@@ -95,11 +102,18 @@ export function pulseTrainLimits(input: PulseTrainInput): PulseTrainLimits {
   const singlePulse = ocularMpe({ ...base, durationS: input.pulseDurationS })
   const average = ocularMpeIrradiance({ ...base, durationS: input.exposureDurationS })
   const grouping = groupPulses(input)
-  const trainFactor = edition === 'IEC-60825-1:2014' ? correctionC5(grouping, input.exposureDurationS) : correctionCP(grouping)
+  const trainFactor =
+    edition === 'IEC-60825-1:2014' ? correctionC5(grouping, input.exposureDurationS) : correctionCP(grouping)
   const groupMpe = ocularMpe({ ...base, durationS: grouping.effectiveDurationS })
   const name = edition === 'IEC-60825-1:2014' ? 'C5' : 'C_P'
-  const pulseTrain = computed(trainFactor.value * groupMpe.value, 'J/m²',
+  const pulseTrain = computed(
+    trainFactor.value * groupMpe.value,
+    'J/m²',
     `H_train = ${name}·MPE(t_eff) = ${fmt(trainFactor.value)} × ${si(groupMpe.value, 'J/m²')}, t_eff = ${si(grouping.effectiveDurationS, 's')}`,
-    edition === 'IEC-60825-1:2014' ? 'IEC 60825-1:2014 Annex A (repetitive pulses, rule 3)' : 'Directive 2006/25/EC Annex II Table 2.6 (rule 3)', { edition })
+    edition === 'IEC-60825-1:2014'
+      ? 'IEC 60825-1:2014 Annex A (repetitive pulses, rule 3)'
+      : 'Directive 2006/25/EC Annex II Table 2.6 (rule 3)',
+    { edition },
+  )
   return { edition, singlePulse, average, grouping, trainFactor, pulseTrain }
 }

@@ -33,12 +33,19 @@ export const inviteSchema = z.object({
 export type InviteInput = z.infer<typeof inviteSchema>
 
 /** A change of a person; a change of roles or of the active flag needs a reason (kept in the audit trail). */
-export const updateUserSchema = z.object({
-  name: safeString().min(2, 'Enter the full name').max(120).optional(),
-  roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length).optional(),
-  active: z.boolean().optional(),
-  reason: z.string().trim().max(500).optional().transform((v) => v || undefined),
-}).refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'Nothing to change' })
+export const updateUserSchema = z
+  .object({
+    name: safeString().min(2, 'Enter the full name').max(120).optional(),
+    roles: z.array(roleSchema).min(1, 'Pick at least one role').max(ROLES.length).optional(),
+    active: z.boolean().optional(),
+    reason: z
+      .string()
+      .trim()
+      .max(500)
+      .optional()
+      .transform((v) => v || undefined),
+  })
+  .refine((v) => Object.keys(v).some((k) => k !== 'reason'), { message: 'Nothing to change' })
 
 /** An administrator's action on a person's account (end their sessions, send a password-reset link): why. */
 export const accountActionSchema = z.object({

@@ -19,8 +19,15 @@ const ID_MESSAGE = `Use a plain whole number from 1 to ${MAX_ID}`
  * take them). `message` replaces the wording of the refusal (e.g. "Pick a file of this session").
  */
 export function idValue(message = ID_MESSAGE) {
-  return z.union([z.number(), z.string()], { error: message })
-    .refine((v) => (typeof v === 'number' ? Number.isInteger(v) && v >= 1 && v <= MAX_ID : ID_PATTERN.test(v) && Number(v) <= MAX_ID), message)
+  return z
+    .union([z.number(), z.string()], { error: message })
+    .refine(
+      (v) =>
+        typeof v === 'number'
+          ? Number.isInteger(v) && v >= 1 && v <= MAX_ID
+          : ID_PATTERN.test(v) && Number(v) <= MAX_ID,
+      message,
+    )
     .transform((v) => Number(v))
 }
 
@@ -43,7 +50,9 @@ const BIDI = /[\u202a-\u202e\u2066-\u2069]/
 export function textProblem(s: string, multiline: boolean): string | null {
   if (BIDI.test(s)) return 'Remove the invisible text-direction characters (U+202A–U+202E, U+2066–U+2069)'
   if ((multiline ? CONTROL_MULTI : CONTROL_SINGLE).test(s)) {
-    return multiline ? 'Remove the control characters (only tabs and line breaks are allowed)' : 'Use one line without tabs or control characters'
+    return multiline
+      ? 'Remove the control characters (only tabs and line breaks are allowed)'
+      : 'Use one line without tabs or control characters'
   }
   return null
 }
@@ -51,8 +60,11 @@ export function textProblem(s: string, multiline: boolean): string | null {
 /** A trimmed string with the text rule (single line unless `multiline`); chain `.min()`, `.max()` as usual. */
 export function safeString(opts: { multiline?: boolean; error?: string } = {}) {
   const multiline = opts.multiline ?? false
-  return z.string(opts.error ? { error: opts.error } : undefined).trim().check((ctx) => {
-    const problem = textProblem(ctx.value, multiline)
-    if (problem) ctx.issues.push({ code: 'custom', message: problem, input: ctx.value })
-  })
+  return z
+    .string(opts.error ? { error: opts.error } : undefined)
+    .trim()
+    .check((ctx) => {
+      const problem = textProblem(ctx.value, multiline)
+      if (problem) ctx.issues.push({ code: 'custom', message: problem, input: ctx.value })
+    })
 }

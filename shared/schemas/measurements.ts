@@ -7,9 +7,16 @@ import { idValue, safeString } from './common'
  * uploads and retirements. Shapes of sessions and laser setups themselves are in ./records.
  */
 
-const optReason = safeString({ multiline: true }).max(500).optional().nullable().transform((v) => (v ? v : null))
+const optReason = safeString({ multiline: true })
+  .max(500)
+  .optional()
+  .nullable()
+  .transform((v) => (v ? v : null))
 const codeParam = (re: RegExp, hint: string) => z.string().trim().toUpperCase().regex(re, hint).optional()
-const dateParam = z.string().refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date (YYYY-MM-DD) or date and time').optional()
+const dateParam = z
+  .string()
+  .refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date (YYYY-MM-DD) or date and time')
+  .optional()
 
 /** A session edit: any subset of the session fields, plus a reason (required for entries older than 24 h). */
 export const sessionUpdateSchema = sessionSchema.partial().extend({ reason: optReason })
@@ -44,7 +51,10 @@ export type FileUploadInput = z.infer<typeof fileUploadSchema>
 export const fileListQuerySchema = z.object({
   entity: z.enum(FILE_ENTITIES),
   entityId: idValue(),
-  includeRetired: z.enum(['true', 'false']).default('false').transform((v) => v === 'true'),
+  includeRetired: z
+    .enum(['true', 'false'])
+    .default('false')
+    .transform((v) => v === 'true'),
 })
 
 /** Retiring a record or file always needs a reason (kept in the audit log). */

@@ -10,8 +10,19 @@ import { z } from 'zod'
 
 /** Units by the ending of a field name (units are in the field names: `diameterNm`, `thicknessUm`, `rotationDeg` …). */
 const UNIT_SUFFIXES: readonly (readonly [RegExp, string])[] = [
-  [/PmV$/, ' pm/V'], [/Nm$/, ' nm'], [/Um$/, ' µm'], [/Mm$/, ' mm'], [/Deg$/, '°'], [/Mrad$/, ' mrad'],
-  [/Mhz$/, ' MHz'], [/Hz$/, ' Hz'], [/Mw$/, ' mW'], [/Fs$/, ' fs'], [/Uj$/, ' µJ'], [/Ev$/, ' eV'], [/[a-z]S$/, ' s'],
+  [/PmV$/, ' pm/V'],
+  [/Nm$/, ' nm'],
+  [/Um$/, ' µm'],
+  [/Mm$/, ' mm'],
+  [/Deg$/, '°'],
+  [/Mrad$/, ' mrad'],
+  [/Mhz$/, ' MHz'],
+  [/Hz$/, ' Hz'],
+  [/Mw$/, ' mW'],
+  [/Fs$/, ' fs'],
+  [/Uj$/, ' µJ'],
+  [/Ev$/, ' eV'],
+  [/[a-z]S$/, ' s'],
 ]
 
 /** The unit (with its leading space, none for °) that the last named segment of `path` carries; '' when none. */
@@ -34,24 +45,41 @@ export function groupDigits(n: number): string {
 }
 
 /** "At most 20 000 nm", "At least −360°": a limit with the field's unit. */
-export function limitText(word: 'At most' | 'At least' | 'Less than' | 'More than', limit: number | bigint, unit = ''): string {
+export function limitText(
+  word: 'At most' | 'At least' | 'Less than' | 'More than',
+  limit: number | bigint,
+  unit = '',
+): string {
   return `${word} ${groupDigits(Number(limit))}${unit}`
 }
 
 const COUNT_WORDS: Record<string, [string, string]> = {
-  string: ['character', 'characters'], array: ['item', 'items'], set: ['item', 'items'], file: ['byte', 'bytes'],
+  string: ['character', 'characters'],
+  array: ['item', 'items'],
+  set: ['item', 'items'],
+  file: ['byte', 'bytes'],
 }
 const counted = (n: number | bigint, origin: string) => {
   const [one, many] = COUNT_WORDS[origin] ?? ['', '']
   return `${groupDigits(Number(n))} ${Number(n) === 1 ? one : many}`.trimEnd()
 }
 const TYPE_WORDS: Record<string, string> = {
-  number: 'Enter a number', int: 'Enter a whole number', bigint: 'Enter a whole number', string: 'Enter text',
-  boolean: 'Choose yes or no', array: 'Give a list', object: 'Fill in the fields', date: 'Enter a date',
+  number: 'Enter a number',
+  int: 'Enter a whole number',
+  bigint: 'Enter a whole number',
+  string: 'Enter text',
+  boolean: 'Choose yes or no',
+  array: 'Give a list',
+  object: 'Fill in the fields',
+  date: 'Enter a date',
 }
 const FORMAT_WORDS: Record<string, string> = {
-  email: 'Enter a valid e-mail address', url: 'Enter a web address (https://…)', date: 'Use the form YYYY-MM-DD',
-  datetime: 'Enter a date and time', time: 'Enter a time (hh:mm)', uuid: 'Not a valid identifier',
+  email: 'Enter a valid e-mail address',
+  url: 'Enter a web address (https://…)',
+  date: 'Use the form YYYY-MM-DD',
+  datetime: 'Enter a date and time',
+  time: 'Enter a time (hh:mm)',
+  uuid: 'Not a valid identifier',
 }
 
 type Issue = z.core.$ZodRawIssue
@@ -83,10 +111,17 @@ export function plainMessage(issue: Issue): string {
     case 'invalid_value': {
       if (missing) return 'Required'
       const values = issue.values.map(String)
-      return values.length === 1 ? `Use ${values[0]}` : values.length <= 12 ? `Pick one of: ${values.join(', ')}` : 'Pick one of the listed values'
+      return values.length === 1
+        ? `Use ${values[0]}`
+        : values.length <= 12
+          ? `Pick one of: ${values.join(', ')}`
+          : 'Pick one of the listed values'
     }
     case 'invalid_format':
-      return FORMAT_WORDS[issue.format] ?? (issue.format === 'regex' ? 'Not in the expected form' : 'Not in the expected form')
+      return (
+        FORMAT_WORDS[issue.format] ??
+        (issue.format === 'regex' ? 'Not in the expected form' : 'Not in the expected form')
+      )
     case 'not_multiple_of':
       return `Use a multiple of ${groupDigits(Number(issue.divisor))}${unitOfPath(issue.path)}`
     case 'unrecognized_keys':
@@ -94,7 +129,9 @@ export function plainMessage(issue: Issue): string {
     case 'invalid_union': {
       if (missing) return 'Required'
       // Each branch refused only the type (e.g. number | null): say what would do.
-      const expected = issue.errors.flatMap((branch) => (branch.length === 1 && branch[0]!.code === 'invalid_type' ? [branch[0]!.expected] : []))
+      const expected = issue.errors.flatMap((branch) =>
+        branch.length === 1 && branch[0]!.code === 'invalid_type' ? [branch[0]!.expected] : [],
+      )
       if (expected.includes('number') || expected.includes('int')) return 'Enter a number'
       if (expected.includes('string')) return 'Enter text'
       return 'Not a valid value'

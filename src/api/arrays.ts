@@ -9,4 +9,5 @@ export const createArray = (input: ArrayInput) => http.post<ArrayRecord>(`/chips
 export const updateArray = (id: number, input: ArrayInput) => http.patch<ArrayRecord>(`/arrays/${id}`, input)
 export const retireArray = (id: number, reason: string) => http.post<ArrayRecord>(`/arrays/${id}/retire`, { reason })
 export const recomputeArray = (id: number) => http.post<ArrayRecord>(`/arrays/${id}/recompute`)
-export const recomputeArrays = (opts: { ids?: number[]; staleOnly?: boolean }) => http.post<{ checked: number; recomputed: number }>('/arrays/recompute', opts)
+export const recomputeArrays = (opts: { ids?: number[]; staleOnly?: boolean }) =>
+  http.post<{ checked: number; recomputed: number }>('/arrays/recompute', opts)

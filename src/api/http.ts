@@ -40,11 +40,17 @@ async function request<T>(method: Method, path: string, body?: unknown): Promise
     res = await fetch(`/api${path}`, {
       method,
       credentials: 'same-origin',
-      headers: body === undefined ? { Accept: 'application/json' } : { Accept: 'application/json', 'Content-Type': 'application/json' },
+      headers:
+        body === undefined
+          ? { Accept: 'application/json' }
+          : { Accept: 'application/json', 'Content-Type': 'application/json' },
       body: body === undefined ? undefined : JSON.stringify(body),
     })
   } catch {
-    throw new ApiError(0, { error: 'network', message: 'The Overtone server cannot be reached. Check the network and try again.' })
+    throw new ApiError(0, {
+      error: 'network',
+      message: 'The Overtone server cannot be reached. Check the network and try again.',
+    })
   }
   if (res.status === 204) return undefined as T
   const data: unknown = await res.json().catch(() => ({}))

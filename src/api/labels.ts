@@ -6,11 +6,14 @@ import { http } from './http'
 
 /** Labels (templates, rendering, print jobs) and what scanning needs (code resolver, moves). */
 export const listTemplates = () => http.get<{ templates: LabelTemplate[] }>('/labels/templates')
-export const renderLabels = (input: Partial<RenderLabelsInput> & Pick<RenderLabelsInput, 'template' | 'codes'>) => http.post<LabelRender>('/labels/render', input)
+export const renderLabels = (input: Partial<RenderLabelsInput> & Pick<RenderLabelsInput, 'template' | 'codes'>) =>
+  http.post<LabelRender>('/labels/render', input)
 export const recordLabelJob = (input: LabelJobInput) => http.post<LabelJob>('/labels/jobs', input)
 export const listLabelJobs = () => http.get<{ jobs: LabelJob[] }>('/labels/jobs')
 /** Same-origin URL of one label as an SVG file (Content-Disposition: attachment). */
-export const labelDownloadUrl = (template: string, code: string) => `/api/labels/${encodeURIComponent(template)}/${encodeURIComponent(code)}.svg`
+export const labelDownloadUrl = (template: string, code: string) =>
+  `/api/labels/${encodeURIComponent(template)}/${encodeURIComponent(code)}.svg`
 
 export const resolveCode = (code: string) => http.get<ResolvedCode>(`/resolve/${encodeURIComponent(code)}`)
-export const moveItem = (input: Pick<MoveInput, 'itemCode' | 'toLocationId'> & { note?: string }) => http.post<Move>('/moves', input)
+export const moveItem = (input: Pick<MoveInput, 'itemCode' | 'toLocationId'> & { note?: string }) =>
+  http.post<Move>('/moves', input)

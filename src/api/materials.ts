@@ -6,5 +6,7 @@ import { listQuery, type ListParams } from './wafers'
 export const listMaterials = (p: ListParams) => http.get<Page<Material>>(`/materials${listQuery(p)}`)
 export const getMaterial = (id: number) => http.get<MaterialDetail>(`/materials/${id}`)
 export const createMaterial = (input: MaterialInput) => http.post<MaterialDetail>('/materials', input)
-export const updateMaterial = (id: number, input: MaterialInput) => http.patch<MaterialDetail>(`/materials/${id}`, input)
-export const retireMaterial = (id: number, reason: string) => http.post<MaterialDetail>(`/materials/${id}/retire`, { reason })
+export const updateMaterial = (id: number, input: MaterialInput) =>
+  http.patch<MaterialDetail>(`/materials/${id}`, input)
+export const retireMaterial = (id: number, reason: string) =>
+  http.post<MaterialDetail>(`/materials/${id}/retire`, { reason })

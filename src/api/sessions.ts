@@ -5,8 +5,16 @@ import { http } from './http'
 
 /** Query of the session list (server-side paging, sort and filters; see sessionListQuerySchema). */
 export interface SessionListParams {
-  page: number; pageSize: number; sort?: string; dir?: 'asc' | 'desc'; q?: string
-  array?: string; chip?: string; laserSetupId?: number; from?: string; to?: string
+  page: number
+  pageSize: number
+  sort?: string
+  dir?: 'asc' | 'desc'
+  q?: string
+  array?: string
+  chip?: string
+  laserSetupId?: number
+  from?: string
+  to?: string
 }
 
 /** Predicted vs observed for an unsaved session (`POST /api/sessions/preview`). */
@@ -21,7 +29,8 @@ export function toQueryString(params: object): string {
   return q.toString()
 }
 
-export const listSessions = (p: SessionListParams) => http.get<Page<MeasurementSessionRow>>(`/sessions?${toQueryString(p)}`)
+export const listSessions = (p: SessionListParams) =>
+  http.get<Page<MeasurementSessionRow>>(`/sessions?${toQueryString(p)}`)
 export const getSession = (id: number) => http.get<MeasurementSession>(`/sessions/${id}`)
 export const createSession = (input: SessionInput) => http.post<MeasurementSession>('/sessions', input)
 export const previewSession = (input: SessionPreviewInput) => http.post<SessionPreview>('/sessions/preview', input)
@@ -31,4 +40,6 @@ export const previewSession = (input: SessionPreviewInput) => http.post<SessionP
  * is searched as the prefix A-… its arrays' codes share (array codes are chip code + position).
  */
 export const searchArrays = (text: string) =>
-  http.get<Page<ArrayRow>>(`/arrays?${toQueryString({ q: text.trim().toUpperCase().replace(/^C-/, 'A-'), pageSize: 20 })}`)
+  http.get<Page<ArrayRow>>(
+    `/arrays?${toQueryString({ q: text.trim().toUpperCase().replace(/^C-/, 'A-'), pageSize: 20 })}`,
+  )

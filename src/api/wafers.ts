@@ -21,4 +21,5 @@ export const getWafer = (id: number) => http.get<WaferDetail>(`/wafers/${id}`)
 export const createWafer = (input: WaferWrite) => http.post<Wafer>('/wafers', input)
 export const updateWafer = (id: number, input: WaferWrite) => http.patch<Wafer>(`/wafers/${id}`, input)
 export const retireWafer = (id: number, reason: string) => http.post<Wafer>(`/wafers/${id}/retire`, { reason })
-export const diceWafer = (id: number, input: Omit<DiceInput, 'waferId'>) => http.post<{ chips: Chip[] }>(`/wafers/${id}/dice`, input)
+export const diceWafer = (id: number, input: Omit<DiceInput, 'waferId'>) =>
+  http.post<{ chips: Chip[] }>(`/wafers/${id}/dice`, input)

@@ -20,8 +20,10 @@ export function useFieldErrors() {
     if (!isApiError(err)) return err instanceof Error ? err.message : String(err)
     const unshown: string[] = []
     for (const [path, messages] of Object.entries(err.fieldErrors)) {
-      // A message that repeats its own field path ("crystal.normal: cannot read …") is shown without it under the field.
-      if (shownFields.includes(path)) errors[path] = messages.map((m) => (m.startsWith(`${path}: `) ? m.slice(path.length + 2) : m)).join(' ')
+      // A message that repeats its own field path ("crystal.normal: cannot read …") is shown without it under the
+      // field.
+      if (shownFields.includes(path))
+        errors[path] = messages.map((m) => (m.startsWith(`${path}: `) ? m.slice(path.length + 2) : m)).join(' ')
       else unshown.push(...messages)
     }
     if (Object.keys(errors).length === 0) return unshown.length ? unshown.join(' ') : err.message

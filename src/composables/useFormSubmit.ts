@@ -1,7 +1,9 @@
 import { ref } from 'vue'
 import { useFieldErrors } from './useFieldErrors'
 
-/** Messages for fields that no input rule covers (a picker left empty …), by field path; a falsy value is no problem. */
+/**
+ * Messages for fields that no input rule covers (a picker left empty …), by field path; a falsy value is no problem.
+ */
 export type FormChecks = Record<string, string | false | null | undefined>
 
 export interface FormSubmitOptions {
@@ -48,14 +50,20 @@ export function useFormSubmit(options: FormSubmitOptions) {
     reset()
     let ok = true
     for (const [path, message] of Object.entries(options.check?.() ?? {})) {
-      if (message) { fieldErrors[path] = message; ok = false }
+      if (message) {
+        fieldErrors[path] = message
+        ok = false
+      }
     }
     return ok
   }
 
   /** Put an error (an ApiError or anything thrown) on the fields and the general error. */
   function take(err: unknown): void {
-    const paths = err && typeof err === 'object' && 'fieldErrors' in err ? Object.keys((err as { fieldErrors: object }).fieldErrors) : []
+    const paths =
+      err && typeof err === 'object' && 'fieldErrors' in err
+        ? Object.keys((err as { fieldErrors: object }).fieldErrors)
+        : []
     error.value = fields.take(err, paths.filter(isShown)) ?? ''
   }
 

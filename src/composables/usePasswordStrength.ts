@@ -11,7 +11,11 @@ export function usePasswordStrength(password: Ref<string>, userInputs: () => str
   let asked = 0
   watch(password, (pw) => {
     clearTimeout(timer)
-    if (pw.length < 10) { feedback.value = []; isStrong.value = false; return }
+    if (pw.length < 10) {
+      feedback.value = []
+      isStrong.value = false
+      return
+    }
     timer = setTimeout(async () => {
       const n = ++asked
       const { passwordFeedback } = await import('../../shared/password-strength')

@@ -5,7 +5,11 @@ import { confirmRetire } from '../components/inventory/confirm-retire'
 /** What went wrong, in words: the server's message and any field messages it did not repeat. */
 export function actionErrorText(err: unknown, fallback: string): string {
   const message = err instanceof Error && err.message ? err.message : fallback
-  const fields = isApiError(err) ? Object.values(err.fieldErrors).flat().filter((m) => !message.includes(m)) : []
+  const fields = isApiError(err)
+    ? Object.values(err.fieldErrors)
+        .flat()
+        .filter((m) => !message.includes(m))
+    : []
   return [message, ...fields].join(' ')
 }
 
@@ -14,7 +18,10 @@ export function actionErrorText(err: unknown, fallback: string): string {
  * it went in a notification (`done` on success, the server's message on failure, or `failed`
  * when it gave none). Resolves to whether it went through.
  */
-export async function runAction(fn: () => Promise<unknown>, words: { done: string | (() => string); failed: string }): Promise<boolean> {
+export async function runAction(
+  fn: () => Promise<unknown>,
+  words: { done: string | (() => string); failed: string },
+): Promise<boolean> {
   try {
     await fn()
     Notify.create({ type: 'positive', message: typeof words.done === 'function' ? words.done() : words.done })
@@ -27,7 +34,8 @@ export async function runAction(fn: () => Promise<unknown>, words: { done: strin
 
 /** Ask why (records are retired, never deleted), then retire with that reason and say so. */
 export async function retireRecord(
-  what: string, retire: (reason: string) => Promise<unknown>,
+  what: string,
+  retire: (reason: string) => Promise<unknown>,
   options: { message?: string; minLength?: number; done?: string } = {},
 ): Promise<boolean> {
   const reason = await confirmRetire(what, options)

@@ -31,7 +31,12 @@ export function useScanner(): void {
       const hit = await labels.scan(code)
       if (router.currentRoute.value.name !== 'scan') await router.push(hit.to)
     } catch (err) {
-      const message = isApiError(err) && err.status === 404 ? `No record has the code ${code}` : err instanceof Error ? err.message : String(err)
+      const message =
+        isApiError(err) && err.status === 404
+          ? `No record has the code ${code}`
+          : err instanceof Error
+            ? err.message
+            : String(err)
       Notify.create({ type: 'negative', message, icon: 'mdi-qrcode-remove' })
     }
   }

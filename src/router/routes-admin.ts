@@ -6,6 +6,12 @@ export type AdminRouteName = 'audit-search' | 'excel'
 
 /** Pages of this area, children of MainLayout (use `route()` from ./route with lazy imports). */
 export const adminRoutes: RouteRecordRaw[] = [
-  route('audit-search', 'audit', () => import('../pages/AuditSearchPage.vue'), { title: 'Audit trail', requires: ['read', 'Audit'] }),
-  route('excel', 'excel', () => import('../pages/InventoryExcelPage.vue'), { title: 'Export & import', requires: ['export', 'Inventory'] }),
+  route('audit-search', 'audit', () => import('../pages/AuditSearchPage.vue'), {
+    title: 'Audit trail',
+    requires: ['read', 'Audit'],
+  }),
+  route('excel', 'excel', () => import('../pages/InventoryExcelPage.vue'), {
+    title: 'Export & import',
+    requires: ['export', 'Inventory'],
+  }),
 ]

@@ -7,8 +7,20 @@ export type InventoryRouteName = 'material-detail' | 'location-detail' | 'wafer-
 
 /** Detail pages; the paths are the ones the server's resolve and search answer with (/wafers/:id …). */
 export const inventoryRoutes: RouteRecordRaw[] = [
-  route('material-detail', 'materials/:id(\\d+)', () => import('../pages/MaterialDetailPage.vue'), { title: 'Material' }, true),
-  route('location-detail', 'locations/:id(\\d+)', () => import('../pages/LocationDetailPage.vue'), { title: 'Storage location' }, true),
+  route(
+    'material-detail',
+    'materials/:id(\\d+)',
+    () => import('../pages/MaterialDetailPage.vue'),
+    { title: 'Material' },
+    true,
+  ),
+  route(
+    'location-detail',
+    'locations/:id(\\d+)',
+    () => import('../pages/LocationDetailPage.vue'),
+    { title: 'Storage location' },
+    true,
+  ),
   route('wafer-detail', 'wafers/:id(\\d+)', () => import('../pages/WaferDetailPage.vue'), { title: 'Wafer' }, true),
   route('chip-detail', 'chips/:id(\\d+)', () => import('../pages/ChipDetailPage.vue'), { title: 'Chip' }, true),
   route('array-detail', 'arrays/:id(\\d+)', () => import('../pages/ArrayDetailPage.vue'), { title: 'Array' }, true),

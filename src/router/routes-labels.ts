@@ -11,5 +11,14 @@ export const labelRoutes: RouteRecordRaw[] = [
   // What a label's QR opens: <PUBLIC_URL>/S/<CODE> (upper case, QR alphanumeric mode). vue-router
   // matches paths case-insensitively unless `sensitive` is set, so this one route answers both
   // /s/<code> and /S/<code>; the server's SPA fallback serves index.html for either.
-  { ...route('scan-resolve', 's/:code', () => import('../pages/ScanResolvePage.vue'), { title: 'Opening a label' }, true), sensitive: false },
+  {
+    ...route(
+      'scan-resolve',
+      's/:code',
+      () => import('../pages/ScanResolvePage.vue'),
+      { title: 'Opening a label' },
+      true,
+    ),
+    sensitive: false,
+  },
 ]

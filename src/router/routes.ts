@@ -10,11 +10,22 @@ import { adminRoutes, type AdminRouteName } from './routes-admin'
 export type RouteName = CoreRouteName | InventoryRouteName | MeasurementRouteName | LabelRouteName | AdminRouteName
 
 type CoreRouteName =
-  | 'sign-in' | 'sign-out' | 'accept-invite'
-  | 'home' | 'account'
-  | 'inventory' | 'fabrication' | 'measurements' | 'laser-safety' | 'labels' | 'channels'
-  | 'people' | 'mail-outbox' | 'mail-message'
-  | 'not-allowed' | 'not-found'
+  | 'sign-in'
+  | 'sign-out'
+  | 'accept-invite'
+  | 'home'
+  | 'account'
+  | 'inventory'
+  | 'fabrication'
+  | 'measurements'
+  | 'laser-safety'
+  | 'labels'
+  | 'channels'
+  | 'people'
+  | 'mail-outbox'
+  | 'mail-message'
+  | 'not-allowed'
+  | 'not-found'
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -26,7 +37,6 @@ declare module 'vue-router' {
     requires?: [Action, Subject]
   }
 }
-
 
 // Route pages are lazy so the first page stays small; each area becomes its own chunk.
 // Both layouts hang off '/'. MainLayout must come first: on equal rank vue-router keeps insertion
@@ -40,13 +50,27 @@ export const routes: RouteRecordRaw[] = [
       route('account', 'account', () => import('../pages/AccountPage.vue'), { title: 'My account' }),
       route('inventory', 'inventory', () => import('../pages/InventoryPage.vue'), { title: 'Sample store' }),
       route('fabrication', 'fabrication', () => import('../pages/FabricationPage.vue'), { title: 'Cleanroom work' }),
-      route('measurements', 'measurements', () => import('../pages/MeasurementsPage.vue'), { title: 'Optical measurements' }),
+      route('measurements', 'measurements', () => import('../pages/MeasurementsPage.vue'), {
+        title: 'Optical measurements',
+      }),
       route('laser-safety', 'laser-safety', () => import('../pages/LaserSafetyPage.vue'), { title: 'Laser safety' }),
       route('labels', 'labels', () => import('../pages/LabelsPage.vue'), { title: 'Labels & scanning' }),
       route('channels', 'channels', () => import('../pages/ChannelsPage.vue'), { title: 'Harmonic channels' }),
-      route('people', 'people', () => import('../pages/PeoplePage.vue'), { title: 'People', requires: ['read', 'User'] }),
-      route('mail-outbox', 'mail', () => import('../pages/MailOutboxPage.vue'), { title: 'Mail outbox', requires: ['read', 'Mail'] }),
-      route('mail-message', 'mail/:id(\\d+)', () => import('../pages/MailMessagePage.vue'), { title: 'Mail message', requires: ['read', 'Mail'] }, true),
+      route('people', 'people', () => import('../pages/PeoplePage.vue'), {
+        title: 'People',
+        requires: ['read', 'User'],
+      }),
+      route('mail-outbox', 'mail', () => import('../pages/MailOutboxPage.vue'), {
+        title: 'Mail outbox',
+        requires: ['read', 'Mail'],
+      }),
+      route(
+        'mail-message',
+        'mail/:id(\\d+)',
+        () => import('../pages/MailMessagePage.vue'),
+        { title: 'Mail message', requires: ['read', 'Mail'] },
+        true,
+      ),
       ...inventoryRoutes,
       ...measurementRoutes,
       ...labelRoutes,
@@ -61,7 +85,13 @@ export const routes: RouteRecordRaw[] = [
     children: [
       route('sign-in', 'sign-in', () => import('../pages/SignInPage.vue'), { title: 'Sign in', isPublic: true }),
       route('sign-out', 'sign-out', () => import('../pages/SignOutPage.vue'), { title: 'Signed out', isPublic: true }),
-      route('accept-invite', 'invite/:token', () => import('../pages/AcceptInvitePage.vue'), { title: 'Accept invitation', isPublic: true }, true),
+      route(
+        'accept-invite',
+        'invite/:token',
+        () => import('../pages/AcceptInvitePage.vue'),
+        { title: 'Accept invitation', isPublic: true },
+        true,
+      ),
     ],
   },
 ]

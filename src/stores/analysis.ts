@@ -27,9 +27,25 @@ export const useAnalysisStore = defineStore('analysis', () => {
     if (input.record) await fetchSaved(sessionId)
     return spectrum.value
   }
-  function reset(): void { fit.value = null; spectrum.value = null; saved.value = [] }
+  function reset(): void {
+    fit.value = null
+    spectrum.value = null
+    saved.value = []
+  }
 
-  return { fit, spectrum, saved, arrayPatterns, chipPatterns, barePattern, sheet, fetchSaved, runFit, runSpectrum, reset }
+  return {
+    fit,
+    spectrum,
+    saved,
+    arrayPatterns,
+    chipPatterns,
+    barePattern,
+    sheet,
+    fetchSaved,
+    runFit,
+    runSpectrum,
+    reset,
+  }
 })
 
 /** Everything a printable sample sheet shows, loaded through the records' own routes plus the analysis routes. */
@@ -39,6 +55,13 @@ export async function loadSampleSheet(kind: 'array' | 'chip', id: number) {
   const sessions = await store.sheet(kind, id)
   const arrays = await Promise.all(sessions.map((s) => getArray(s.id)))
   const chipId = kind === 'chip' ? id : arrays[0].chip.id
-  const [chip, patterns] = await Promise.all([getChip(chipId), kind === 'array' ? store.arrayPatterns(id) : store.chipPatterns(id)])
-  return { chip, arrays: arrays.map((a) => ({ array: a, sessions: sessions.find((s) => s.id === a.id)?.sessions ?? [] })), patterns }
+  const [chip, patterns] = await Promise.all([
+    getChip(chipId),
+    kind === 'array' ? store.arrayPatterns(id) : store.chipPatterns(id),
+  ])
+  return {
+    chip,
+    arrays: arrays.map((a) => ({ array: a, sessions: sessions.find((s) => s.id === a.id)?.sessions ?? [] })),
+    patterns,
+  }
 }

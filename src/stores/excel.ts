@@ -38,7 +38,11 @@ export const useExcelStore = defineStore('excel', () => {
   }
 
   /** Check a file (dryRun) or import it; the report replaces the previous one. */
-  async function send(file: File, dryRun: boolean, opts: { planHash?: string; reason?: string } = {}): Promise<ImportReport> {
+  async function send(
+    file: File,
+    dryRun: boolean,
+    opts: { planHash?: string; reason?: string } = {},
+  ): Promise<ImportReport> {
     isChecking.value = true
     try {
       report.value = await excelApi.importWorkbook(file, dryRun, opts)
@@ -48,7 +52,9 @@ export const useExcelStore = defineStore('excel', () => {
     }
   }
 
-  function clearReport() { report.value = null }
+  function clearReport() {
+    report.value = null
+  }
 
   return { job, exportProblem, isExporting, progress, startExport, stopPolling, report, isChecking, send, clearReport }
 })

@@ -59,12 +59,18 @@ export const useLabelsStore = defineStore('labels', () => {
   /** The move on offer: the last scanned item into the move target. */
   const pendingMove = computed(() =>
     lastItem.value && moveTarget.value && lastItem.value.code !== moveTarget.value.code
-      ? { item: lastItem.value, to: moveTarget.value } : null)
+      ? { item: lastItem.value, to: moveTarget.value }
+      : null,
+  )
 
   async function moveHere(): Promise<Move> {
     const p = pendingMove.value
     if (!p) throw new Error('Scan an item and a location first')
-    const move = await labelsApi.moveItem({ itemCode: p.item.code, toLocationId: p.to.id, note: `scanned into ${p.to.code}` })
+    const move = await labelsApi.moveItem({
+      itemCode: p.item.code,
+      toLocationId: p.to.id,
+      note: `scanned into ${p.to.code}`,
+    })
     lastMove.value = move
     lastItem.value = null
     return move
@@ -75,7 +81,21 @@ export const useLabelsStore = defineStore('labels', () => {
   }
 
   return {
-    templates, jobs, rendered, isRendering, fetchTemplates, fetchJobs, render, recordJob,
-    lastScan, lastItem, moveTarget, lastMove, pendingMove, scan, moveHere, setTarget,
+    templates,
+    jobs,
+    rendered,
+    isRendering,
+    fetchTemplates,
+    fetchJobs,
+    render,
+    recordJob,
+    lastScan,
+    lastItem,
+    moveTarget,
+    lastMove,
+    pendingMove,
+    scan,
+    moveHere,
+    setTarget,
   }
 })

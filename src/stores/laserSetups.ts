@@ -6,7 +6,10 @@ import * as api from '../api/laser-setups'
 
 export type SignoffDecision = 'approve' | 'reject' | 'revoke'
 
-/** The laser-safety register: list, detail with figures, the sign-off queue and decisions, and the setups a session form can pick. */
+/**
+ * The laser-safety register: list, detail with figures, the sign-off queue and decisions, and the setups a session form
+ * can pick.
+ */
 export const useLaserSetupsStore = defineStore('laserSetups', () => {
   const rows = ref<LaserSetup[]>([])
   const total = ref(0)
@@ -39,8 +42,12 @@ export const useLaserSetupsStore = defineStore('laserSetups', () => {
     return current.value
   }
 
-  async function save(id: number | null, input: Partial<LaserSetupInput> & { reason?: string | null }): Promise<api.LaserSetupDetail> {
-    const saved = id === null ? await api.createLaserSetup(input as LaserSetupInput) : await api.updateLaserSetup(id, input)
+  async function save(
+    id: number | null,
+    input: Partial<LaserSetupInput> & { reason?: string | null },
+  ): Promise<api.LaserSetupDetail> {
+    const saved =
+      id === null ? await api.createLaserSetup(input as LaserSetupInput) : await api.updateLaserSetup(id, input)
     return (current.value = id === null ? saved : await api.getLaserSetup(id, figuresParams.value))
   }
 
@@ -59,12 +66,36 @@ export const useLaserSetupsStore = defineStore('laserSetups', () => {
     return (queue.value = await api.getSignoffQueue())
   }
 
-  async function decide(id: number, decision: SignoffDecision, note: string | null, expiresOn?: string): Promise<api.LaserSetupDetail> {
-    const answer = decision === 'approve' ? await api.approveLaserSetup(id, expiresOn ?? '', note)
-      : decision === 'reject' ? await api.rejectLaserSetup(id, note ?? '') : await api.revokeLaserSetup(id, note ?? '')
+  async function decide(
+    id: number,
+    decision: SignoffDecision,
+    note: string | null,
+    expiresOn?: string,
+  ): Promise<api.LaserSetupDetail> {
+    const answer =
+      decision === 'approve'
+        ? await api.approveLaserSetup(id, expiresOn ?? '', note)
+        : decision === 'reject'
+          ? await api.rejectLaserSetup(id, note ?? '')
+          : await api.revokeLaserSetup(id, note ?? '')
     if (current.value?.id === id) current.value = await api.getLaserSetup(id, figuresParams.value)
     return answer
   }
 
-  return { rows, total, isLoading, current, active, queue, fetchPage, fetchActive, fetchOne, save, submit, retire, fetchQueue, decide }
+  return {
+    rows,
+    total,
+    isLoading,
+    current,
+    active,
+    queue,
+    fetchPage,
+    fetchActive,
+    fetchOne,
+    save,
+    submit,
+    retire,
+    fetchQueue,
+    decide,
+  }
 })

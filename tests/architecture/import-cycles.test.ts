@@ -23,15 +23,26 @@ function valueImports(file: string): string[] {
   for (const st of source.statements) {
     if (ts.isImportDeclaration(st) && !st.importClause?.isTypeOnly && ts.isStringLiteral(st.moduleSpecifier)) {
       const bindings = st.importClause?.namedBindings
-      const onlyTypes = !st.importClause?.name && bindings && ts.isNamedImports(bindings) && bindings.elements.length > 0 && bindings.elements.every((el) => el.isTypeOnly)
+      const onlyTypes =
+        !st.importClause?.name &&
+        bindings &&
+        ts.isNamedImports(bindings) &&
+        bindings.elements.length > 0 &&
+        bindings.elements.every((el) => el.isTypeOnly)
       if (!onlyTypes) specs.push(st.moduleSpecifier.text)
     }
-    if (ts.isExportDeclaration(st) && !st.isTypeOnly && st.moduleSpecifier && ts.isStringLiteral(st.moduleSpecifier)) specs.push(st.moduleSpecifier.text)
+    if (ts.isExportDeclaration(st) && !st.isTypeOnly && st.moduleSpecifier && ts.isStringLiteral(st.moduleSpecifier))
+      specs.push(st.moduleSpecifier.text)
   }
-  return specs.filter((s) => s.startsWith('.')).map((s) => {
-    const base = path.resolve(path.dirname(file), s)
-    return [base, `${base}.ts`, path.join(base, 'index.ts')].find((c) => fs.existsSync(c) && fs.statSync(c).isFile()) ?? ''
-  }).filter(Boolean)
+  return specs
+    .filter((s) => s.startsWith('.'))
+    .map((s) => {
+      const base = path.resolve(path.dirname(file), s)
+      return (
+        [base, `${base}.ts`, path.join(base, 'index.ts')].find((c) => fs.existsSync(c) && fs.statSync(c).isFile()) ?? ''
+      )
+    })
+    .filter(Boolean)
 }
 
 function findCycles(files: string[]): string[][] {
@@ -40,12 +51,14 @@ function findCycles(files: string[]): string[][] {
   const stack: string[] = []
   const cycles: string[][] = []
   const visit = (f: string) => {
-    state.set(f, 'open'); stack.push(f)
+    state.set(f, 'open')
+    stack.push(f)
     for (const g of graph.get(f) ?? []) {
       if (state.get(g) === 'open') cycles.push([...stack.slice(stack.indexOf(g)), g].map((p) => path.relative(root, p)))
       else if (!state.has(g)) visit(g)
     }
-    stack.pop(); state.set(f, 'done')
+    stack.pop()
+    state.set(f, 'done')
   }
   for (const f of files) if (!state.has(f)) visit(f)
   return cycles

@@ -8,7 +8,13 @@ import mysql from 'mysql2/promise'
  * restart them, and a small cookie-keeping HTTP client. No sleeps as assertions: `until` polls a
  * condition with a deadline.
  */
-export interface ClusterNode { name: string; port: number; socket: string; pidFile: string; start: string }
+export interface ClusterNode {
+  name: string
+  port: number
+  socket: string
+  pidFile: string
+  start: string
+}
 
 const need = (name: string) => {
   const v = process.env[name]
@@ -20,23 +26,39 @@ export const appA = { url: need('CLUSTER_APP_A_URL'), pid: Number(need('CLUSTER_
 export const appB = { url: need('CLUSTER_APP_B_URL'), pid: Number(need('CLUSTER_APP_B_PID')) }
 export const nodes = JSON.parse(need('CLUSTER_NODES')) as ClusterNode[]
 
-/** A connection straight to one node as the app user, with causal reads (it sees every write the cluster committed before). */
+/**
+ * A connection straight to one node as the app user, with causal reads (it sees every write the cluster committed
+ * before).
+ */
 export async function connectNode(n: ClusterNode): Promise<mysql.Connection> {
-  const c = await mysql.createConnection({ host: '127.0.0.1', port: n.port, user: need('CLUSTER_DB_USER'), password: need('CLUSTER_DB_PASSWORD'), database: need('CLUSTER_DB'), connectTimeout: 2000 })
+  const c = await mysql.createConnection({
+    host: '127.0.0.1',
+    port: n.port,
+    user: need('CLUSTER_DB_USER'),
+    password: need('CLUSTER_DB_PASSWORD'),
+    database: need('CLUSTER_DB'),
+    connectTimeout: 2000,
+  })
   await c.query('SET SESSION wsrep_sync_wait = 1')
   return c
 }
 
 export async function nodeQuery<T>(n: ClusterNode, q: string, params: unknown[] = []): Promise<T[]> {
   const c = await connectNode(n)
-  try { return (await c.query(q, params))[0] as T[] } finally { await c.end() }
+  try {
+    return (await c.query(q, params))[0] as T[]
+  } finally {
+    await c.end()
+  }
 }
 
 export async function status(n: ClusterNode, name: string): Promise<string | null> {
   try {
     const rows = await nodeQuery<{ Value: string }>(n, 'SHOW STATUS LIKE ?', [name])
     return rows[0]?.Value ?? null
-  } catch { return null }
+  } catch {
+    return null
+  }
 }
 
 /** Record a wsrep_cluster_size the tests saw (scripts/cluster.sh prints them). */
@@ -45,7 +67,14 @@ export function recordSize(size: string | number | null) {
 }
 
 export const pidOf = (n: ClusterNode) => Number(fs.readFileSync(n.pidFile, 'utf8').trim())
-export const isAlive = (pid: number) => { try { process.kill(pid, 0); return true } catch { return false } }
+export const isAlive = (pid: number) => {
+  try {
+    process.kill(pid, 0)
+    return true
+  } catch {
+    return false
+  }
+}
 
 /** kill -9 a node's mariadbd (by its pid file). */
 export function killNode(n: ClusterNode): number {
@@ -61,27 +90,54 @@ export function restartNode(n: ClusterNode): void {
 }
 
 /** Poll `check` until it answers a truthy value, at most `ms`; throws with `what` when time is up. */
-export async function until<T>(what: string, ms: number, check: () => Promise<T | null | undefined | false>, everyMs = 200): Promise<T> {
+export async function until<T>(
+  what: string,
+  ms: number,
+  check: () => Promise<T | null | undefined | false>,
+  everyMs = 200,
+): Promise<T> {
   const deadline = Date.now() + ms
   let last: unknown
   for (;;) {
-    try { const v = await check(); if (v) return v } catch (err) { last = err }
-    if (Date.now() > deadline) throw new Error(`timed out after ${ms} ms waiting for ${what}${last ? ` (last error: ${(last as Error).message})` : ''}`)
+    try {
+      const v = await check()
+      if (v) return v
+    } catch (err) {
+      last = err
+    }
+    if (Date.now() > deadline)
+      throw new Error(
+        `timed out after ${ms} ms waiting for ${what}${last ? ` (last error: ${(last as Error).message})` : ''}`,
+      )
     await new Promise((r) => setTimeout(r, everyMs))
   }
 }
 
-export interface Answer { status: number; body: any; ms: number }
+export interface Answer {
+  status: number
+  // a parsed JSON body, as supertest types it
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  body: any
+  ms: number
+}
 
-/** A fetch client that keeps its session cookie (one per signed-in person); `base` can be changed to move it to another server. */
+/**
+ * A fetch client that keeps its session cookie (one per signed-in person); `base` can be changed to move it to another
+ * server.
+ */
 export class Client {
   cookie = ''
   constructor(public base: string) {}
   async req(method: string, path: string, body?: unknown, timeoutMs = 15_000): Promise<Answer> {
     const t0 = Date.now()
     const res = await fetch(this.base + path, {
-      method, redirect: 'manual', signal: AbortSignal.timeout(timeoutMs),
-      headers: { ...(body === undefined ? {} : { 'content-type': 'application/json' }), ...(this.cookie ? { cookie: this.cookie } : {}) },
+      method,
+      redirect: 'manual',
+      signal: AbortSignal.timeout(timeoutMs),
+      headers: {
+        ...(body === undefined ? {} : { 'content-type': 'application/json' }),
+        ...(this.cookie ? { cookie: this.cookie } : {}),
+      },
       body: body === undefined ? undefined : JSON.stringify(body),
     })
     const set = res.headers.getSetCookie?.() ?? []
@@ -89,14 +145,19 @@ export class Client {
     if (sid) this.cookie = sid
     const text = await res.text()
     let parsed: unknown = text
-    try { parsed = JSON.parse(text) } catch { /* not JSON */ }
+    try {
+      parsed = JSON.parse(text)
+    } catch {
+      /* not JSON */
+    }
     return { status: res.status, body: parsed, ms: Date.now() - t0 }
   }
   get = (p: string) => this.req('GET', p)
   post = (p: string, b: unknown = {}) => this.req('POST', p, b)
   async signIn(email: string, password: string) {
     const r = await this.post('/api/auth/login', { email, password })
-    if (r.status !== 200) throw new Error(`sign-in as ${email} on ${this.base} answered ${r.status} ${JSON.stringify(r.body)}`)
+    if (r.status !== 200)
+      throw new Error(`sign-in as ${email} on ${this.base} answered ${r.status} ${JSON.stringify(r.body)}`)
     return r
   }
 }

@@ -21,7 +21,12 @@ const mount = (...args: string[]) => execFileSync('mount', args, { stdio: 'pipe'
 function canMount(): boolean {
   if (process.getuid?.() !== 0) return false
   fs.mkdirSync(uploads, { recursive: true })
-  try { mount('-t', 'tmpfs', '-o', 'size=512k', 'tmpfs', uploads); return true } catch { return false }
+  try {
+    mount('-t', 'tmpfs', '-o', 'size=512k', 'tmpfs', uploads)
+    return true
+  } catch {
+    return false
+  }
 }
 const isMounted = canMount()
 
@@ -37,16 +42,31 @@ beforeAll(async () => {
 })
 afterAll(async () => {
   await t?.stop()
-  if (isMounted) try { execFileSync('umount', [uploads]) } catch { /* not mounted */ }
+  if (isMounted)
+    try {
+      execFileSync('umount', [uploads])
+    } catch {
+      /* not mounted */
+    }
   fs.rmSync(dataDir, { recursive: true, force: true })
 })
 
 const csv = (kb: number) => {
   const lines = ['x;y']
-  for (let i = 0, size = 0; size < kb * 1024; i++) { const l = `${i};${Math.random()}`; lines.push(l); size += l.length + 1 }
+  for (let i = 0, size = 0; size < kb * 1024; i++) {
+    const l = `${i};${Math.random()}`
+    lines.push(l)
+    size += l.length + 1
+  }
   return Buffer.from(lines.join('\n'))
 }
-const upload = (data: Buffer) => fab.post('/api/files').field('entity', 'chip').field('entityId', String(chipId)).field('kind', 'spectrum').attach('file', data, 'run.csv')
+const upload = (data: Buffer) =>
+  fab
+    .post('/api/files')
+    .field('entity', 'chip')
+    .field('entityId', String(chipId))
+    .field('kind', 'spectrum')
+    .attach('file', data, 'run.csv')
 function tmpFiles(dir: string): string[] {
   return fs.readdirSync(dir, { recursive: true, encoding: 'utf8' }).filter((f) => f.endsWith('.tmp'))
 }
@@ -70,7 +90,11 @@ describe.skipIf(!isMounted)('upload storage full or read-only', () => {
     expect(tmpFiles(uploads)).toEqual([])
     // Fill it up to the last byte: now even the health probe's tiny file does not fit.
     const filler = path.join(uploads, 'filler')
-    try { fs.writeFileSync(filler, Buffer.alloc(1024 * 1024)) } catch { /* ENOSPC: full, as wanted */ }
+    try {
+      fs.writeFileSync(filler, Buffer.alloc(1024 * 1024))
+    } catch {
+      /* ENOSPC: full, as wanted */
+    }
     const small = await upload(csv(8))
     expect(small.status).toBe(507)
     expect(tmpFiles(uploads)).toEqual([])
@@ -93,7 +117,9 @@ describe.skipIf(!isMounted)('upload storage full or read-only', () => {
       const health = await request(t.app).get('/api/health')
       expect(health.status).toBe(200) // reading still works; the database is fine
       expect(health.body).toMatchObject({ status: 'degraded', storage: 'down' })
-    } finally { mount('-o', 'remount,rw', uploads) }
+    } finally {
+      mount('-o', 'remount,rw', uploads)
+    }
     expect((await request(t.app).get('/api/health')).body.storage).toBe('up')
     expect((await upload(csv(8))).status).toBe(201)
   })

@@ -28,15 +28,26 @@ beforeAll(() => {
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }))
 
 /** GET through plain node:http, which leaves the body as sent (supertest would undo the Content-Encoding). */
-function raw(url: string, acceptEncoding: string): Promise<{ status: number; headers: http.IncomingHttpHeaders; body: Buffer }> {
+function raw(
+  url: string,
+  acceptEncoding: string,
+): Promise<{ status: number; headers: http.IncomingHttpHeaders; body: Buffer }> {
   return new Promise((resolve, reject) => {
     const server = app.listen(0, '127.0.0.1', () => {
       const { port } = server.address() as AddressInfo
-      http.get({ host: '127.0.0.1', port, path: url, headers: { 'accept-encoding': acceptEncoding } }, (res) => {
-        const chunks: Buffer[] = []
-        res.on('data', (c: Buffer) => chunks.push(c))
-        res.on('end', () => { server.close(); resolve({ status: res.statusCode!, headers: res.headers, body: Buffer.concat(chunks) }) })
-      }).on('error', (e) => { server.close(); reject(e) })
+      http
+        .get({ host: '127.0.0.1', port, path: url, headers: { 'accept-encoding': acceptEncoding } }, (res) => {
+          const chunks: Buffer[] = []
+          res.on('data', (c: Buffer) => chunks.push(c))
+          res.on('end', () => {
+            server.close()
+            resolve({ status: res.statusCode!, headers: res.headers, body: Buffer.concat(chunks) })
+          })
+        })
+        .on('error', (e) => {
+          server.close()
+          reject(e)
+        })
     })
   })
 }
@@ -50,7 +61,7 @@ describe('the built client', () => {
     expect(res.headers.vary).toMatch(/Accept-Encoding/)
     expect(res.headers['cache-control']).toBe(IMMUTABLE)
     expect(brotliDecompressSync(res.body).toString()).toBe(js)
-    expect((res.body).length).toBeLessThan(js.length / 4)
+    expect(res.body.length).toBeLessThan(js.length / 4)
   })
 
   it('sends gzip to a browser without br, and the plain file to one that accepts neither', async () => {
@@ -59,7 +70,7 @@ describe('the built client', () => {
     expect(gunzipSync(gz.body).toString()).toBe(js)
     const plain = await raw('/assets/index-AbC123xy.js', 'identity')
     expect(plain.headers['content-encoding']).toBeUndefined()
-    expect((plain.body).toString()).toBe(js)
+    expect(plain.body.toString()).toBe(js)
     expect(plain.headers.vary).toMatch(/Accept-Encoding/)
   })
 
@@ -73,7 +84,11 @@ describe('the built client', () => {
     }
     expect((await request(app).get('/assets/gone-11111111.js')).status).toBe(404)
     const font = await request(app).get('/assets/font-Zz99.woff2').set('Accept-Encoding', 'br')
-    expect([font.status, font.headers['content-encoding'], font.headers['cache-control']]).toEqual([200, undefined, IMMUTABLE])
+    expect([font.status, font.headers['content-encoding'], font.headers['cache-control']]).toEqual([
+      200,
+      undefined,
+      IMMUTABLE,
+    ])
     expect((await request(app).get('/assets/../index.html')).status).not.toBe(500)
   })
 })

@@ -16,12 +16,17 @@ beforeAll(async () => {
   t = await startTestApp()
   fab = await signedInAs(t.app, 'fab_technician')
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 /** Wait (by polling the server's process list, no fixed sleep) until a statement like `pattern` is running. */
 async function untilRunning(conn: PoolConnection, pattern: string): Promise<void> {
   for (;;) {
-    const [rows] = (await conn.query('SELECT COUNT(*) AS n FROM information_schema.processlist WHERE info LIKE ? AND id <> CONNECTION_ID()', [pattern])) as unknown as [{ n: number }[]]
+    const [rows] = (await conn.query(
+      'SELECT COUNT(*) AS n FROM information_schema.processlist WHERE info LIKE ? AND id <> CONNECTION_ID()',
+      [pattern],
+    )) as unknown as [{ n: number }[]]
     if (Number(rows[0].n) > 0) return
     await new Promise((r) => setImmediate(r))
   }
@@ -33,8 +38,14 @@ describe('duplicate keys', () => {
     const conn = await t.pool.getConnection()
     try {
       await conn.beginTransaction()
-      await conn.query("INSERT INTO materials (name, formula, point_group, coefficients) VALUES (?, 'GaAs', '-43m', '[]')", [name])
-      const pending = fab.post('/api/materials').send({ name, formula: 'GaAs', pointGroup: '-43m' }).then((r) => r)
+      await conn.query(
+        "INSERT INTO materials (name, formula, point_group, coefficients) VALUES (?, 'GaAs', '-43m', '[]')",
+        [name],
+      )
+      const pending = fab
+        .post('/api/materials')
+        .send({ name, formula: 'GaAs', pointGroup: '-43m' })
+        .then((r) => r)
       await untilRunning(conn, 'insert into `materials`%')
       await conn.commit()
       const res = await pending
@@ -47,7 +58,8 @@ describe('duplicate keys', () => {
   })
 
   it('names the field of each unique index', () => {
-    const dup = (key: string) => duplicateKeyBody({ errno: 1062, code: 'ER_DUP_ENTRY', sqlMessage: `Duplicate entry 'x' for key '${key}'` }).fields
+    const dup = (key: string) =>
+      duplicateKeyBody({ errno: 1062, code: 'ER_DUP_ENTRY', sqlMessage: `Duplicate entry 'x' for key '${key}'` }).fields
     expect(Object.keys(dup('materials_name_unique')!)).toEqual(['name'])
     expect(Object.keys(dup('arrays_code_unique')!)).toEqual(['code'])
     expect(Object.keys(dup('arrays_chip_position_uq')!)).toEqual(['position'])

@@ -18,16 +18,39 @@ import { mailReceived } from '../../server/db/schema/index'
  * replace settings of this instance only (e.g. small import limits).
  */
 export async function startTestApp(envOverrides: Record<string, string> = {}) {
-  const env = loadEnv({ ...process.env, SESSION_SECRET: 'test-secret-test-secret', LOG_LEVEL: 'silent', LOGIN_MAX_FAILURES: '5', ...envOverrides })
+  const env = loadEnv({
+    ...process.env,
+    SESSION_SECRET: 'test-secret-test-secret',
+    LOG_LEVEL: 'silent',
+    LOGIN_MAX_FAILURES: '5',
+    ...envOverrides,
+  })
   const { pool, db } = createDb(env.DATABASE_URL, 5)
   const log = silentLogger()
   const sink = await startMailSink(db, 0, log)
   const worker = new MailWorker(db, `smtp://127.0.0.1:${sink.port}?ignoreTLS=true`, env.MAIL_FROM, log)
-  const ctx: AppContext = { db, pool, env, log, publicUrl: 'http://overtone.test', mailUp: async () => true, startedAt: Date.now() }
+  const ctx: AppContext = {
+    db,
+    pool,
+    env,
+    log,
+    publicUrl: 'http://overtone.test',
+    mailUp: async () => true,
+    startedAt: Date.now(),
+  }
   const { app, close } = createApp(ctx)
   return {
-    app, db, pool, worker, ctx,
-    async stop() { await worker.stop(); await sink.close(); await close(); await pool.end() },
+    app,
+    db,
+    pool,
+    worker,
+    ctx,
+    async stop() {
+      await worker.stop()
+      await sink.close()
+      await close()
+      await pool.end()
+    },
   }
 }
 
@@ -41,7 +64,12 @@ export type TestApp = Awaited<ReturnType<typeof startTestApp>>
 export async function deliveredTo(t: TestApp, to: string) {
   for (let i = 0; i < 1000; i++) {
     await t.worker.tick()
-    const [row] = await t.db.select().from(mailReceived).where(like(mailReceived.toAddress, `%${to}%`)).orderBy(desc(mailReceived.id)).limit(1)
+    const [row] = await t.db
+      .select()
+      .from(mailReceived)
+      .where(like(mailReceived.toAddress, `%${to}%`))
+      .orderBy(desc(mailReceived.id))
+      .limit(1)
     if (row) return row
   }
   throw new Error(`no mail to ${to} reached the sink`)
@@ -58,13 +86,24 @@ export async function signedInAs(app: Express, role: Role | string, password = D
   return agent
 }
 
-export const uniqueEmail = (tag: string) => `${tag}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@kestrel-lab.example`
+export const uniqueEmail = (tag: string) =>
+  `${tag}-${Date.now()}-${Math.floor(Math.random() * 1e6)}@kestrel-lab.example`
 
-/** A new active person with these roles and the demo password (for cases the demo lab lacks, e.g. a second safety officer). */
-export async function createPerson(db: ReturnType<typeof createDb>['db'], roles: Role[], tag = 'person'): Promise<{ id: number; email: string }> {
+/**
+ * A new active person with these roles and the demo password (for cases the demo lab lacks, e.g. a second safety
+ * officer).
+ */
+export async function createPerson(
+  db: ReturnType<typeof createDb>['db'],
+  roles: Role[],
+  tag = 'person',
+): Promise<{ id: number; email: string }> {
   const { users } = await import('../../server/db/schema/index')
   const { hashPassword } = await import('../../server/auth/passwords')
   const email = uniqueEmail(tag)
-  const [{ id }] = await db.insert(users).values({ email, name: `Test ${tag}`, roles, passwordHash: await hashPassword(DEMO_PASSWORD) }).$returningId()
+  const [{ id }] = await db
+    .insert(users)
+    .values({ email, name: `Test ${tag}`, roles, passwordHash: await hashPassword(DEMO_PASSWORD) })
+    .$returningId()
   return { id, email }
 }

@@ -4,7 +4,23 @@ import type TestAgent from 'supertest/lib/agent'
 export const uid = () => `${Date.now().toString(36)}${Math.floor(Math.random() * 1e6).toString(36)}`
 
 export async function makeMaterial(fab: TestAgent, over: object = {}) {
-  const res = await fab.post('/api/materials').send({ name: `Test GaAs ${uid()}`, formula: 'GaAs', pointGroup: '-43m', bandGapEv: 1.424, coefficients: [{ component: 'd14', order: 2, valuePmV: 119, wavelengthNm: 1550, source: 'typical value, verify', isTypical: true }], ...over })
+  const res = await fab.post('/api/materials').send({
+    name: `Test GaAs ${uid()}`,
+    formula: 'GaAs',
+    pointGroup: '-43m',
+    bandGapEv: 1.424,
+    coefficients: [
+      {
+        component: 'd14',
+        order: 2,
+        valuePmV: 119,
+        wavelengthNm: 1550,
+        source: 'typical value, verify',
+        isTypical: true,
+      },
+    ],
+    ...over,
+  })
   if (res.status !== 201) throw new Error(`material: ${res.status} ${JSON.stringify(res.body)}`)
   return res.body
 }
@@ -19,7 +35,16 @@ export async function makeBox(fab: TestAgent) {
 
 export async function makeWafer(fab: TestAgent, over: object = {}, materialOver: object = {}) {
   const material = await makeMaterial(fab, materialOver)
-  const res = await fab.post('/api/wafers').send({ materialId: material.id, cutNormal: [0, 0, 1], flatDirection: [1, -1, 0], diameterMm: 50.8, thicknessUm: 350, lot: `LOT-${uid()}`, supplier: 'Norrvik Semiconductor Supply', ...over })
+  const res = await fab.post('/api/wafers').send({
+    materialId: material.id,
+    cutNormal: [0, 0, 1],
+    flatDirection: [1, -1, 0],
+    diameterMm: 50.8,
+    thicknessUm: 350,
+    lot: `LOT-${uid()}`,
+    supplier: 'Norrvik Semiconductor Supply',
+    ...over,
+  })
   if (res.status !== 201) throw new Error(`wafer: ${res.status} ${JSON.stringify(res.body)}`)
   return { material, wafer: res.body }
 }
@@ -31,4 +56,12 @@ export async function makeChip(fab: TestAgent, over: object = {}, waferOver: obj
   return { material, wafer, chip: res.body.chips[0] }
 }
 
-export const disk = (chipId: number, position = 'A1') => ({ chipId, position, shape: 'disk', dimensionsNm: { diameterNm: 450 }, lattice: 'square', periodXNm: 900, periodYNm: 900 })
+export const disk = (chipId: number, position = 'A1') => ({
+  chipId,
+  position,
+  shape: 'disk',
+  dimensionsNm: { diameterNm: 450 },
+  lattice: 'square',
+  periodXNm: 900,
+  periodYNm: 900,
+})

@@ -11,9 +11,24 @@ import { describeRoleMatrix, EVERYONE, type MatrixRoute } from './role-matrix'
 const MATRIX: MatrixRoute[] = [
   { method: 'get', path: '/api/laser-setups', allowed: EVERYONE },
   { method: 'get', path: '/api/laser-setups/999999999', allowed: EVERYONE },
-  { method: 'post', path: '/api/laser-setups', body: {}, allowed: ['admin', 'group_lead', 'optics_staff', 'safety_officer'] },
-  { method: 'patch', path: '/api/laser-setups/999999999', body: {}, allowed: ['admin', 'group_lead', 'optics_staff', 'safety_officer'] },
-  { method: 'post', path: '/api/laser-setups/999999999/submit', body: {}, allowed: ['admin', 'group_lead', 'optics_staff', 'safety_officer'] },
+  {
+    method: 'post',
+    path: '/api/laser-setups',
+    body: {},
+    allowed: ['admin', 'group_lead', 'optics_staff', 'safety_officer'],
+  },
+  {
+    method: 'patch',
+    path: '/api/laser-setups/999999999',
+    body: {},
+    allowed: ['admin', 'group_lead', 'optics_staff', 'safety_officer'],
+  },
+  {
+    method: 'post',
+    path: '/api/laser-setups/999999999/submit',
+    body: {},
+    allowed: ['admin', 'group_lead', 'optics_staff', 'safety_officer'],
+  },
   { method: 'post', path: '/api/laser-setups/999999999/retire', body: {}, allowed: ['admin', 'safety_officer'] },
   { method: 'get', path: '/api/laser-setups/queue', allowed: ['safety_officer'] },
   { method: 'post', path: '/api/laser-setups/999999999/approve', body: {}, allowed: ['safety_officer'] },
@@ -29,7 +44,12 @@ const MATRIX: MatrixRoute[] = [
   { method: 'get', path: '/api/files/999999999/download', allowed: EVERYONE },
   { method: 'get', path: '/api/files/999999999/preview', allowed: EVERYONE },
   { method: 'post', path: '/api/files', body: {}, allowed: ['admin', 'fab_technician', 'optics_staff'] },
-  { method: 'post', path: '/api/files/999999999/retire', body: {}, allowed: ['admin', 'group_lead', 'fab_technician', 'optics_staff'] },
+  {
+    method: 'post',
+    path: '/api/files/999999999/retire',
+    body: {},
+    allowed: ['admin', 'group_lead', 'fab_technician', 'optics_staff'],
+  },
 ]
 
 describeRoleMatrix('measurement routes × roles', MATRIX, [200, 400, 404])

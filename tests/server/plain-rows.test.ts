@@ -12,17 +12,36 @@ beforeAll(async () => {
   a = await startTestApp()
   fabA = await signedInAs(a.app, 'fab_technician')
 })
-afterAll(async () => { await a.stop() })
+afterAll(async () => {
+  await a.stop()
+})
 
 describe('plainRows', () => {
   it('gives keyed rows like Drizzle: JSON decoded, dates as Date, same-named columns of two tables apart', async () => {
     const { chip } = await makeChip(fabA)
     const made = await fabA.post('/api/arrays').send(disk(chip.id, 'C3'))
     expect(made.status).toBe(201)
-    const fields = { id: arrays.id, code: arrays.code, chipCode: chips.code, dims: arrays.dimensionsNm, mirrors: arrays.customMirrors, createdAt: arrays.createdAt, one: sql<number>`1` }
-    const build = (f: Record<keyof typeof fields, unknown>) => a.db.select(f as typeof fields).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).where(eq(arrays.id, made.body.id))
+    const fields = {
+      id: arrays.id,
+      code: arrays.code,
+      chipCode: chips.code,
+      dims: arrays.dimensionsNm,
+      mirrors: arrays.customMirrors,
+      createdAt: arrays.createdAt,
+      one: sql<number>`1`,
+    }
+    const build = (f: Record<keyof typeof fields, unknown>) =>
+      a.db
+        .select(f as typeof fields)
+        .from(arrays)
+        .innerJoin(chips, eq(chips.id, arrays.chipId))
+        .where(eq(arrays.id, made.body.id))
     const [plain] = await plainRows(a.db, fields, build as never)
-    const [drizzled] = await a.db.select(fields).from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).where(eq(arrays.id, made.body.id))
+    const [drizzled] = await a.db
+      .select(fields)
+      .from(arrays)
+      .innerJoin(chips, eq(chips.id, arrays.chipId))
+      .where(eq(arrays.id, made.body.id))
     expect(plain.code).toBe(made.body.code)
     expect(plain.chipCode).toBe(chip.code)
     expect(plain.dims).toEqual(made.body.dimensionsNm)

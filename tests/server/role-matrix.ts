@@ -6,7 +6,12 @@ import { ROLES, type Role } from '../../shared/roles'
 
 export type MatrixMethod = 'get' | 'post' | 'patch'
 /** One route and the roles that may use it; the body should be empty or point at a missing id. */
-export interface MatrixRoute { method: MatrixMethod; path: string; body?: object; allowed: Role[] }
+export interface MatrixRoute {
+  method: MatrixMethod
+  path: string
+  body?: object
+  allowed: Role[]
+}
 export const EVERYONE: Role[] = [...ROLES]
 
 /**
@@ -21,7 +26,9 @@ export function describeRoleMatrix(title: string, routes: MatrixRoute[], okStatu
     t = await startTestApp()
     for (const role of ROLES) agents[role] = await signedInAs(t.app, role)
   })
-  afterAll(async () => { await t.stop() })
+  afterAll(async () => {
+    await t.stop()
+  })
 
   describe(title, () => {
     for (const route of routes) {

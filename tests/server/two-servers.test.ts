@@ -15,10 +15,15 @@ let a: Awaited<ReturnType<typeof startTestApp>>
 let b: Awaited<ReturnType<typeof startTestApp>>
 let fabA: TestAgent, fabB: TestAgent
 beforeAll(async () => {
-  a = await startTestApp(); b = await startTestApp()
-  fabA = await signedInAs(a.app, 'fab_technician'); fabB = await signedInAs(b.app, 'fab_technician')
+  a = await startTestApp()
+  b = await startTestApp()
+  fabA = await signedInAs(a.app, 'fab_technician')
+  fabB = await signedInAs(b.app, 'fab_technician')
 })
-afterAll(async () => { await a.stop(); await b.stop() })
+afterAll(async () => {
+  await a.stop()
+  await b.stop()
+})
 
 describe('two app servers', () => {
   it('show a list and a detail page written through the other server on the next request', async () => {
@@ -44,7 +49,10 @@ describe('two app servers', () => {
     // Fab technicians may not search the audit trail; group leads may. The row is changed straight in
     // the database, as an app server in another process would: nothing in this process hears of it.
     expect((await onB.get('/api/audit/search')).status).toBe(403)
-    await a.db.update(users).set({ roles: ['fab_technician', 'group_lead'] }).where(eq(users.id, person.id))
+    await a.db
+      .update(users)
+      .set({ roles: ['fab_technician', 'group_lead'] })
+      .where(eq(users.id, person.id))
     expect((await onB.get('/api/audit/search')).status).toBe(200)
     await a.db.update(users).set({ active: false }).where(eq(users.id, person.id))
     expect((await onB.get('/api/auth/me')).status).toBe(401)

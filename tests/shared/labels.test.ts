@@ -6,7 +6,10 @@ import { qrPayload, extractCode, QR_ALPHANUMERIC } from '../../labels/qr-payload
 import { LABEL_TEMPLATES, DOT_MM, MIN_MODULE_DOTS } from '../../labels/templates'
 import { labelSvg, qrSymbol, sheetSvgs } from '../../server/services/labels/label-svg'
 
-/** Version, mode and module count of a QR symbol, computed by the `qrcode` package (a reference library we did not write). */
+/**
+ * Version, mode and module count of a QR symbol, computed by the `qrcode` package (a reference library we did not
+ * write).
+ */
 function symbolOf(text: string, ecc: 'L' | 'M' | 'Q' | 'H') {
   const qr = QRCode.create(text, { errorCorrectionLevel: ecc })
   return { version: qr.version, size: qr.modules.size, modes: qr.segments.map((s) => s.mode.id) }
@@ -56,15 +59,23 @@ describe('extractCode (what a scan or a typed text means)', () => {
     ['  l-0004 ', 'L-0004'],
     ['LS-001', 'LS-001'],
   ])('%s → %s', (text, code) => expect(extractCode(text)).toBe(code))
-  it.each(['', 'hello', 'https://lab.example/wafers/3', 'W-00 01'])('%j → null', (text) => expect(extractCode(text)).toBeNull())
+  it.each(['', 'hello', 'https://lab.example/wafers/3', 'W-00 01'])('%j → null', (text) =>
+    expect(extractCode(text)).toBeNull(),
+  )
 })
 
 describe('templates', () => {
   const payload = qrPayload('https://overtone.kestrel-lab.example', 'A-0001-01-B2')
   for (const t of LABEL_TEMPLATES) {
     it(`${t.id}: exact mm size, code text, modules ≥ ${MIN_MODULE_DOTS} dots`, () => {
-      const { svg, qr } = labelSvg(t.label, t.ecc, { code: 'A-0001-01-B2', payload, details: ['disk on a square lattice'] })
-      expect(svg).toContain(`width="${t.label.widthMm}mm" height="${t.label.heightMm}mm" viewBox="0 0 ${t.label.widthMm} ${t.label.heightMm}"`)
+      const { svg, qr } = labelSvg(t.label, t.ecc, {
+        code: 'A-0001-01-B2',
+        payload,
+        details: ['disk on a square lattice'],
+      })
+      expect(svg).toContain(
+        `width="${t.label.widthMm}mm" height="${t.label.heightMm}mm" viewBox="0 0 ${t.label.widthMm} ${t.label.heightMm}"`,
+      )
       expect(svg).toContain('>A-0001-01-B2</text>')
       expect(qr.moduleMm).toBeGreaterThanOrEqual(0.254)
       expect(qr.symbolMm).toBeLessThanOrEqual(t.label.qrSizeMm)
@@ -72,7 +83,11 @@ describe('templates', () => {
   }
   it('a sheet places 30 labels per page and skips used cells', () => {
     const t = LABEL_TEMPLATES.find((x) => x.id === 'sheet-a4')!
-    const contents = Array.from({ length: 31 }, (_, i) => ({ code: `W-${String(i + 1).padStart(4, '0')}`, payload: qrPayload('https://lab.example', 'W-0001'), details: [] }))
+    const contents = Array.from({ length: 31 }, (_, i) => ({
+      code: `W-${String(i + 1).padStart(4, '0')}`,
+      payload: qrPayload('https://lab.example', 'W-0001'),
+      details: [],
+    }))
     const pages = sheetSvgs(t.sheet!, t.label, t.ecc, contents, 2)
     expect(pages).toHaveLength(2)
     expect(pages[0]).toContain('width="210mm" height="297mm"')

@@ -10,6 +10,8 @@ export const labelJobs = mysqlTable('label_jobs', {
   id: int('id').autoincrement().primaryKey(),
   template: varchar('template', { length: 40 }).notNull(),
   codes: json('codes').$type<string[]>().notNull(),
-  createdBy: int('created_by').notNull().references(() => users.id, { onDelete: 'restrict' }),
+  createdBy: int('created_by')
+    .notNull()
+    .references(() => users.id, { onDelete: 'restrict' }),
   createdAt: created(),
 })

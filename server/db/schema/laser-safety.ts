@@ -30,7 +30,9 @@ export const laserSetups = mysqlTable('laser_setups', {
   controlledAreaNotes: text('controlled_area_notes'),
   /** Who described the setup: the signed-in person who created it, set by the server (never approves it). */
   submittedById: int('submitted_by_id').references(() => users.id, { onDelete: 'restrict' }),
-  /** When its author submitted it for sign-off; null while it is a draft (and again after a rejection or revocation). */
+  /**
+   * When its author submitted it for sign-off; null while it is a draft (and again after a rejection or revocation).
+   */
   submittedAt: datetime('submitted_at', { mode: 'date', fsp: 3 }),
   retiredAt: retired(),
   createdAt: created(),
@@ -41,13 +43,23 @@ export const laserSetups = mysqlTable('laser_setups', {
  * Sign-off decisions on laser setups, append-only: the latest row is the current state. `hazardHash`
  * is the SHA-256 of the setup's hazard fields at decision time (an approval binds to that version).
  */
-export const laserSetupSignoffs = mysqlTable('laser_setup_signoffs', {
-  id: int('id').autoincrement().primaryKey(),
-  setupId: int('setup_id').notNull().references(() => laserSetups.id, { onDelete: 'restrict' }),
-  decision: mysqlEnum('decision', ['approved', 'rejected', 'revoked', 'voided']).notNull(),
-  byId: int('by_id').notNull().references(() => users.id, { onDelete: 'restrict' }),
-  at: datetime('at', { mode: 'date', fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
-  expiresOn: date('expires_on', { mode: 'string' }),
-  note: text('note'),
-  hazardHash: varchar('hazard_hash', { length: 64 }).notNull(),
-}, (t) => [index('signoffs_setup_idx').on(t.setupId, t.id)])
+export const laserSetupSignoffs = mysqlTable(
+  'laser_setup_signoffs',
+  {
+    id: int('id').autoincrement().primaryKey(),
+    setupId: int('setup_id')
+      .notNull()
+      .references(() => laserSetups.id, { onDelete: 'restrict' }),
+    decision: mysqlEnum('decision', ['approved', 'rejected', 'revoked', 'voided']).notNull(),
+    byId: int('by_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'restrict' }),
+    at: datetime('at', { mode: 'date', fsp: 3 })
+      .notNull()
+      .default(sql`CURRENT_TIMESTAMP(3)`),
+    expiresOn: date('expires_on', { mode: 'string' }),
+    note: text('note'),
+    hazardHash: varchar('hazard_hash', { length: 64 }).notNull(),
+  },
+  (t) => [index('signoffs_setup_idx').on(t.setupId, t.id)],
+)

@@ -5,7 +5,14 @@ import { arraySchema, listQuerySchema, reasonSchema, LATTICES, SHAPES } from '..
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createArray, getArray, listArrays, recomputeArrays, retireArray, updateArray } from '../../services/inventory/arrays'
+import {
+  createArray,
+  getArray,
+  listArrays,
+  recomputeArrays,
+  retireArray,
+  updateArray,
+} from '../../services/inventory/arrays'
 import { getChip } from '../../services/inventory/chips'
 import { idValue } from '../../../shared/schemas/common'
 
@@ -13,7 +20,10 @@ const arrayListSchema = listQuerySchema.extend({
   chipId: idValue().optional(),
   shape: z.enum(SHAPES).optional(),
   lattice: z.enum(LATTICES).optional(),
-  stale: z.enum(['true', 'false']).optional().transform((v) => (v === undefined ? undefined : v === 'true')),
+  stale: z
+    .enum(['true', 'false'])
+    .optional()
+    .transform((v) => (v === undefined ? undefined : v === 'true')),
 })
 const recomputeSchema = z.object({
   ids: z.array(z.number().int().positive()).max(100_000).optional(),

@@ -17,7 +17,9 @@ export function fabStepRoutes(ctx: AppContext): Router {
   })
   r.post('/chips/:id/fab-steps', requireAbility('create', 'FabStep'), async (req, res) => {
     const { id } = parse(idParamSchema, req.params)
-    res.status(201).json(await createFabStep(ctx.db, currentUser(req), parse(fabStepSchema, { ...req.body, chipId: id })))
+    res
+      .status(201)
+      .json(await createFabStep(ctx.db, currentUser(req), parse(fabStepSchema, { ...req.body, chipId: id })))
   })
   return r
 }

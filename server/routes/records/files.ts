@@ -7,26 +7,45 @@ import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
 import { BadRequestError, fieldError } from '../../errors'
 import { createFileStorage } from '../../services/files/create-storage'
-import { MAX_UPLOAD_BYTES, getFile, listFiles, openFile, previewFile, retireFile, uploadFile } from '../../services/files/files'
+import {
+  MAX_UPLOAD_BYTES,
+  getFile,
+  listFiles,
+  openFile,
+  previewFile,
+  retireFile,
+  uploadFile,
+} from '../../services/files/files'
 
 // defParamCharset: a part's file name without an explicit charset is read as UTF-8 (what browsers
 // send), not busboy's default latin1, which stored `µm_ä` as `Âµm_Ã¤`.
-const receive = multer({ storage: multer.memoryStorage(), defParamCharset: 'utf8', limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, fieldSize: 1024 } }).single('file')
+const receive = multer({
+  storage: multer.memoryStorage(),
+  defParamCharset: 'utf8',
+  limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, fieldSize: 1024 },
+}).single('file')
 
 /** Run multer; its limit errors become field-level 400s on `file`. */
 function receiveUpload(req: Request, res: Response): Promise<void> {
-  return new Promise((resolve, reject) => receive(req, res, (err: unknown) => {
-    if (!err) return resolve()
-    const code = (err as { code?: string }).code
-    if (code === 'LIMIT_FILE_SIZE') return reject(fieldError('file', 'The file is larger than 25 MB'))
-    if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT') return reject(fieldError('file', 'Send one file, in the form field "file"'))
-    reject(new BadRequestError(`The upload could not be read: ${(err as Error).message}`))
-  }))
+  return new Promise((resolve, reject) =>
+    receive(req, res, (err: unknown) => {
+      if (!err) return resolve()
+      const code = (err as { code?: string }).code
+      if (code === 'LIMIT_FILE_SIZE') return reject(fieldError('file', 'The file is larger than 25 MB'))
+      if (code === 'LIMIT_UNEXPECTED_FILE' || code === 'LIMIT_FILE_COUNT')
+        return reject(fieldError('file', 'Send one file, in the form field "file"'))
+      reject(new BadRequestError(`The upload could not be read: ${(err as Error).message}`))
+    }),
+  )
 }
 
 /** Headers that keep a stored file from being run as a page by the browser. */
 function lockDown(res: Response) {
-  res.set({ 'X-Content-Type-Options': 'nosniff', 'Content-Security-Policy': "default-src 'none'; sandbox", 'Cache-Control': 'private, max-age=3600' })
+  res.set({
+    'X-Content-Type-Options': 'nosniff',
+    'Content-Security-Policy': "default-src 'none'; sandbox",
+    'Cache-Control': 'private, max-age=3600',
+  })
 }
 
 /** /api/files: uploads checked by content, content-addressed storage, downloads and previews. */

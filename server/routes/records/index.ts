@@ -15,7 +15,15 @@ import { fileRoutes } from './files'
 export function recordRoutes(ctx: AppContext): Router {
   const r = Router()
   // inventory (materials, locations + moves, wafers, chips, fab steps, arrays, code resolver)
-  r.use(materialRoutes(ctx), locationRoutes(ctx), waferRoutes(ctx), chipRoutes(ctx), fabStepRoutes(ctx), arrayRoutes(ctx), resolveRoutes(ctx))
+  r.use(
+    materialRoutes(ctx),
+    locationRoutes(ctx),
+    waferRoutes(ctx),
+    chipRoutes(ctx),
+    fabStepRoutes(ctx),
+    arrayRoutes(ctx),
+    resolveRoutes(ctx),
+  )
   // measurements (laser setups, sessions, files)
   r.use(laserSetupRoutes(ctx), sessionRoutes(ctx), fileRoutes(ctx))
   return r

@@ -8,8 +8,24 @@ import { MPE_EDITIONS } from '../../../shared/laser-safety'
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createLaserSetup, getLaserSetup, listLaserSetups, missingForSubmit, retireLaserSetup, signoffQueue, submitLaserSetup, updateLaserSetup } from '../../services/laser-safety/laser-setups'
-import { approvalCheck, approveSetup, historyOut, loadDecisions, rejectSetup, revokeSetup } from '../../services/laser-safety/signoffs'
+import {
+  createLaserSetup,
+  getLaserSetup,
+  listLaserSetups,
+  missingForSubmit,
+  retireLaserSetup,
+  signoffQueue,
+  submitLaserSetup,
+  updateLaserSetup,
+} from '../../services/laser-safety/laser-setups'
+import {
+  approvalCheck,
+  approveSetup,
+  historyOut,
+  loadDecisions,
+  rejectSetup,
+  revokeSetup,
+} from '../../services/laser-safety/signoffs'
 import { figuresFor } from '../../services/laser-safety/setup-hazards'
 import { laserSetups } from '../../db/schema/index'
 import { eq } from 'drizzle-orm'
@@ -17,7 +33,11 @@ import { safeString } from '../../../shared/schemas/common'
 
 /** An edit: any subset of the fields, and a reason (required only when the edit voids a sign-off; empty means none). */
 const updateSchema = laserSetupSchema.partial().extend({
-  reason: safeString({ multiline: true }).max(500).nullable().optional().transform((v) => v || null),
+  reason: safeString({ multiline: true })
+    .max(500)
+    .nullable()
+    .optional()
+    .transform((v) => v || null),
 })
 /**
  * Figures query: MPE edition, focal spot, and the evaluation (exposure) time in seconds: 0.25 (aversion
@@ -26,8 +46,11 @@ const updateSchema = laserSetupSchema.partial().extend({
 const figuresQuery = z.object({
   edition: z.enum(MPE_EDITIONS as [string, ...string[]]).optional(),
   spotUm: z.coerce.number().positive('Spot diameter in µm, above 0').max(1e5).optional(),
-  exposureS: z.coerce.number({ message: 'Exposure duration in seconds' })
-    .min(1e-3, 'Exposure duration from 0.001 s').max(30000, 'Exposure duration up to 30 000 s (the longest the MPE table covers)').optional(),
+  exposureS: z.coerce
+    .number({ message: 'Exposure duration in seconds' })
+    .min(1e-3, 'Exposure duration from 0.001 s')
+    .max(30000, 'Exposure duration up to 30 000 s (the longest the MPE table covers)')
+    .optional(),
 })
 
 /**
@@ -37,14 +60,28 @@ const figuresQuery = z.object({
  */
 export function laserSetupRoutes(ctx: AppContext): Router {
   const r = Router()
-  /** The record page's answer: the setup, its sign-off history, whether the reader may approve it (and why not), figures. */
+  /**
+   * The record page's answer: the setup, its sign-off history, whether the reader may approve it (and why not),
+   * figures.
+   */
   const detail = async (req: Request, id: number, q: z.infer<typeof figuresQuery> = {}) => {
     const setup = await getLaserSetup(ctx.db, id)
     const [row] = await ctx.db.select().from(laserSetups).where(eq(laserSetups.id, id))
     const history = historyOut((await loadDecisions(ctx.db, [id])).get(id)!)
     const approval = await approvalCheck(ctx.db, currentUser(req), row, setup.signoff.state)
-    const computed = figuresFor(row, { edition: q.edition as never, spotDiameterUm: q.spotUm, exposureDurationS: q.exposureS })
-    return { ...setup, signoff: { ...setup.signoff, history }, approval, missingForSubmit: missingForSubmit(row), computed, caution: LASER_CAUTION }
+    const computed = figuresFor(row, {
+      edition: q.edition as never,
+      spotDiameterUm: q.spotUm,
+      exposureDurationS: q.exposureS,
+    })
+    return {
+      ...setup,
+      signoff: { ...setup.signoff, history },
+      approval,
+      missingForSubmit: missingForSubmit(row),
+      computed,
+      caution: LASER_CAUTION,
+    }
   }
   r.get('/laser-setups', requireAbility('read', 'LaserSetup'), async (req, res) => {
     res.json({ ...(await listLaserSetups(ctx.db, parse(listQuerySchema, req.query))), caution: LASER_CAUTION })

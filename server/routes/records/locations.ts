@@ -5,7 +5,13 @@ import { listQuerySchema, locationSchema, moveSchema, reasonSchema } from '../..
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createLocation, getLocation, listLocations, retireLocation, updateLocation } from '../../services/inventory/locations'
+import {
+  createLocation,
+  getLocation,
+  listLocations,
+  retireLocation,
+  updateLocation,
+} from '../../services/inventory/locations'
 import { listMoves, moveItem } from '../../services/inventory/moves'
 import { safeString } from '../../../shared/schemas/common'
 

@@ -4,7 +4,13 @@ import { listQuerySchema, materialSchema, reasonSchema } from '../../../shared/s
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createMaterial, getMaterial, listMaterials, retireMaterial, updateMaterial } from '../../services/inventory/materials'
+import {
+  createMaterial,
+  getMaterial,
+  listMaterials,
+  retireMaterial,
+  updateMaterial,
+} from '../../services/inventory/materials'
 
 /** /api/materials: list, detail (with the d-matrix form), create, update, retire. */
 export function materialRoutes(ctx: AppContext): Router {

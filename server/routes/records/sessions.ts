@@ -5,7 +5,13 @@ import { sessionListQuerySchema, sessionPreviewSchema, sessionUpdateSchema } fro
 import type { AppContext } from '../../context'
 import { parse } from '../../middleware/validate'
 import { currentUser, requireAbility } from '../../auth/guards'
-import { createSession, getSession, listSessions, previewSession, updateSession } from '../../services/measurements/sessions'
+import {
+  createSession,
+  getSession,
+  listSessions,
+  previewSession,
+  updateSession,
+} from '../../services/measurements/sessions'
 
 /** /api/sessions: measurement sessions with predicted vs observed channels (optics staff write; everyone reads). */
 export function sessionRoutes(ctx: AppContext): Router {

@@ -1,5 +1,4 @@
 import { Router } from 'express'
-import { z } from 'zod'
 import { idParamSchema } from '../../../shared/schemas/auth'
 import { diceSchema, listQuerySchema, reasonSchema, waferSchema } from '../../../shared/schemas/records'
 import type { AppContext } from '../../context'

@@ -1,4 +1,13 @@
-import { describePatternBasis, fitPolarSweep, predictPattern, readSweepText, type FitOptions, type PolarFitResult, type PolarSweep, type ReadSweepOptions } from '../../../shared/analysis'
+import {
+  describePatternBasis,
+  fitPolarSweep,
+  predictPattern,
+  readSweepText,
+  type FitOptions,
+  type PolarFitResult,
+  type PolarSweep,
+  type ReadSweepOptions,
+} from '../../../shared/analysis'
 import type { FitRequest } from '../../../shared/schemas/analysis'
 import { asFieldError, formatDirection, type CrystalModel } from './analysis-model'
 
@@ -11,7 +20,11 @@ import { asFieldError, formatDirection, type CrystalModel } from './analysis-mod
  */
 export const MAX_FIT_POINTS = 360
 export function fitOptions(basisCount: number): FitOptions {
-  return basisCount <= 2 ? { azimuthStarts: 7, maxIterations: 40 } : basisCount <= 4 ? { azimuthStarts: 5, maxIterations: 25 } : { azimuthStarts: 5, maxIterations: 15 }
+  return basisCount <= 2
+    ? { azimuthStarts: 7, maxIterations: 40 }
+    : basisCount <= 4
+      ? { azimuthStarts: 5, maxIterations: 25 }
+      : { azimuthStarts: 5, maxIterations: 15 }
 }
 
 /** Keep every k-th angle so that at most MAX_FIT_POINTS intensities are fitted. */
@@ -20,11 +33,27 @@ function thinSweep(sweep: PolarSweep): { sweep: PolarSweep; every: number } {
   const every = Math.max(1, Math.ceil(total / MAX_FIT_POINTS))
   if (every === 1) return { sweep, every }
   const keep = (_: unknown, i: number) => i % every === 0
-  return { sweep: { ...sweep, anglesDeg: sweep.anglesDeg.filter(keep), channels: sweep.channels.map((c) => ({ ...c, intensity: c.intensity.filter(keep) })) }, every }
+  return {
+    sweep: {
+      ...sweep,
+      anglesDeg: sweep.anglesDeg.filter(keep),
+      channels: sweep.channels.map((c) => ({ ...c, intensity: c.intensity.filter(keep) })),
+    },
+    every,
+  }
 }
 
 /** Which input a library error concerns, as a request field (`file` for everything about the table). */
-const fitField = (f: string) => (['file', 'sweep', 'spectrum'].includes(f) ? 'file' : f === 'model' ? 'arrayId' : f === 'angleColumn' ? 'columns.angle' : f === 'intensityColumns' ? 'columns.intensities' : f)
+const fitField = (f: string) =>
+  ['file', 'sweep', 'spectrum'].includes(f)
+    ? 'file'
+    : f === 'model'
+      ? 'arrayId'
+      : f === 'angleColumn'
+        ? 'columns.angle'
+        : f === 'intensityColumns'
+          ? 'columns.intensities'
+          : f
 
 export interface FitAnswer {
   kind: 'polar_fit'
@@ -47,7 +76,14 @@ export interface FitAnswer {
   isSymmetryMatch: boolean
   /** Fitted curves every 2° for each channel (scale × pattern + background). */
   curves: { column: string; analyser: string; points: [number, number][] }[]
-  sweep: { angleColumn: string; angleUnit: 'deg' | 'rad'; angleUnitReason: string; channels: { column: string; analyser: string }[]; skipped: { line: number; reason: string }[]; notes: string[] }
+  sweep: {
+    angleColumn: string
+    angleUnit: 'deg' | 'rad'
+    angleUnitReason: string
+    channels: { column: string; analyser: string }[]
+    skipped: { line: number; reason: string }[]
+    notes: string[]
+  }
   notes: string[]
   assumptions: readonly string[]
 }
@@ -55,13 +91,17 @@ export interface FitAnswer {
 const mod = (x: number, p: number) => ((x % p) + p) % p
 const fmt = (x: number, digits = 1) => (Number.isFinite(x) ? x.toFixed(digits) : '?')
 
-export function runFit(text: string, crystal: CrystalModel, input: Pick<FitRequest, 'angleUnit' | 'columns'>): FitAnswer {
+export function runFit(
+  text: string,
+  crystal: CrystalModel,
+  input: Pick<FitRequest, 'angleUnit' | 'columns'>,
+): FitAnswer {
   const options: ReadSweepOptions = { angleUnit: input.angleUnit }
   if (input.columns?.angle !== undefined) options.angleColumn = input.columns.angle
   if (input.columns?.intensities) options.intensityColumns = input.columns.intensities
   let fit: PolarFitResult
   let sweep: PolarSweep
-  let every = 1
+  let every: number
   try {
     const read = thinSweep(readSweepText(text, options))
     sweep = read.sweep
@@ -77,26 +117,53 @@ export function runFit(text: string, crystal: CrystalModel, input: Pick<FitReque
   const sigma = fit.azimuth.sigma
   const sentence = fit.isAzimuthDetermined
     ? `The crystal's ${dir} direction (the wafer flat) points ${fmt(fit.azimuth.value)}° ± ${fmt(sigma, sigma < 0.1 ? 2 : 1)}° counter-clockwise from the chip's reference edge` +
-      (period < 360 ? ` (the pattern repeats every ${fmt(period, 0)}°, so the angle is known modulo ${fmt(period, 0)}°).` : '.')
+      (period < 360
+        ? ` (the pattern repeats every ${fmt(period, 0)}°, so the angle is known modulo ${fmt(period, 0)}°).`
+        : '.')
     : `The fit cannot fix the direction of the crystal axes: the predicted pattern does not change when the crystal turns (isotropic in the plane).`
-  const ratios = fit.ratios.map((r) => (r.role === 'not-observable' ? 0 : r.value ?? 0))
+  const ratios = fit.ratios.map((r) => (r.role === 'not-observable' ? 0 : (r.value ?? 0)))
   const angles = Array.from({ length: 181 }, (_, i) => i * 2)
   const unit = predictPattern(crystal.model, ratios, fit.azimuth.value, angles)
   const curves = sweep.channels.map((c, ci) => ({
-    column: c.column, analyser: c.analyser,
-    points: unit.map((p) => [p.angleDeg, fit.scale.value * p[c.analyser] + fit.backgrounds[ci].value] as [number, number]),
+    column: c.column,
+    analyser: c.analyser,
+    points: unit.map(
+      (p) => [p.angleDeg, fit.scale.value * p[c.analyser] + fit.backgrounds[ci].value] as [number, number],
+    ),
   }))
   return {
-    kind: 'polar_fit', order: crystal.model.order, model: fit.model, referenceDirection: dir,
+    kind: 'polar_fit',
+    order: crystal.model.order,
+    model: fit.model,
+    referenceDirection: dir,
     azimuth: { value: fit.azimuth.value, sigma, periodDeg: period, isDetermined: fit.isAzimuthDetermined },
-    expectedAzimuthDeg: expected, deviationDeg: deviation, sentence,
-    ratios: fit.ratios, scale: fit.scale, backgrounds: fit.backgrounds, rSquared: fit.rSquared, dof: fit.dof,
-    residuals: fit.residuals, symmetry: fit.symmetry, isSymmetryMatch: fit.isSymmetryMatch, curves,
+    expectedAzimuthDeg: expected,
+    deviationDeg: deviation,
+    sentence,
+    ratios: fit.ratios,
+    scale: fit.scale,
+    backgrounds: fit.backgrounds,
+    rSquared: fit.rSquared,
+    dof: fit.dof,
+    residuals: fit.residuals,
+    symmetry: fit.symmetry,
+    isSymmetryMatch: fit.isSymmetryMatch,
+    curves,
     sweep: {
-      angleColumn: sweep.angleColumn, angleUnit: sweep.angleUnit, angleUnitReason: sweep.angleUnitReason,
-      channels: sweep.channels.map((c) => ({ column: c.column, analyser: c.analyser })), skipped: sweep.skipped.slice(0, 200), notes: sweep.notes,
+      angleColumn: sweep.angleColumn,
+      angleUnit: sweep.angleUnit,
+      angleUnitReason: sweep.angleUnitReason,
+      channels: sweep.channels.map((c) => ({ column: c.column, analyser: c.analyser })),
+      skipped: sweep.skipped.slice(0, 200),
+      notes: sweep.notes,
     },
-    notes: every > 1 ? [`the sweep was thinned to every ${every}th angle for the fit (at most ${MAX_FIT_POINTS} points) to keep the answer quick`, ...fit.notes] : fit.notes,
+    notes:
+      every > 1
+        ? [
+            `the sweep was thinned to every ${every}th angle for the fit (at most ${MAX_FIT_POINTS} points) to keep the answer quick`,
+            ...fit.notes,
+          ]
+        : fit.notes,
     assumptions: fit.assumptions,
   }
 }

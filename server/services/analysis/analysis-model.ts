@@ -2,7 +2,13 @@ import { eq } from 'drizzle-orm'
 import { arrays, chips, materials, wafers } from '../../db/schema/index'
 import type { Db } from '../../db/client'
 import type { Coefficient } from '../../../shared/records'
-import { AnalysisError, PATTERN_ASSUMPTIONS, describePatternBasis, predictPattern, type PatternModel } from '../../../shared/analysis'
+import {
+  AnalysisError,
+  PATTERN_ASSUMPTIONS,
+  describePatternBasis,
+  predictPattern,
+  type PatternModel,
+} from '../../../shared/analysis'
 import { EngineError, getPointGroup } from '../../../shared/engine'
 import { BadRequestError, NotFoundError, fieldError } from '../../errors'
 
@@ -25,16 +31,27 @@ export interface CrystalModel {
 }
 
 /** Load the crystal of an array (through its chip). 404 when the array does not exist. */
-export async function loadArrayCrystal(db: Db, arrayId: number, order: number): Promise<CrystalModel & { array: { id: number; code: string; chipId: number } }> {
-  const [r] = await db.select({ a: { id: arrays.id, code: arrays.code, chipId: arrays.chipId } }).from(arrays).where(eq(arrays.id, arrayId))
+export async function loadArrayCrystal(
+  db: Db,
+  arrayId: number,
+  order: number,
+): Promise<CrystalModel & { array: { id: number; code: string; chipId: number } }> {
+  const [r] = await db
+    .select({ a: { id: arrays.id, code: arrays.code, chipId: arrays.chipId } })
+    .from(arrays)
+    .where(eq(arrays.id, arrayId))
   if (!r) throw new NotFoundError('No such array')
   return { ...(await loadChipCrystal(db, r.a.chipId, order)), array: r.a }
 }
 
 /** Load the crystal of a chip: its wafer's cut and flat and the material's point group. */
 export async function loadChipCrystal(db: Db, chipId: number, order: number): Promise<CrystalModel> {
-  const [r] = await db.select({ c: chips, w: wafers, m: materials }).from(chips)
-    .innerJoin(wafers, eq(wafers.id, chips.waferId)).innerJoin(materials, eq(materials.id, wafers.materialId)).where(eq(chips.id, chipId))
+  const [r] = await db
+    .select({ c: chips, w: wafers, m: materials })
+    .from(chips)
+    .innerJoin(wafers, eq(wafers.id, chips.waferId))
+    .innerJoin(materials, eq(materials.id, wafers.materialId))
+    .where(eq(chips.id, chipId))
   if (!r) throw new NotFoundError('No such chip')
   return {
     model: { pointGroup: r.m.pointGroup, normal: r.w.cutNormal, reference: r.w.flatDirection, order },
@@ -52,25 +69,37 @@ export const formatDirection = (v: readonly number[]) => `[${v.map((c) => (c < 0
  * normalised by the first. Only when every basis element has a stored value at one wavelength;
  * otherwise undefined (unit ratios), with the reason in `note`.
  */
-export function storedRatios(model: PatternModel, labels: string[], coefficients: readonly Coefficient[]): { ratios?: number[]; note: string } {
+export function storedRatios(
+  model: PatternModel,
+  labels: string[],
+  coefficients: readonly Coefficient[],
+): { ratios?: number[]; note: string } {
   const unit = `unit ratios: ${labels[0]} = 1 and ${labels.slice(1).join(', ') || 'no other component'} = 0 (illustrative shape, not the material's measured coefficients)`
   if (model.order !== 2) return { note: `${unit}; χ(3) components are not mapped from the stored coefficients` }
   const byWl = new Map<number, Map<string, number>>()
-  for (const c of coefficients.filter((c) => c.order === 2)) (byWl.get(c.wavelengthNm) ?? byWl.set(c.wavelengthNm, new Map()).get(c.wavelengthNm)!).set(c.component, c.valuePmV)
+  for (const c of coefficients.filter((c) => c.order === 2))
+    (byWl.get(c.wavelengthNm) ?? byWl.set(c.wavelengthNm, new Map()).get(c.wavelengthNm)!).set(c.component, c.valuePmV)
   for (const [wl, comps] of byWl) {
     const values = labels.map((l) => comps.get(l))
     if (values.every((v) => v !== undefined) && values[0] !== 0) {
       const ratios = values.map((v) => v! / values[0]!)
-      return { ratios, note: `ratios from the material's stored coefficients at ${wl} nm (${labels.map((l, k) => `${l} = ${values[k]} pm/V`).join(', ')}), normalised to ${labels[0]}; tabulated magnitudes carry no sign, so relative signs may be wrong` }
+      return {
+        ratios,
+        note: `ratios from the material's stored coefficients at ${wl} nm (${labels.map((l, k) => `${l} = ${values[k]} pm/V`).join(', ')}), normalised to ${labels[0]}; tabulated magnitudes carry no sign, so relative signs may be wrong`,
+      }
     }
   }
-  return { note: `${unit}; the material has no stored value for every independent component (${labels.join(', ')}) at one wavelength` }
+  return {
+    note: `${unit}; the material has no stored value for every independent component (${labels.join(', ')}) at one wavelength`,
+  }
 }
 
 export interface PatternAnswer {
   order: number
   model: PatternModel
-  /** Crystal azimuth used: angle of the model's reference direction from the pump's zero, degrees, counter-clockwise. */
+  /**
+   * Crystal azimuth used: angle of the model's reference direction from the pump's zero, degrees, counter-clockwise.
+   */
   azimuthDeg: number
   basis: string[]
   ratios: number[]
@@ -90,14 +119,32 @@ export function asFieldError(err: unknown, fieldOf: (f: string) => string = (f) 
 }
 
 /** Predicted pattern of a model at the given azimuth, every `step` degrees over 0–360. */
-export function computePattern(model: PatternModel, azimuthDeg: number, step: number, ratiosIn: number[] | undefined, frame: string, extra: string[] = []): PatternAnswer {
+export function computePattern(
+  model: PatternModel,
+  azimuthDeg: number,
+  step: number,
+  ratiosIn: number[] | undefined,
+  frame: string,
+  extra: string[] = [],
+): PatternAnswer {
   try {
     getPointGroup(model.pointGroup)
     const basis = describePatternBasis(model).labels
     const ratios = ratiosIn ?? basis.map((_, k) => (k === 0 ? 1 : 0))
     const angles = Array.from({ length: Math.floor(360 / step) + 1 }, (_, i) => Math.min(360, i * step))
-    const points = predictPattern(model, ratios, azimuthDeg, angles).map(({ angleDeg, parallel, perpendicular, none }) => ({ angleDeg, parallel, perpendicular, none }))
-    return { order: model.order, model, azimuthDeg, basis, ratios, points, assumptions: [...PATTERN_ASSUMPTIONS, ...extra], frame }
+    const points = predictPattern(model, ratios, azimuthDeg, angles).map(
+      ({ angleDeg, parallel, perpendicular, none }) => ({ angleDeg, parallel, perpendicular, none }),
+    )
+    return {
+      order: model.order,
+      model,
+      azimuthDeg,
+      basis,
+      ratios,
+      points,
+      assumptions: [...PATTERN_ASSUMPTIONS, ...extra],
+      frame,
+    }
   } catch (err) {
     return asFieldError(err)
   }
@@ -105,7 +152,13 @@ export function computePattern(model: PatternModel, azimuthDeg: number, step: nu
 
 /** The pattern of a chip's crystal, pump angle from the chip's reference edge. */
 export function crystalPattern(c: CrystalModel, step: number): PatternAnswer {
-  const basis = (() => { try { return describePatternBasis(c.model).labels } catch (err) { return asFieldError(err, () => 'order') } })()
+  const basis = (() => {
+    try {
+      return describePatternBasis(c.model).labels
+    } catch (err) {
+      return asFieldError(err, () => 'order')
+    }
+  })()
   const { ratios, note } = storedRatios(c.model, basis, c.material.coefficients)
   const frame = `pump angle θ from the chip's reference edge (counter-clockwise seen from above); crystal: ${c.material.name} (${c.model.pointGroup}), cut normal ${formatDirection(c.model.normal)}, wafer flat ${formatDirection(c.model.reference)}; the chip is turned ${c.chip.rotationDeg}° from the flat, so the flat direction sits at ${-c.chip.rotationDeg}° from the chip edge`
   return computePattern(c.model, -c.chip.rotationDeg, step, ratios, frame, [note])

@@ -1,7 +1,19 @@
 import { and, asc, desc, eq, inArray, like, or, sql, type SQL } from 'drizzle-orm'
 import {
-  auditLog, users, wafers, chips, arrays, locations, laserSetups, measurementSessions, materials, files, fabSteps, labelJobs,
+  auditLog,
+  users,
+  wafers,
+  chips,
+  arrays,
+  locations,
+  laserSetups,
+  measurementSessions,
+  materials,
+  files,
+  fabSteps,
+  labelJobs,
 } from '../../db/schema/index'
+import type { MySqlColumn, MySqlTable } from 'drizzle-orm/mysql-core'
 import type { Db } from '../../db/client'
 import type { Page } from '../../../shared/records'
 import type { AuditRow, AuditSearchQuery } from '../../../shared/audit'
@@ -20,7 +32,8 @@ const PLACEHOLDER = /^\([^()]{0,40}\)$/
 
 /** Replace anything sensitive (by key, at any depth) with "(hidden)"; placeholders stay readable. */
 export function maskValue(value: unknown, sensitive = false): unknown {
-  if (sensitive) return typeof value === 'string' && PLACEHOLDER.test(value) ? value : value == null ? value : '(hidden)'
+  if (sensitive)
+    return typeof value === 'string' && PLACEHOLDER.test(value) ? value : value == null ? value : '(hidden)'
   if (Array.isArray(value)) return value.map((v) => maskValue(v))
   if (value && typeof value === 'object') {
     return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, maskValue(v, SENSITIVE.test(k))]))
@@ -39,18 +52,26 @@ export function maskChanges(changes: AuditRow['changes']): AuditRow['changes'] {
 
 type Raw = { a: typeof auditLog.$inferSelect; userName: string | null }
 
-const parseChanges = (v: unknown): AuditRow['changes'] => (typeof v === 'string' ? JSON.parse(v) : (v as AuditRow['changes']) ?? {})
+const parseChanges = (v: unknown): AuditRow['changes'] =>
+  typeof v === 'string' ? JSON.parse(v) : ((v as AuditRow['changes']) ?? {})
 
 function toRow(r: Raw, code: string | null): AuditRow {
   const a = r.a
   return {
-    id: a.id, at: a.at.toISOString(), user: a.userId ? { id: a.userId, name: r.userName ?? '?' } : null,
-    entity: a.entity, entityId: a.entityId, code, action: a.action, changes: maskChanges(parseChanges(a.changes)), reason: a.reason,
+    id: a.id,
+    at: a.at.toISOString(),
+    user: a.userId ? { id: a.userId, name: r.userName ?? '?' } : null,
+    entity: a.entity,
+    entityId: a.entityId,
+    code,
+    action: a.action,
+    changes: maskChanges(parseChanges(a.changes)),
+    reason: a.reason,
   }
 }
 
 /** Code (or name) of each record, per kind, in one query per kind. */
-const CODE_SOURCES: Record<string, { table: any; id: any; code: any }> = {
+const CODE_SOURCES: Record<string, { table: MySqlTable; id: MySqlColumn; code: MySqlColumn }> = {
   wafer: { table: wafers, id: wafers.id, code: wafers.code },
   chip: { table: chips, id: chips.id, code: chips.code },
   array: { table: arrays, id: arrays.id, code: arrays.code },
@@ -64,20 +85,33 @@ const CODE_SOURCES: Record<string, { table: any; id: any; code: any }> = {
 
 async function codesOf(db: Db, rows: Raw[]): Promise<Map<string, string>> {
   const byKind = new Map<string, Set<number>>()
-  for (const { a } of rows) if (CODE_SOURCES[a.entity]) (byKind.get(a.entity) ?? byKind.set(a.entity, new Set()).get(a.entity)!).add(a.entityId)
+  for (const { a } of rows)
+    if (CODE_SOURCES[a.entity]) (byKind.get(a.entity) ?? byKind.set(a.entity, new Set()).get(a.entity)!).add(a.entityId)
   const out = new Map<string, string>()
-  await Promise.all([...byKind].map(async ([kind, ids]) => {
-    const s = CODE_SOURCES[kind]
-    const found = (await db.select({ id: s.id, code: s.code }).from(s.table).where(inArray(s.id, [...ids]))) as { id: number; code: string }[]
-    for (const f of found) out.set(`${kind}:${f.id}`, f.code)
-  }))
+  await Promise.all(
+    [...byKind].map(async ([kind, ids]) => {
+      const s = CODE_SOURCES[kind]
+      const found = (await db
+        .select({ id: s.id, code: s.code })
+        .from(s.table)
+        .where(inArray(s.id, [...ids]))) as { id: number; code: string }[]
+      for (const f of found) out.set(`${kind}:${f.id}`, f.code)
+    }),
+  )
   return out
 }
 
 /** A typed code (any case) or a material name → the record it names. */
 export async function recordOfCode(db: Db, raw: string): Promise<{ entity: string; id: number } | undefined> {
   const code = raw.trim().toUpperCase()
-  const prefixes: [string, string][] = [['LS-', 'laser_setup'], ['W-', 'wafer'], ['C-', 'chip'], ['A-', 'array'], ['L-', 'location'], ['S-', 'session']]
+  const prefixes: [string, string][] = [
+    ['LS-', 'laser_setup'],
+    ['W-', 'wafer'],
+    ['C-', 'chip'],
+    ['A-', 'array'],
+    ['L-', 'location'],
+    ['S-', 'session'],
+  ]
   const kind = prefixes.find(([p]) => code.startsWith(p))?.[1]
   if (kind) {
     const s = CODE_SOURCES[kind]
@@ -88,16 +122,21 @@ export async function recordOfCode(db: Db, raw: string): Promise<{ entity: strin
   return m && { entity: 'material', id: m.id }
 }
 
-const selectRows = (db: Db) => db.select({ a: auditLog, userName: users.name }).from(auditLog).leftJoin(users, eq(users.id, auditLog.userId))
+const selectRows = (db: Db) =>
+  db.select({ a: auditLog, userName: users.name }).from(auditLog).leftJoin(users, eq(users.id, auditLog.userId))
 
 /** Table and id column of each kind of record, to tell "no history yet" from "no such record". */
-const RECORD_TABLES: Record<string, { table: any; id: any }> = {
-  ...CODE_SOURCES, fab_step: { table: fabSteps, id: fabSteps.id }, label_job: { table: labelJobs, id: labelJobs.id },
+const RECORD_TABLES: Record<string, { table: MySqlTable; id: MySqlColumn }> = {
+  ...CODE_SOURCES,
+  fab_step: { table: fabSteps, id: fabSteps.id },
+  label_job: { table: labelJobs, id: labelJobs.id },
 }
 
 /** The whole history of one record, newest first; 404 when no such record exists (and it has no history). */
 export async function recordHistory(db: Db, entity: string, entityId: number): Promise<AuditRow[]> {
-  const rows = await selectRows(db).where(and(eq(auditLog.entity, entity), eq(auditLog.entityId, entityId))).orderBy(desc(auditLog.at), desc(auditLog.id))
+  const rows = await selectRows(db)
+    .where(and(eq(auditLog.entity, entity), eq(auditLog.entityId, entityId)))
+    .orderBy(desc(auditLog.at), desc(auditLog.id))
   if (!rows.length) {
     const t = RECORD_TABLES[entity]
     const found = t ? await db.select({ id: t.id }).from(t.table).where(eq(t.id, entityId)).limit(1) : []
@@ -132,9 +171,11 @@ export async function searchAudit(db: Db, q: AuditSearchQuery): Promise<Page<Aud
   if (q.code) {
     byCode = await recordOfCode(db, q.code)
     if (!byCode) throw fieldError('code', `No record has the code ${q.code.toUpperCase()}`)
-    if (q.entity && q.entity !== byCode.entity) throw fieldError('code', `${q.code.toUpperCase()} is not a ${q.entity.replace('_', ' ')}`)
+    if (q.entity && q.entity !== byCode.entity)
+      throw fieldError('code', `${q.code.toUpperCase()} is not a ${q.entity.replace('_', ' ')}`)
   }
-  if (q.from && q.to && Date.parse(q.from) > Date.parse(q.to)) throw fieldError('to', 'The end date is before the start date')
+  if (q.from && q.to && Date.parse(q.from) > Date.parse(q.to))
+    throw fieldError('to', 'The end date is before the start date')
   const text = q.q ? likePattern(q.q) : undefined
   const where = and(
     q.userId ? eq(auditLog.userId, q.userId) : undefined,
@@ -143,13 +184,27 @@ export async function searchAudit(db: Db, q: AuditSearchQuery): Promise<Page<Aud
     byCode ? and(eq(auditLog.entity, byCode.entity), eq(auditLog.entityId, byCode.id)) : undefined,
     q.action ? eq(auditLog.action, q.action) : undefined,
     ...dateRange(q.from, q.to),
-    text ? or(like(auditLog.reason, text), sql`JSON_SEARCH(JSON_KEYS(${auditLog.changes}), 'one', ${text}) IS NOT NULL`) : undefined,
+    text
+      ? or(like(auditLog.reason, text), sql`JSON_SEARCH(JSON_KEYS(${auditLog.changes}), 'one', ${text}) IS NOT NULL`)
+      : undefined,
   )
   const order = SORTS[q.sort].map((c) => (q.dir === 'desc' ? desc(c) : asc(c)))
   const [rows, [{ n }]] = await Promise.all([
-    selectRows(db).where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize),
-    db.select({ n: sql<number>`count(*)` }).from(auditLog).where(where),
+    selectRows(db)
+      .where(where)
+      .orderBy(...order)
+      .limit(q.pageSize)
+      .offset((q.page - 1) * q.pageSize),
+    db
+      .select({ n: sql<number>`count(*)` })
+      .from(auditLog)
+      .where(where),
   ])
   const codes = await codesOf(db, rows)
-  return { rows: rows.map((r) => toRow(r, codes.get(`${r.a.entity}:${r.a.entityId}`) ?? null)), total: Number(n), page: q.page, pageSize: q.pageSize }
+  return {
+    rows: rows.map((r) => toRow(r, codes.get(`${r.a.entity}:${r.a.entityId}`) ?? null)),
+    total: Number(n),
+    page: q.page,
+    pageSize: q.pageSize,
+  }
 }

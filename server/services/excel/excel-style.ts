@@ -32,7 +32,12 @@ export function columnLetter(n: number): string {
 /** Add a sheet with the header row styled, frozen and filtered (the header row is committed when streaming). */
 export function addStyledSheet(book: AnyBook, name: string, columns: SheetColumn[]): ExcelJS.Worksheet {
   const ws = book.addWorksheet(name, { views: [{ state: 'frozen', ySplit: 1, xSplit: 0 }] })
-  ws.columns = columns.map((c) => ({ header: c.header, key: c.key, width: c.width, style: c.numFmt ? { numFmt: c.numFmt } : {} }))
+  ws.columns = columns.map((c) => ({
+    header: c.header,
+    key: c.key,
+    width: c.width,
+    style: c.numFmt ? { numFmt: c.numFmt } : {},
+  }))
   ws.autoFilter = `A1:${columnLetter(columns.length)}1`
   const header = ws.getRow(1)
   header.height = 20
@@ -54,7 +59,9 @@ export const dateOnly = (s: string | null | undefined): Date | null => (s ? new 
 export const vectorText = (v: readonly number[] | null | undefined) => (v ? v.join(' ') : '')
 
 type StyleModel = Partial<ExcelJS.Style> | undefined
-interface StyleRegistry { addStyleModel(model: StyleModel, cellType?: number): number }
+interface StyleRegistry {
+  addStyleModel(model: StyleModel, cellType?: number): number
+}
 
 /**
  * Speed up style lookups of a streaming WorkbookWriter (`useStyles: true`); the styles written stay
@@ -90,12 +97,16 @@ export function rememberPlainStyles(book: object): void {
 const FORMULA_START = /^[=+\-@\t\r]/
 export const guardText = (s: string): string => (FORMULA_START.test(s) ? `'${s}` : s)
 /** The text as it was before `guardText`. */
-export const unguardText = (s: string): string => (s.length > 1 && s.charCodeAt(0) === 39 && FORMULA_START.test(s.slice(1)) ? s.slice(1) : s)
+export const unguardText = (s: string): string =>
+  s.length > 1 && s.charCodeAt(0) === 39 && FORMULA_START.test(s.slice(1)) ? s.slice(1) : s
 
 /** Add a row of values, with every text guarded against formula injection, and commit it when streaming. */
 export function addSafeRow(ws: ExcelJS.Worksheet, values: Record<string, unknown>): ExcelJS.Row {
   const safe: Record<string, unknown> = {}
-  for (const k in values) { const v = values[k]; safe[k] = typeof v === 'string' ? guardText(v) : v }
+  for (const k in values) {
+    const v = values[k]
+    safe[k] = typeof v === 'string' ? guardText(v) : v
+  }
   const row = ws.addRow(safe)
   ;(row as ExcelJS.Row & { commit?: () => void }).commit?.()
   return row

@@ -28,18 +28,50 @@ const INSTRUCTIONS = [
 ]
 
 function addSheet(book: ExcelJS.Workbook, name: string, cols: ColumnSpec[], materialCount: number) {
-  const ws = addStyledSheet(book, name, cols.map((c) => ({ header: c.header, key: c.key, width: c.width, numFmt: c.kind === 'date' ? DATE_FMT : undefined })))
+  const ws = addStyledSheet(
+    book,
+    name,
+    cols.map((c) => ({
+      header: c.header,
+      key: c.key,
+      width: c.width,
+      numFmt: c.kind === 'date' ? DATE_FMT : undefined,
+    })),
+  )
   // exceljs has worksheet.dataValidations (address may be a range) but its typings lack it.
-  const validations = (ws as unknown as { dataValidations: { add(address: string, v: ExcelJS.DataValidation): void } }).dataValidations
+  const validations = (ws as unknown as { dataValidations: { add(address: string, v: ExcelJS.DataValidation): void } })
+    .dataValidations
   cols.forEach((c, i) => {
     ws.getRow(1).getCell(i + 1).note = `${c.isRequired ? 'Required. ' : ''}${c.note}`
     const range = `${columnLetter(i + 1)}2:${columnLetter(i + 1)}${LIST_ROWS}`
     if (c.values) {
-      validations.add(range, { type: 'list', allowBlank: !c.isRequired, formulae: [`"${c.values.join(',')}"`], showErrorMessage: true, errorTitle: c.header, error: `Pick one of: ${c.values.join(', ')}` })
+      validations.add(range, {
+        type: 'list',
+        allowBlank: !c.isRequired,
+        formulae: [`"${c.values.join(',')}"`],
+        showErrorMessage: true,
+        errorTitle: c.header,
+        error: `Pick one of: ${c.values.join(', ')}`,
+      })
     } else if (c.key === 'material' && materialCount > 0) {
-      validations.add(range, { type: 'list', allowBlank: false, formulae: [`Lists!$A$2:$A$${materialCount + 1}`], showErrorMessage: true, errorTitle: 'Material', error: 'Pick a material registered in Overtone' })
+      validations.add(range, {
+        type: 'list',
+        allowBlank: false,
+        formulae: [`Lists!$A$2:$A$${materialCount + 1}`],
+        showErrorMessage: true,
+        errorTitle: 'Material',
+        error: 'Pick a material registered in Overtone',
+      })
     } else if (c.kind === 'number' || c.kind === 'integer') {
-      validations.add(range, { type: c.kind === 'integer' ? 'whole' : 'decimal', operator: 'between', allowBlank: true, formulae: [-1e9, 1e9], showErrorMessage: true, errorTitle: c.header, error: 'Enter a number' })
+      validations.add(range, {
+        type: c.kind === 'integer' ? 'whole' : 'decimal',
+        operator: 'between',
+        allowBlank: true,
+        formulae: [-1e9, 1e9],
+        showErrorMessage: true,
+        errorTitle: c.header,
+        error: 'Enter a number',
+      })
     }
   })
   const example = ws.addRow(Object.fromEntries(cols.map((c) => [c.key, c.example])))
@@ -56,12 +88,22 @@ function templateColumns(name: (typeof IMPORT_SHEETS)[number]): ColumnSpec[] {
   const cols = IMPORT_COLUMNS[name].filter((c) => c.inTemplate !== false && !c.isLegacy)
   if (name !== 'Arrays') return cols
   const at = cols.findIndex((c) => c.key === 'shape') + 1
-  return [...cols.slice(0, at), ...FORM_DIMENSIONS.map((k) => dimensionColumn(k, k === 'diameterNm' ? 450 : null)), ...cols.slice(at)]
+  return [
+    ...cols.slice(0, at),
+    ...FORM_DIMENSIONS.map((k) => dimensionColumn(k, k === 'diameterNm' ? 450 : null)),
+    ...cols.slice(at),
+  ]
 }
 
 /** Build the template workbook (material names from the database for the drop-down). */
 export async function buildTemplate(db: Db): Promise<Buffer> {
-  const names = (await db.select({ name: materials.name }).from(materials).where(isNull(materials.retiredAt)).orderBy(asc(materials.name))).map((m) => m.name)
+  const names = (
+    await db
+      .select({ name: materials.name })
+      .from(materials)
+      .where(isNull(materials.retiredAt))
+      .orderBy(asc(materials.name))
+  ).map((m) => m.name)
   const book = new ExcelJS.Workbook()
   book.creator = 'Overtone'
   book.created = new Date()
@@ -76,6 +118,8 @@ export async function buildTemplate(db: Db): Promise<Buffer> {
   for (const name of IMPORT_SHEETS) addSheet(book, name, templateColumns(name), names.length)
   const lists = book.addWorksheet('Lists', { state: 'hidden' })
   lists.getCell('A1').value = 'Materials'
-  names.forEach((n, i) => { lists.getCell(i + 2, 1).value = n })
+  names.forEach((n, i) => {
+    lists.getCell(i + 2, 1).value = n
+  })
   return Buffer.from(await book.xlsx.writeBuffer())
 }

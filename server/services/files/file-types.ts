@@ -31,7 +31,12 @@ export function sniffBinary(b: Buffer): string | null {
 /** The bytes as text when they are valid UTF-8 with no NUL or other control bytes (tab, CR, LF allowed). */
 export function decodeText(b: Buffer): string | null {
   let s: string
-  try { s = new TextDecoder('utf-8', { fatal: true }).decode(b) } catch { return null }
+  try {
+    s = new TextDecoder('utf-8', { fatal: true }).decode(b)
+  } catch {
+    return null
+  }
+  // eslint-disable-next-line no-control-regex -- finding control characters is the point
   if (/[\x00-\x08\x0b\x0c\x0e-\x1f\x7f]/.test(s)) return null
   return s.replace(/^\uFEFF/, '')
 }
@@ -62,7 +67,10 @@ export function downsample(points: [number, number][], max = 2000): [number, num
     if (!slice.length) continue
     let lo = 0
     let hi = 0
-    slice.forEach((p, i) => { if (p[1] < slice[lo][1]) lo = i; if (p[1] > slice[hi][1]) hi = i })
+    slice.forEach((p, i) => {
+      if (p[1] < slice[lo][1]) lo = i
+      if (p[1] > slice[hi][1]) hi = i
+    })
     for (const i of lo === hi ? [lo] : [Math.min(lo, hi), Math.max(lo, hi)]) out.push(slice[i])
   }
   return out
@@ -80,16 +88,30 @@ export function checkContent(b: Buffer, kind: FileKind): string {
   const binary = sniffBinary(b)
   if (IMAGE_KINDS.includes(kind)) {
     if (binary && isImageMime(binary)) return binary
-    throw fieldError('file', 'This is not an image: SEM and camera files must be PNG, JPEG, TIFF, GIF or WebP (checked by content, not by name)')
+    throw fieldError(
+      'file',
+      'This is not an image: SEM and camera files must be PNG, JPEG, TIFF, GIF or WebP (checked by content, not by name)',
+    )
   }
   if (binary) {
     if (kind === 'other') return binary
-    throw fieldError('file', `This file is ${binary}, not a text table: spectra and sweeps must be CSV or TXT with columns of numbers`)
+    throw fieldError(
+      'file',
+      `This file is ${binary}, not a text table: spectra and sweeps must be CSV or TXT with columns of numbers`,
+    )
   }
   const text = decodeText(b)
-  if (text === null) throw fieldError('file', 'The file type is not accepted: use PNG, JPEG, TIFF, GIF, WebP, PDF, or UTF-8 text (CSV/TXT)')
+  if (text === null)
+    throw fieldError(
+      'file',
+      'The file type is not accepted: use PNG, JPEG, TIFF, GIF, WebP, PDF, or UTF-8 text (CSV/TXT)',
+    )
   if (readDataTable(text)) return 'text/csv'
-  if (TEXT_KINDS.includes(kind)) throw fieldError('file', 'This does not look like a data table: expected rows of numbers separated by commas, semicolons or tabs')
+  if (TEXT_KINDS.includes(kind))
+    throw fieldError(
+      'file',
+      'This does not look like a data table: expected rows of numbers separated by commas, semicolons or tabs',
+    )
   return 'text/plain'
 }
 
@@ -100,7 +122,11 @@ export function checkContent(b: Buffer, kind: FileKind): string {
  */
 export function sanitizeFileName(name: string | undefined): string {
   const base = (name ?? '').normalize('NFC').split(/[\\/]/).pop() ?? ''
-  const clean = base.replace(/[\x00-\x1f\x7f\u202a-\u202e\u2066-\u2069]/g, '').replace(/^[.\s]+/, '').trim()
+  const clean = base
+    // eslint-disable-next-line no-control-regex -- removing control characters is the point
+    .replace(/[\x00-\x1f\x7f\u202a-\u202e\u2066-\u2069]/g, '')
+    .replace(/^[.\s]+/, '')
+    .trim()
   if (!clean) return 'file'
   if (clean.length <= 255) return clean
   const dot = clean.lastIndexOf('.')

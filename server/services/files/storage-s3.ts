@@ -66,10 +66,16 @@ export class S3Storage implements FileStorage {
     const Key = this.keyOf(sha256)
     if (await this.has(sha256)) return { sha256, sizeBytes: data.length, isNew: false }
     const { sdk, client } = await this.s3()
-    await client.send(new sdk.PutObjectCommand({
-      Bucket: this.bucket, Key, Body: data, ContentLength: data.length,
-      ContentType: 'application/octet-stream', Metadata: { sha256 },
-    }))
+    await client.send(
+      new sdk.PutObjectCommand({
+        Bucket: this.bucket,
+        Key,
+        Body: data,
+        ContentLength: data.length,
+        ContentType: 'application/octet-stream',
+        Metadata: { sha256 },
+      }),
+    )
     return { sha256, sizeBytes: data.length, isNew: true }
   }
 
@@ -129,5 +135,7 @@ export class S3Storage implements FileStorage {
 function isNotFound(err: unknown): boolean {
   const e = err as { name?: string; Code?: string; $metadata?: { httpStatusCode?: number } } | null
   if (e?.name === 'NoSuchBucket' || e?.Code === 'NoSuchBucket') return false
-  return e?.name === 'NotFound' || e?.name === 'NoSuchKey' || e?.Code === 'NoSuchKey' || e?.$metadata?.httpStatusCode === 404
+  return (
+    e?.name === 'NotFound' || e?.name === 'NoSuchKey' || e?.Code === 'NoSuchKey' || e?.$metadata?.httpStatusCode === 404
+  )
 }

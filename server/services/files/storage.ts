@@ -2,7 +2,6 @@ import { createHash, randomBytes } from 'node:crypto'
 import { constants as fsConstants, createReadStream, type ReadStream } from 'node:fs'
 import fs from 'node:fs/promises'
 import path from 'node:path'
-import type { FileStorageEnv } from '../../env'
 import { AppError } from '../../errors'
 
 /**
@@ -43,8 +42,18 @@ const READ_ONLY = new Set(['EROFS', 'EACCES', 'EPERM'])
  */
 export function storageFailure(err: unknown): Error {
   const code = (err as NodeJS.ErrnoException | undefined)?.code ?? ''
-  if (FULL.has(code)) return new AppError(507, 'storage_full', 'The file storage is full, so nothing can be saved there right now. Ask an administrator to free space; nothing was stored.')
-  if (READ_ONLY.has(code)) return new AppError(503, 'storage_read_only', 'The file storage cannot be written (it is read-only or not writable), so nothing can be saved there right now. Ask an administrator; nothing was stored.')
+  if (FULL.has(code))
+    return new AppError(
+      507,
+      'storage_full',
+      'The file storage is full, so nothing can be saved there right now. Ask an administrator to free space; nothing was stored.',
+    )
+  if (READ_ONLY.has(code))
+    return new AppError(
+      503,
+      'storage_read_only',
+      'The file storage cannot be written (it is read-only or not writable), so nothing can be saved there right now. Ask an administrator; nothing was stored.',
+    )
   return err as Error
 }
 
@@ -54,7 +63,9 @@ export function sha256Of(data: Buffer): string {
   return createHash('sha256').update(data).digest('hex')
 }
 
-/** The hash itself when it is 64 lower-case hex digits; throws otherwise (never make a key or path from anything else). */
+/**
+ * The hash itself when it is 64 lower-case hex digits; throws otherwise (never make a key or path from anything else).
+ */
 export function checkedSha256(sha256: string): string {
   if (typeof sha256 !== 'string' || !SHA.test(sha256)) throw new Error(`not a sha256: ${String(sha256).slice(0, 80)}`)
   return sha256
@@ -96,14 +107,22 @@ export class LocalDiskStorage implements FileStorage {
   private async why(err: unknown): Promise<unknown> {
     const code = (err as NodeJS.ErrnoException).code ?? ''
     if (FULL.has(code) || READ_ONLY.has(code)) return err
-    try { await fs.access(this.root, fsConstants.W_OK) } catch (e) { if (READ_ONLY.has((e as NodeJS.ErrnoException).code ?? '')) return e }
+    try {
+      await fs.access(this.root, fsConstants.W_OK)
+    } catch (e) {
+      if (READ_ONLY.has((e as NodeJS.ErrnoException).code ?? '')) return e
+    }
     return err
   }
 
   async checkWritable(): Promise<void> {
     await fs.mkdir(this.root, { recursive: true })
     const probe = path.join(this.root, `.health-${randomBytes(6).toString('hex')}.tmp`)
-    try { await fs.writeFile(probe, 'ok') } finally { await fs.rm(probe, { force: true }).catch(() => {}) }
+    try {
+      await fs.writeFile(probe, 'ok')
+    } finally {
+      await fs.rm(probe, { force: true }).catch(() => {})
+    }
   }
 
   async get(sha256: string): Promise<ReadStream> {
@@ -118,7 +137,10 @@ export class LocalDiskStorage implements FileStorage {
 
   async has(sha256: string): Promise<boolean> {
     const p = this.pathOf(sha256)
-    try { await fs.access(p); return true } catch (err) {
+    try {
+      await fs.access(p)
+      return true
+    } catch (err) {
       const code = (err as NodeJS.ErrnoException).code
       if (code === 'ENOENT' || code === 'ENOTDIR') return false
       throw err

@@ -32,7 +32,12 @@ export const ZIP_LIMITS: ZipLimits = { maxBytes: 200 * 1024 * 1024, maxEntries: 
 
 export type ZipProblem = 'damaged' | 'encrypted' | 'too-many' | 'too-big'
 export class ZipRefusal extends Error {
-  constructor(readonly problem: ZipProblem, message: string) { super(message) }
+  constructor(
+    readonly problem: ZipProblem,
+    message: string,
+  ) {
+    super(message)
+  }
 }
 
 const SIG = { local: 0x04034b50, central: 0x02014b50, end: 0x06054b50, end64: 0x06064b50, locator64: 0x07064b50 }
@@ -67,15 +72,25 @@ function findDirectory(buf: Buffer): { offset: number; end: number } {
   if (eocd < 0 || eocd + 22 > buf.length) throw damaged('no ZIP directory at its end (the file may be cut short)')
   let offset = buf.readUInt32LE(eocd + 16)
   let size = buf.readUInt32LE(eocd + 12)
-  const isZip64 = [buf.readUInt16LE(eocd + 4), buf.readUInt16LE(eocd + 6), buf.readUInt16LE(eocd + 8), buf.readUInt16LE(eocd + 10)].includes(MAX16) || size === MAX32 || offset === MAX32
+  const isZip64 =
+    [
+      buf.readUInt16LE(eocd + 4),
+      buf.readUInt16LE(eocd + 6),
+      buf.readUInt16LE(eocd + 8),
+      buf.readUInt16LE(eocd + 10),
+    ].includes(MAX16) ||
+    size === MAX32 ||
+    offset === MAX32
   if (!isZip64) {
     if (offset + size !== eocd) throw damaged('its ZIP directory is not where the end record says')
     return { offset, end: eocd }
   }
   const locator = eocd - 20
-  if (!sigAt(buf, locator, SIG.locator64) || lastIndexOf(buf, SIG.locator64) !== locator) throw damaged('its ZIP64 locator is missing or misplaced')
+  if (!sigAt(buf, locator, SIG.locator64) || lastIndexOf(buf, SIG.locator64) !== locator)
+    throw damaged('its ZIP64 locator is missing or misplaced')
   const record = u64(buf, locator + 8)
-  if (!sigAt(buf, record, SIG.end64) || record + 56 > buf.length || record + 12 + u64(buf, record + 4) !== locator) throw damaged('its ZIP64 end record is missing or misplaced')
+  if (!sigAt(buf, record, SIG.end64) || record + 56 > buf.length || record + 12 + u64(buf, record + 4) !== locator)
+    throw damaged('its ZIP64 end record is missing or misplaced')
   offset = u64(buf, record + 48)
   size = u64(buf, record + 40)
   if (offset + size !== record) throw damaged('its ZIP directory is not where the ZIP64 end record says')
@@ -91,15 +106,21 @@ export function readZipDirectory(buf: Buffer, maxEntries = Infinity): ZipEntry[]
   const entries: ZipEntry[] = []
   let p = dir.offset
   while (sigAt(buf, p, SIG.central)) {
-    if (entries.length >= maxEntries) throw new ZipRefusal('too-many', `more than ${maxEntries.toLocaleString('en')} parts`)
+    if (entries.length >= maxEntries)
+      throw new ZipRefusal('too-many', `more than ${maxEntries.toLocaleString('en')} parts`)
     if (p + 46 > buf.length) throw damaged('a ZIP directory header runs past the end of the file')
     const nameLen = buf.readUInt16LE(p + 28)
     const extraLen = buf.readUInt16LE(p + 30)
     const next = p + 46 + nameLen + extraLen + buf.readUInt16LE(p + 32)
     if (next > buf.length) throw damaged('a ZIP directory header runs past the end of the file')
     const e: ZipEntry = {
-      name: buf.toString('utf8', p + 46, p + 46 + nameLen), flags: buf.readUInt16LE(p + 8), method: buf.readUInt16LE(p + 10),
-      compressedSize: buf.readUInt32LE(p + 20), size: buf.readUInt32LE(p + 24), localOffset: buf.readUInt32LE(p + 42), crc32: buf.readUInt32LE(p + 16),
+      name: buf.toString('utf8', p + 46, p + 46 + nameLen),
+      flags: buf.readUInt16LE(p + 8),
+      method: buf.readUInt16LE(p + 10),
+      compressedSize: buf.readUInt32LE(p + 20),
+      size: buf.readUInt32LE(p + 24),
+      localOffset: buf.readUInt32LE(p + 42),
+      crc32: buf.readUInt32LE(p + 16),
     }
     // ZIP64 extra field (id 1): 8-byte values, present only for the fields that hold 0xFFFFFFFF, in
     // this order. Walked like jszip walks extra fields (a later field of the same id wins).
@@ -110,7 +131,12 @@ export function readZipDirectory(buf: Buffer, maxEntries = Infinity): ZipEntry[]
     if (zip64 !== null) {
       const stop = zip64 + 4 + buf.readUInt16LE(zip64 + 2)
       let at = zip64 + 4
-      const take = () => { if (at + 8 > stop) throw damaged('a ZIP64 field is too short'); const v = u64(buf, at); at += 8; return v }
+      const take = () => {
+        if (at + 8 > stop) throw damaged('a ZIP64 field is too short')
+        const v = u64(buf, at)
+        at += 8
+        return v
+      }
       if (e.size === MAX32) e.size = take()
       if (e.compressedSize === MAX32) e.compressedSize = take()
       if (e.localOffset === MAX32) e.localOffset = take()
@@ -130,7 +156,10 @@ function inflatedSize(data: Buffer, cap: number): Promise<number> {
     let n = 0
     z.on('data', (chunk: Buffer) => {
       n += chunk.length
-      if (n > cap) { z.destroy(); resolve(n) }
+      if (n > cap) {
+        z.destroy()
+        resolve(n)
+      }
     })
     z.on('end', () => resolve(n))
     z.on('error', reject)
@@ -149,10 +178,15 @@ export async function checkZip(buf: Buffer, limits: Partial<ZipLimits> = {}): Pr
   const unknown = entries.find((e) => e.method !== 0 && e.method !== 8)
   if (unknown) throw damaged(`the part ${unknown.name} uses an unknown compression (method ${unknown.method})`)
   const declared = entries.reduce((n, e) => n + e.size, 0)
-  if (declared > maxBytes) throw new ZipRefusal('too-big', `The workbook expands to ${formatBytes(declared)} of data; at most ${formatBytes(maxBytes)} can be read: split the file`)
+  if (declared > maxBytes)
+    throw new ZipRefusal(
+      'too-big',
+      `The workbook expands to ${formatBytes(declared)} of data; at most ${formatBytes(maxBytes)} can be read: split the file`,
+    )
   for (const e of entries) {
     const at = e.localOffset
-    if (!sigAt(buf, at, SIG.local) || at + 30 > buf.length) throw damaged(`the part ${e.name} is not where the directory says`)
+    if (!sigAt(buf, at, SIG.local) || at + 30 > buf.length)
+      throw damaged(`the part ${e.name} is not where the directory says`)
     const start = at + 30 + buf.readUInt16LE(at + 26) + buf.readUInt16LE(at + 28)
     if (start + e.compressedSize > buf.length) throw damaged(`the part ${e.name} is cut short`)
     const data = buf.subarray(start, start + e.compressedSize)
@@ -162,7 +196,8 @@ export async function checkZip(buf: Buffer, limits: Partial<ZipLimits> = {}): Pr
     } catch {
       throw damaged(`the part ${e.name} cannot be unpacked`)
     }
-    if (real !== e.size) throw damaged(`the part ${e.name} ${real > e.size ? 'holds more' : 'holds less'} data than its header declares`)
+    if (real !== e.size)
+      throw damaged(`the part ${e.name} ${real > e.size ? 'holds more' : 'holds less'} data than its header declares`)
   }
   return entries
 }

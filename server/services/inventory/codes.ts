@@ -11,7 +11,8 @@ export const pad = (n: number, width: number) => String(n).padStart(width, '0')
 
 export const waferCode = (n: number) => `W-${pad(n, 4)}`
 export const chipCode = (waferNumber: number, index: number) => `C-${pad(waferNumber, 4)}-${pad(index, 2)}`
-export const arrayCode = (chipCodeValue: string, position: string) => `A-${chipCodeValue.slice(2)}-${position.toUpperCase()}`
+export const arrayCode = (chipCodeValue: string, position: string) =>
+  `A-${chipCodeValue.slice(2)}-${position.toUpperCase()}`
 export const locationCode = (n: number) => `L-${pad(n, 4)}`
 
 /** The highest chip index a code can carry (two digits). */
@@ -35,12 +36,21 @@ export async function nextCodeNumber(tx: DbOrTx, table: 'wafers' | 'locations', 
 }
 
 /** Take `count` consecutive numbers of the series in the caller's transaction; answers the first. */
-async function takeCodeNumbers(tx: DbOrTx, table: 'wafers' | 'locations', prefix: string, count: number): Promise<number> {
-  const [maxRows] = (await tx.execute(sql`SELECT COALESCE(MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)), 0) AS n FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'}`)) as unknown as [{ n: number | string }[]]
+async function takeCodeNumbers(
+  tx: DbOrTx,
+  table: 'wafers' | 'locations',
+  prefix: string,
+  count: number,
+): Promise<number> {
+  const [maxRows] = (await tx.execute(
+    sql`SELECT COALESCE(MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)), 0) AS n FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'}`,
+  )) as unknown as [{ n: number | string }[]]
   const max = Number(maxRows[0]?.n ?? 0)
   await tx.execute(sql`INSERT INTO code_series (series, last_number) VALUES (${prefix}, ${max + count})
     ON DUPLICATE KEY UPDATE last_number = GREATEST(last_number, ${max}) + ${count}`)
-  const [rows] = (await tx.execute(sql`SELECT last_number AS n FROM code_series WHERE series = ${prefix}`)) as unknown as [{ n: number | string }[]]
+  const [rows] = (await tx.execute(
+    sql`SELECT last_number AS n FROM code_series WHERE series = ${prefix}`,
+  )) as unknown as [{ n: number | string }[]]
   return Number(rows[0].n) - count + 1
 }
 
@@ -49,15 +59,23 @@ async function takeCodeNumbers(tx: DbOrTx, table: 'wafers' | 'locations', prefix
  * import, before its long insert transaction). Numbers of an import that then fails stay unused:
  * codes are never reused, gaps are allowed.
  */
-export async function reserveCodeNumbers(db: Db, table: 'wafers' | 'locations', prefix: string, count: number): Promise<number> {
+export async function reserveCodeNumbers(
+  db: Db,
+  table: 'wafers' | 'locations',
+  prefix: string,
+  count: number,
+): Promise<number> {
   if (count <= 0) return 0
   return db.transaction((tx) => takeCodeNumbers(tx, table, prefix, count))
 }
 
 /** The number the next creation would get now (a preview; nothing is reserved or locked). */
 export async function peekCodeNumber(db: DbOrTx, table: 'wafers' | 'locations', prefix: string): Promise<number> {
-  const [rows] = (await db.execute(sql`SELECT GREATEST(COALESCE((SELECT MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)) FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'}), 0),
-    COALESCE((SELECT last_number FROM code_series WHERE series = ${prefix}), 0)) AS n`)) as unknown as [{ n: number | string }[]]
+  const [rows] =
+    (await db.execute(sql`SELECT GREATEST(COALESCE((SELECT MAX(CAST(SUBSTRING(code, ${prefix.length + 2}) AS UNSIGNED)) FROM ${sql.raw(table)} WHERE code LIKE ${prefix + '-%'}), 0),
+    COALESCE((SELECT last_number FROM code_series WHERE series = ${prefix}), 0)) AS n`)) as unknown as [
+      { n: number | string }[],
+    ]
   return Number(rows[0].n) + 1
 }
 
@@ -80,7 +98,12 @@ export function requireReason(reason: string | null | undefined, what: string): 
 }
 
 /** ORDER BY for a whitelisted sort column. */
-export function orderBy(columns: Record<string, SQL | unknown>, sort: string | undefined, dir: 'asc' | 'desc', fallback: string): SQL {
+export function orderBy(
+  columns: Record<string, SQL | unknown>,
+  sort: string | undefined,
+  dir: 'asc' | 'desc',
+  fallback: string,
+): SQL {
   const col = (sort && sort in columns ? columns[sort] : columns[fallback]) as SQL
   return dir === 'desc' ? sql`${col} desc` : sql`${col} asc`
 }

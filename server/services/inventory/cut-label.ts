@@ -7,7 +7,11 @@ import { formatDirection, getPointGroup, type Vec3 } from '../../../shared/engin
  */
 export function cutLabel(pointGroup: string, normal: Vec3): string {
   let isCubic = false
-  try { isCubic = getPointGroup(pointGroup).isCubic } catch { /* unknown group: treat as non-cubic */ }
+  try {
+    isCubic = getPointGroup(pointGroup).isCubic
+  } catch {
+    /* unknown group: treat as non-cubic */
+  }
   if (isCubic) return formatDirection(normal, true)
   const i = normal.findIndex((v, k) => v !== 0 && normal.every((w, j) => j === k || w === 0))
   return i >= 0 ? `${'XYZ'[i]}-cut` : formatDirection(normal)

@@ -1,4 +1,11 @@
-import { describeDMatrixEqualities, flatIndex, formDMatrix, getPointGroup, solveTensorForm, type SymbolicEntry } from '../../../shared/engine'
+import {
+  describeDMatrixEqualities,
+  flatIndex,
+  formDMatrix,
+  getPointGroup,
+  solveTensorForm,
+  type SymbolicEntry,
+} from '../../../shared/engine'
 import type { Coefficient, MaterialDetail } from '../../../shared/records'
 import { BadRequestError } from '../../errors'
 
@@ -10,8 +17,15 @@ import { BadRequestError } from '../../errors'
 /** Axis conventions of the standard settings (see shared/engine/data/generators.ts). */
 function settingOf(symbol: string, system: string): string {
   const special: Record<string, string> = {
-    '2': 'diad ∥ y', m: 'mirror ⟂ y', '2/m': 'diad ∥ y, mirror ⟂ y', mm2: 'diad ∥ z',
-    '32': 'diad ∥ x', '-3m': 'diad ∥ x', '3m': 'mirror ⟂ x', '-6m2': 'mirror ⟂ x', '-42m': 'diad ∥ x, mirrors diagonal',
+    '2': 'diad ∥ y',
+    m: 'mirror ⟂ y',
+    '2/m': 'diad ∥ y, mirror ⟂ y',
+    mm2: 'diad ∥ z',
+    '32': 'diad ∥ x',
+    '-3m': 'diad ∥ x',
+    '3m': 'mirror ⟂ x',
+    '-6m2': 'mirror ⟂ x',
+    '-42m': 'diad ∥ x, mirrors diagonal',
   }
   if (special[symbol]) return special[symbol]
   if (system === 'cubic') return 'x ∥ [100], y ∥ [010], z ∥ [001]'
@@ -22,11 +36,13 @@ function settingOf(symbol: string, system: string): string {
 
 function formatEntry(entry: SymbolicEntry): string {
   if (entry.length === 0) return '0'
-  return entry.map((e, k) => {
-    const sign = e.coefficient < 0 ? (k === 0 ? '−' : ' − ') : k === 0 ? '' : ' + '
-    const a = Math.abs(e.coefficient)
-    return `${sign}${a === 1 ? '' : `${Number(a.toFixed(6))}·`}${e.parameter}`
-  }).join('')
+  return entry
+    .map((e, k) => {
+      const sign = e.coefficient < 0 ? (k === 0 ? '−' : ' − ') : k === 0 ? '' : ' + '
+      const a = Math.abs(e.coefficient)
+      return `${sign}${a === 1 ? '' : `${Number(a.toFixed(6))}·`}${e.parameter}`
+    })
+    .join('')
 }
 
 /** The d-matrix form shown beside a material's stored numbers. */
@@ -44,9 +60,11 @@ export function describeDMatrix(pointGroup: string): MaterialDetail['dMatrix'] {
 /** Single-parameter entries of the d-matrix: component name → { parameter, coefficient }. */
 function allowedComponents(pointGroup: string): Map<string, SymbolicEntry> {
   const map = new Map<string, SymbolicEntry>()
-  formDMatrix(solveTensorForm(pointGroup, 2)).forEach((row, i) => row.forEach((entry, l) => {
-    if (entry.length) map.set(`d${i + 1}${l + 1}`, entry)
-  }))
+  formDMatrix(solveTensorForm(pointGroup, 2)).forEach((row, i) =>
+    row.forEach((entry, l) => {
+      if (entry.length) map.set(`d${i + 1}${l + 1}`, entry)
+    }),
+  )
   return map
 }
 
@@ -56,7 +74,8 @@ function chi3Allowed(pointGroup: string, component: string): boolean {
   return form.basis.some((v) => v[p] !== 0)
 }
 
-const fail = (i: number, field: string, message: string) => new BadRequestError(message, { [`coefficients.${i}.${field}`]: [message] })
+const fail = (i: number, field: string, message: string) =>
+  new BadRequestError(message, { [`coefficients.${i}.${field}`]: [message] })
 
 /**
  * Refuse coefficients the point group forbids, and (a demanding user's check) two components the
@@ -73,15 +92,23 @@ export function checkCoefficients(pointGroup: string, coefficients: readonly Coe
     if (c.order === 3 && isD) throw fail(i, 'component', 'A χ(3) coefficient is a Cartesian component such as xxxx')
     if (c.order === 3) {
       if (!chi3Allowed(group.symbol, c.component))
-        throw fail(i, 'component', `Class ${group.symbol} (${group.schoenflies}) has no χ(3) component ${c.component} (it vanishes by symmetry)`)
+        throw fail(
+          i,
+          'component',
+          `Class ${group.symbol} (${group.schoenflies}) has no χ(3) component ${c.component} (it vanishes by symmetry)`,
+        )
       return
     }
     const entry = allowed.get(c.component)
     if (!entry) {
       const list = [...allowed.keys()]
-      throw fail(i, 'component', list.length === 0
-        ? `Class ${group.symbol} (${group.schoenflies}) is centrosymmetric: every bulk χ(2) component vanishes, so ${c.component} cannot be stored (surface χ(2) belongs in the notes)`
-        : `Class ${group.symbol} (${group.schoenflies}) forbids ${c.component}; allowed components: ${list.join(', ')}`)
+      throw fail(
+        i,
+        'component',
+        list.length === 0
+          ? `Class ${group.symbol} (${group.schoenflies}) is centrosymmetric: every bulk χ(2) component vanishes, so ${c.component} cannot be stored (surface χ(2) belongs in the notes)`
+          : `Class ${group.symbol} (${group.schoenflies}) forbids ${c.component}; allowed components: ${list.join(', ')}`,
+      )
     }
     if (entry.length !== 1) return
     const { parameter, coefficient } = entry[0]
@@ -90,10 +117,19 @@ export function checkCoefficients(pointGroup: string, coefficients: readonly Coe
     if (prev && prev.component !== c.component) {
       const a = prev.value / prev.coefficient
       const b = c.valuePmV / coefficient
-      const same = Math.abs(a - b) <= 1e-6 * Math.max(1, Math.abs(a)) || Math.abs(Math.abs(a) - Math.abs(b)) <= 1e-6 * Math.max(1, Math.abs(a))
+      const same =
+        Math.abs(a - b) <= 1e-6 * Math.max(1, Math.abs(a)) ||
+        Math.abs(Math.abs(a) - Math.abs(b)) <= 1e-6 * Math.max(1, Math.abs(a))
       if (!same) {
-        const eq = describeDMatrixEqualities(solveTensorForm(group.symbol, 2)).find((s) => s.includes(c.component) && s.includes(prev.component)) ?? `${prev.component} and ${c.component} are tied`
-        throw fail(i, 'valuePmV', `In class ${group.symbol} the form says ${eq}, so ${c.component} = ${c.valuePmV} pm/V contradicts ${prev.component} = ${prev.value} pm/V at ${c.wavelengthNm} nm`)
+        const eq =
+          describeDMatrixEqualities(solveTensorForm(group.symbol, 2)).find(
+            (s) => s.includes(c.component) && s.includes(prev.component),
+          ) ?? `${prev.component} and ${c.component} are tied`
+        throw fail(
+          i,
+          'valuePmV',
+          `In class ${group.symbol} the form says ${eq}, so ${c.component} = ${c.valuePmV} pm/V contradicts ${prev.component} = ${prev.value} pm/V at ${c.wavelengthNm} nm`,
+        )
       }
     } else if (!prev) seen.set(key, { i, component: c.component, value: c.valuePmV, coefficient })
   })

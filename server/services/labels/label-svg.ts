@@ -1,5 +1,12 @@
 import QRCode from 'qrcode'
-import { DOT_MM, MIN_MODULE_DOTS, QUIET_ZONE_MODULES, type LabelLayout, type LabelTemplate, type SheetLayout } from '../../../labels/templates'
+import {
+  DOT_MM,
+  MIN_MODULE_DOTS,
+  QUIET_ZONE_MODULES,
+  type LabelLayout,
+  type LabelTemplate,
+  type SheetLayout,
+} from '../../../labels/templates'
 
 /**
  * SVG output of the label templates (labels/templates.ts). One SVG per label with its physical
@@ -14,12 +21,19 @@ const FONT = "'Roboto Condensed', 'Arial Narrow', 'Liberation Sans Narrow', Aria
 const CHAR_EM = 0.5
 const MARGIN_MM = 1
 
-export interface QrSymbol { version: number; modules: number; moduleMm: number; symbolMm: number; path: string }
+export interface QrSymbol {
+  version: number
+  modules: number
+  moduleMm: number
+  symbolMm: number
+  path: string
+}
 
 export class LabelTooSmallError extends Error {}
 
 const mm = (v: number) => Number(v.toFixed(4)).toString()
-const escapeXml = (s: string) => s.replace(/[<>&'"]/g, (c) => ({ '<': '&lt;', '>': '&gt;', '&': '&amp;', "'": '&apos;', '"': '&quot;' })[c]!)
+const escapeXml = (s: string) =>
+  s.replace(/[<>&'"]/g, (c) => ({ '<': '&lt;', '>': '&gt;', '&': '&amp;', "'": '&apos;', '"': '&quot;' })[c]!)
 
 /**
  * The QR symbol for `payload` fitted into a square of `sizeMm` (quiet zone included), with the
@@ -32,10 +46,13 @@ export function qrSymbol(payload: string, ecc: LabelTemplate['ecc'], sizeMm: num
   const total = n + 2 * QUIET_ZONE_MODULES
   const dots = Math.floor(sizeMm / total / DOT_MM + 1e-9)
   if (dots < MIN_MODULE_DOTS) {
-    throw new LabelTooSmallError(`${payload} needs a ${n}×${n} QR symbol; on this label its modules would be under ${MIN_MODULE_DOTS} printer dots (0.254 mm). Use a larger template.`)
+    throw new LabelTooSmallError(
+      `${payload} needs a ${n}×${n} QR symbol; on this label its modules would be under ${MIN_MODULE_DOTS} printer dots (0.254 mm). Use a larger template.`,
+    )
   }
   const m = dots * DOT_MM
-  const ox = QUIET_ZONE_MODULES * m, oy = QUIET_ZONE_MODULES * m
+  const ox = QUIET_ZONE_MODULES * m,
+    oy = QUIET_ZONE_MODULES * m
   let path = ''
   for (let r = 0; r < n; r++) {
     for (let c = 0; c < n; c++) {
@@ -57,14 +74,24 @@ function textLine(text: string, x: number, y: number, fontMm: number, maxWidthMm
 
 /** Cut a detail line to what fits (detail text is squeezed at most ~15 %, then shortened). */
 function clip(text: string, fontMm: number, widthMm: number): string {
-  const max = Math.max(4, Math.floor((widthMm / (CHAR_EM * 0.9 * fontMm))))
+  const max = Math.max(4, Math.floor(widthMm / (CHAR_EM * 0.9 * fontMm)))
   return text.length <= max ? text : `${text.slice(0, max - 1).trimEnd()}…`
 }
 
-export interface LabelContent { code: string; payload: string; details: string[] }
+export interface LabelContent {
+  code: string
+  payload: string
+  details: string[]
+}
 
 /** The elements of one label with its top-left corner at (x, y); also the QR facts. */
-export function labelBody(layout: LabelLayout, ecc: LabelTemplate['ecc'], content: LabelContent, x = 0, y = 0): { body: string; qr: QrSymbol } {
+export function labelBody(
+  layout: LabelLayout,
+  ecc: LabelTemplate['ecc'],
+  content: LabelContent,
+  x = 0,
+  y = 0,
+): { body: string; qr: QrSymbol } {
   const qrBox = Math.min(layout.qrSizeMm, layout.heightMm)
   const qr = qrSymbol(content.payload, ecc, qrBox)
   const inset = (layout.heightMm - qr.symbolMm) / 2
@@ -79,10 +106,11 @@ export function labelBody(layout: LabelLayout, ecc: LabelTemplate['ecc'], conten
     baseline += layout.detailFontMm * lineGap
     lines.push(textLine(clip(d, layout.detailFontMm, textWidth), tx, baseline, layout.detailFontMm, textWidth, 400))
   }
-  const body = `<g><title>${escapeXml(content.code)}</title>`
-    + `<rect x="${mm(x)}" y="${mm(y)}" width="${mm(layout.widthMm)}" height="${mm(layout.heightMm)}" fill="#fff"/>`
-    + `<path transform="translate(${mm(x + inset)} ${mm(y + inset)})" d="${qr.path}" fill="#000" shape-rendering="crispEdges"/>`
-    + `<g font-family="${escapeXml(FONT)}" fill="#000">${lines.join('')}</g></g>`
+  const body =
+    `<g><title>${escapeXml(content.code)}</title>` +
+    `<rect x="${mm(x)}" y="${mm(y)}" width="${mm(layout.widthMm)}" height="${mm(layout.heightMm)}" fill="#fff"/>` +
+    `<path transform="translate(${mm(x + inset)} ${mm(y + inset)})" d="${qr.path}" fill="#000" shape-rendering="crispEdges"/>` +
+    `<g font-family="${escapeXml(FONT)}" fill="#000">${lines.join('')}</g></g>`
   return { body, qr }
 }
 
@@ -90,13 +118,23 @@ const svgOpen = (w: number, h: number) =>
   `<svg xmlns="http://www.w3.org/2000/svg" width="${mm(w)}mm" height="${mm(h)}mm" viewBox="0 0 ${mm(w)} ${mm(h)}">`
 
 /** One label as a standalone SVG at its physical size. */
-export function labelSvg(layout: LabelLayout, ecc: LabelTemplate['ecc'], content: LabelContent): { svg: string; qr: QrSymbol } {
+export function labelSvg(
+  layout: LabelLayout,
+  ecc: LabelTemplate['ecc'],
+  content: LabelContent,
+): { svg: string; qr: QrSymbol } {
   const { body, qr } = labelBody(layout, ecc, content)
   return { svg: `${svgOpen(layout.widthMm, layout.heightMm)}${body}</svg>`, qr }
 }
 
 /** Sheet pages: labels placed in the grid row by row; `skip` leaves the first cells empty. */
-export function sheetSvgs(sheet: SheetLayout, layout: LabelLayout, ecc: LabelTemplate['ecc'], contents: LabelContent[], skip = 0): string[] {
+export function sheetSvgs(
+  sheet: SheetLayout,
+  layout: LabelLayout,
+  ecc: LabelTemplate['ecc'],
+  contents: LabelContent[],
+  skip = 0,
+): string[] {
   const perPage = sheet.columns * sheet.rows
   const cells: (LabelContent | null)[] = [...Array<null>(skip).fill(null), ...contents]
   const pages: string[] = []

@@ -27,7 +27,12 @@ export function detailLines(r: ResolvedCode): string[] {
   if (r.kind === 'chip') return [`wafer W-${r.code.split('-')[1]}`, ...parts]
   if (r.kind === 'array') return [...parts, `chip C-${r.code.split('-').slice(1, 3).join('-')}`]
   // A location's path "Room › Cabinet › Box": the innermost place first, so it survives clipping.
-  if (r.kind === 'location') return parts.join(' · ').split(' › ').reverse().map((p, i) => (i ? `in ${p}` : p))
+  if (r.kind === 'location')
+    return parts
+      .join(' · ')
+      .split(' › ')
+      .reverse()
+      .map((p, i) => (i ? `in ${p}` : p))
   return parts
 }
 
@@ -37,10 +42,14 @@ export function detailLines(r: ResolvedCode): string[] {
  */
 async function resolveAll(db: Db, codes: string[]): Promise<Map<string, ResolvedCode>> {
   const unique = [...new Set(codes)]
-  const found = await Promise.all(unique.map((c) => resolveCode(db, c).catch((err) => {
-    if (err instanceof NotFoundError) return null
-    throw err
-  })))
+  const found = await Promise.all(
+    unique.map((c) =>
+      resolveCode(db, c).catch((err) => {
+        if (err instanceof NotFoundError) return null
+        throw err
+      }),
+    ),
+  )
   const unknown = unique.filter((_, i) => !found[i])
   if (unknown.length) {
     throw fieldError('codes', `No record has the code${unknown.length > 1 ? 's' : ''} ${unknown.join(', ')}`)
@@ -59,7 +68,13 @@ export async function renderLabels(db: Db, publicUrl: string, input: RenderLabel
   try {
     const labels = contents.map((c) => {
       const { svg, qr } = labelSvg(t.label, t.ecc, c)
-      return { code: c.code, payload: c.payload, symbol: `${qr.version}-${t.ecc}`, moduleMm: Number(qr.moduleMm.toFixed(4)), svg }
+      return {
+        code: c.code,
+        payload: c.payload,
+        symbol: `${qr.version}-${t.ecc}`,
+        moduleMm: Number(qr.moduleMm.toFixed(4)),
+        svg,
+      }
     })
     const sheets = t.sheet ? sheetSvgs(t.sheet, t.label, t.ecc, contents, input.skip) : []
     return { template: t.id, labels, sheets }
@@ -75,9 +90,15 @@ export async function recordLabelJob(db: Db, actor: User, input: LabelJobInput):
   const records = await resolveAll(db, input.codes)
   const codes = input.codes.map((c) => records.get(c)!.code)
   const id = await db.transaction(async (tx) => {
-    const [{ id: jobId }] = await tx.insert(labelJobs).values({ template: input.template, codes, createdBy: actor.id }).$returningId()
+    const [{ id: jobId }] = await tx
+      .insert(labelJobs)
+      .values({ template: input.template, codes, createdBy: actor.id })
+      .$returningId()
     await writeAudit(tx, {
-      userId: actor.id, entity: 'label_job', entityId: jobId, action: 'create',
+      userId: actor.id,
+      entity: 'label_job',
+      entityId: jobId,
+      action: 'create',
       changes: { template: { from: null, to: input.template }, codes: { from: null, to: codes } },
       reason: `printed ${codes.length} label${codes.length > 1 ? 's' : ''}`,
     })
@@ -90,9 +111,18 @@ export async function recordLabelJob(db: Db, actor: User, input: LabelJobInput):
 
 /** Recent print jobs, newest first (or the one job `onlyId`). */
 export async function listLabelJobs(db: Db, limit = 20, onlyId?: number): Promise<LabelJob[]> {
-  const rows = await db.select({ j: labelJobs, name: users.name }).from(labelJobs)
+  const rows = await db
+    .select({ j: labelJobs, name: users.name })
+    .from(labelJobs)
     .innerJoin(users, eq(users.id, labelJobs.createdBy))
     .where(onlyId ? eq(labelJobs.id, onlyId) : undefined)
-    .orderBy(desc(labelJobs.id)).limit(limit)
-  return rows.map(({ j, name }) => ({ id: j.id, template: j.template, codes: j.codes, createdBy: { id: j.createdBy, name }, createdAt: iso(j.createdAt)! }))
+    .orderBy(desc(labelJobs.id))
+    .limit(limit)
+  return rows.map(({ j, name }) => ({
+    id: j.id,
+    template: j.template,
+    codes: j.codes,
+    createdBy: { id: j.createdBy, name },
+    createdAt: iso(j.createdAt)!,
+  }))
 }

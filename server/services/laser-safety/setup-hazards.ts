@@ -17,7 +17,9 @@ export function hazardFields(r: Row): Record<HazardField, unknown> {
 
 /** SHA-256 (hex) of the hazard fields in a canonical JSON form. */
 export function hazardHash(r: Row): string {
-  return createHash('sha256').update(JSON.stringify(hazardFields(r))).digest('hex')
+  return createHash('sha256')
+    .update(JSON.stringify(hazardFields(r)))
+    .digest('hex')
 }
 
 /** Names of the hazard fields that differ between a row and a change set. */
@@ -28,13 +30,24 @@ export function changedHazardFields(before: Row, next: Record<string, unknown>):
 
 export function hazardInput(r: Row): HazardInput {
   return {
-    sourceType: r.sourceType, wavelengthsNm: r.wavelengthsNm, pulseDurationFs: r.pulseDurationFs, repRateHz: r.repRateHz,
-    maxAvgPowerMw: r.maxAvgPowerMw, pulseEnergyUj: r.pulseEnergyUj, beamDiameterMm: r.beamDiameterMm, divergenceMrad: r.divergenceMrad,
-    harmonicOrders: r.harmonicOrders ?? [], laserClass: r.laserClass ?? null, eyewear: r.eyewear ?? [],
+    sourceType: r.sourceType,
+    wavelengthsNm: r.wavelengthsNm,
+    pulseDurationFs: r.pulseDurationFs,
+    repRateHz: r.repRateHz,
+    maxAvgPowerMw: r.maxAvgPowerMw,
+    pulseEnergyUj: r.pulseEnergyUj,
+    beamDiameterMm: r.beamDiameterMm,
+    divergenceMrad: r.divergenceMrad,
+    harmonicOrders: r.harmonicOrders ?? [],
+    laserClass: r.laserClass ?? null,
+    eyewear: r.eyewear ?? [],
   }
 }
 
-/** Computed figures (pulse energy, peak power, intensity, fluence, MPE, OD, EN 207/208, class hint, eyewear cover) for an evaluation time. */
+/**
+ * Computed figures (pulse energy, peak power, intensity, fluence, MPE, OD, EN 207/208, class hint, eyewear cover) for
+ * an evaluation time.
+ */
 export function figuresFor(r: Row, opts: FigureOptions = {}): SetupFigures {
   return setupFigures(hazardInput(r), opts)
 }

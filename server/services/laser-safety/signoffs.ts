@@ -15,7 +15,16 @@ import { BadRequestError, ConflictError, ForbiddenError, NotFoundError, fieldErr
  * the hazard fields voids it (laser-setups.ts). Sessions need a valid approval (sessions.ts).
  */
 type SetupRow = typeof laserSetups.$inferSelect
-export interface DecisionRow { id: number; setupId: number; decision: 'approved' | 'rejected' | 'revoked' | 'voided'; by: { id: number; name: string }; at: Date; expiresOn: string | null; note: string | null; hazardHash: string }
+export interface DecisionRow {
+  id: number
+  setupId: number
+  decision: 'approved' | 'rejected' | 'revoked' | 'voided'
+  by: { id: number; name: string }
+  at: Date
+  expiresOn: string | null
+  note: string | null
+  hazardHash: string
+}
 
 export const todayUtc = (d = new Date()) => d.toISOString().slice(0, 10)
 export const addDays = (day: string, n: number) => todayUtc(new Date(Date.parse(day) + n * 86400_000))
@@ -23,8 +32,12 @@ export const addDays = (day: string, n: number) => todayUtc(new Date(Date.parse(
 export async function loadDecisions(db: Pick<Db, 'select'>, setupIds: number[]): Promise<Map<number, DecisionRow[]>> {
   const map = new Map<number, DecisionRow[]>(setupIds.map((id) => [id, []]))
   if (!setupIds.length) return map
-  const rows = await db.select({ s: so, by: { id: users.id, name: users.name } }).from(so).innerJoin(users, eq(users.id, so.byId))
-    .where(inArray(so.setupId, setupIds)).orderBy(asc(so.id))
+  const rows = await db
+    .select({ s: so, by: { id: users.id, name: users.name } })
+    .from(so)
+    .innerJoin(users, eq(users.id, so.byId))
+    .where(inArray(so.setupId, setupIds))
+    .orderBy(asc(so.id))
   for (const { s, by } of rows) map.get(s.setupId)!.push({ ...s, by })
   return map
 }
@@ -34,18 +47,33 @@ export async function loadDecisions(db: Pick<Db, 'select'>, setupIds: number[]):
  * submitted: a draft until submitted; a rejected or revoked setup goes back to its author
  * (`submittedAt` is cleared) and waits again once resubmitted.
  */
-export function signoffSummary(history: DecisionRow[], currentHash: string, submittedAt: Date | null, today = todayUtc()): SignoffSummary {
+export function signoffSummary(
+  history: DecisionRow[],
+  currentHash: string,
+  submittedAt: Date | null,
+  today = todayUtc(),
+): SignoffSummary {
   const last = history.at(-1)
-  if (!last) return { state: submittedAt ? 'waiting' : 'draft', expiresOn: null, by: null, at: null, note: null, isValid: false }
+  if (!last)
+    return { state: submittedAt ? 'waiting' : 'draft', expiresOn: null, by: null, at: null, note: null, isValid: false }
   let state: SignoffState = last.decision
   if ((state === 'rejected' || state === 'revoked') && submittedAt) state = 'waiting'
   else if (state === 'approved' && last.hazardHash !== currentHash) state = 'voided'
   else if (state === 'approved' && (last.expiresOn ?? '') < today) state = 'expired'
-  return { state, expiresOn: last.expiresOn, by: last.by, at: last.at.toISOString(), note: last.note, isValid: state === 'approved' }
+  return {
+    state,
+    expiresOn: last.expiresOn,
+    by: last.by,
+    at: last.at.toISOString(),
+    note: last.note,
+    isValid: state === 'approved',
+  }
 }
 
 export const historyOut = (h: DecisionRow[]) =>
-  h.map((d) => ({ decision: d.decision, by: d.by, at: d.at.toISOString(), expiresOn: d.expiresOn, note: d.note })).reverse()
+  h
+    .map((d) => ({ decision: d.decision, by: d.by, at: d.at.toISOString(), expiresOn: d.expiresOn, note: d.note }))
+    .reverse()
 
 async function lockSetup(tx: DbOrTx, id: number): Promise<SetupRow> {
   const [r] = await tx.select().from(laserSetups).where(eq(laserSetups.id, id)).for('update')
@@ -59,15 +87,24 @@ async function lockSetup(tx: DbOrTx, id: number): Promise<SetupRow> {
  * trail: the rows after the latest approve/reject/revoke row whose changes touch a hazard field.
  */
 export async function hazardEditorsSinceDecision(db: Pick<Db, 'select'>, setupId: number): Promise<number[]> {
-  const rows = await db.select({ id: auditLog.id, userId: auditLog.userId, action: auditLog.action, changes: auditLog.changes }).from(auditLog)
-    .where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, setupId))).orderBy(asc(auditLog.id))
+  const rows = await db
+    .select({ id: auditLog.id, userId: auditLog.userId, action: auditLog.action, changes: auditLog.changes })
+    .from(auditLog)
+    .where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, setupId)))
+    .orderBy(asc(auditLog.id))
   let lastDecision = -1
-  rows.forEach((r, i) => { if (r.action === 'signoff' || r.action === 'revoke') lastDecision = i })
+  rows.forEach((r, i) => {
+    if (r.action === 'signoff' || r.action === 'revoke') lastDecision = i
+  })
   const hazard = new Set<string>(HAZARD_FIELDS)
   const editors = new Set<number>()
   for (const r of rows.slice(lastDecision + 1)) {
-    const changes = typeof r.changes === 'string' ? JSON.parse(r.changes) as Record<string, unknown> : r.changes
-    if (r.userId && (r.action === 'create' || (r.action === 'update' && Object.keys(changes).some((k) => hazard.has(k))))) editors.add(r.userId)
+    const changes = typeof r.changes === 'string' ? (JSON.parse(r.changes) as Record<string, unknown>) : r.changes
+    if (
+      r.userId &&
+      (r.action === 'create' || (r.action === 'update' && Object.keys(changes).some((k) => hazard.has(k))))
+    )
+      editors.add(r.userId)
   }
   return [...editors]
 }
@@ -79,83 +116,152 @@ const SUBMITTED: SignoffState[] = ['waiting', 'voided', 'approved', 'expired']
  * its author and never someone who changed its hazard fields since its last decision (the person who
  * describes a hazard never approves it). When nobody in the lab is left to approve, says how to fix it.
  */
-export async function approvalCheck(db: Pick<Db, 'select'>, actor: Pick<User, 'id' | 'roles'>, setup: SetupRow, state: SignoffState): Promise<ApprovalCheck> {
+export async function approvalCheck(
+  db: Pick<Db, 'select'>,
+  actor: Pick<User, 'id' | 'roles'>,
+  setup: SetupRow,
+  state: SignoffState,
+): Promise<ApprovalCheck> {
   const editors = await hazardEditorsSinceDecision(db, setup.id)
   const barred = new Set([...editors, ...(setup.submittedById ? [setup.submittedById] : [])])
-  const officers = await db.select({ id: users.id }).from(users)
+  const officers = await db
+    .select({ id: users.id })
+    .from(users)
     .where(and(eq(users.active, true), sql`JSON_CONTAINS(${users.roles}, '"safety_officer"')`))
   const eligibleOfficers = officers.filter((o) => !barred.has(o.id)).length
-  const nobodyElse = eligibleOfficers === 0
-    ? ' The lab has no other safety officer who could: an administrator adds a second safety officer under People (Invite, role Safety officer).'
-    : ''
+  const nobodyElse =
+    eligibleOfficers === 0
+      ? ' The lab has no other safety officer who could: an administrator adds a second safety officer under People (Invite, role Safety officer).'
+      : ''
   let reason: string | null = null
   if (!actor.roles.includes('safety_officer')) reason = 'Only a safety officer signs off laser setups.'
-  else if (!SUBMITTED.includes(state)) reason = `This setup is ${state === 'draft' ? 'a draft' : state}: its author submits it for sign-off first.`
-  else if (setup.submittedById === actor.id) reason = `You described this setup, so another safety officer must approve it.${nobodyElse}`
-  else if (editors.includes(actor.id)) reason = `You changed its hazard fields since its last decision, so another safety officer must approve it.${nobodyElse}`
+  else if (!SUBMITTED.includes(state))
+    reason = `This setup is ${state === 'draft' ? 'a draft' : state}: its author submits it for sign-off first.`
+  else if (setup.submittedById === actor.id)
+    reason = `You described this setup, so another safety officer must approve it.${nobodyElse}`
+  else if (editors.includes(actor.id))
+    reason = `You changed its hazard fields since its last decision, so another safety officer must approve it.${nobodyElse}`
   return { canApprove: reason === null, reason, eligibleOfficers }
 }
 
 type Decision = 'approved' | 'rejected' | 'revoked'
-async function decide(db: Db, actor: User, id: number, decision: Decision, note: string | null, expiresOn: string | null): Promise<void> {
+async function decide(
+  db: Db,
+  actor: User,
+  id: number,
+  decision: Decision,
+  note: string | null,
+  expiresOn: string | null,
+): Promise<void> {
   await db.transaction(async (tx) => {
     const setup = await lockSetup(tx, id)
     const hash = hazardHash(setup)
     const current = signoffSummary((await loadDecisions(tx, [id])).get(id)!, hash, setup.submittedAt)
-    if (!actor.roles.includes('safety_officer')) throw new ForbiddenError('Only a safety officer signs off laser setups.')
+    if (!actor.roles.includes('safety_officer'))
+      throw new ForbiddenError('Only a safety officer signs off laser setups.')
     if (decision === 'approved') {
       const check = await approvalCheck(tx, actor, setup, current.state)
-      if (!check.canApprove) throw (SUBMITTED.includes(current.state) ? new ForbiddenError(check.reason!) : new ConflictError(check.reason!))
+      if (!check.canApprove)
+        throw SUBMITTED.includes(current.state) ? new ForbiddenError(check.reason!) : new ConflictError(check.reason!)
     }
     if (decision === 'revoked' && current.state !== 'approved' && current.state !== 'expired')
       throw new ConflictError(`Only a signed-off setup can be revoked; this one is ${current.state}.`)
     if (decision === 'rejected' && current.state !== 'waiting' && current.state !== 'voided')
-      throw new ConflictError(current.state === 'approved'
-        ? 'This setup is signed off: revoke the sign-off instead of rejecting it.'
-        : `Only a setup waiting for sign-off can be rejected; this one is ${current.state === 'draft' ? 'a draft' : current.state}.`)
-    const [{ id: rowId }] = await tx.insert(so).values({ setupId: id, decision, byId: actor.id, expiresOn, note, hazardHash: hash }).$returningId()
+      throw new ConflictError(
+        current.state === 'approved'
+          ? 'This setup is signed off: revoke the sign-off instead of rejecting it.'
+          : `Only a setup waiting for sign-off can be rejected; this one is ${current.state === 'draft' ? 'a draft' : current.state}.`,
+      )
+    const [{ id: rowId }] = await tx
+      .insert(so)
+      .values({ setupId: id, decision, byId: actor.id, expiresOn, note, hazardHash: hash })
+      .$returningId()
     // A rejected or revoked setup goes back to its author, who changes it and submits it again.
     const backToAuthor = decision !== 'approved'
     if (backToAuthor) await tx.update(laserSetups).set({ submittedAt: null }).where(eq(laserSetups.id, id))
     await writeAudit(tx, {
-      userId: actor.id, entity: 'laser_setup', entityId: id, action: decision === 'revoked' ? 'revoke' : 'signoff',
+      userId: actor.id,
+      entity: 'laser_setup',
+      entityId: id,
+      action: decision === 'revoked' ? 'revoke' : 'signoff',
       changes: {
-        signoff: { from: current.state, to: decision }, ...(expiresOn ? { expiresOn: { from: current.expiresOn, to: expiresOn } } : {}),
-        signoffId: { from: null, to: rowId }, hazardHash: { from: null, to: hash },
+        signoff: { from: current.state, to: decision },
+        ...(expiresOn ? { expiresOn: { from: current.expiresOn, to: expiresOn } } : {}),
+        signoffId: { from: null, to: rowId },
+        hazardHash: { from: null, to: hash },
         ...(backToAuthor ? { submittedAt: { from: setup.submittedAt?.toISOString() ?? null, to: null } } : {}),
       },
       reason: note,
     })
     if (setup.submittedById)
-      await noticeSignoffDecision(tx, { setupId: id, code: setup.code, name: setup.name, actorName: actor.name, decision, note, expiresOn, submitterId: setup.submittedById })
+      await noticeSignoffDecision(tx, {
+        setupId: id,
+        code: setup.code,
+        name: setup.name,
+        actorName: actor.name,
+        decision,
+        note,
+        expiresOn,
+        submitterId: setup.submittedById,
+      })
   })
 }
 
-export async function approveSetup(db: Db, actor: User, id: number, input: { expiresOn: string; note: string | null }): Promise<void> {
+export async function approveSetup(
+  db: Db,
+  actor: User,
+  id: number,
+  input: { expiresOn: string; note: string | null },
+): Promise<void> {
   const today = todayUtc()
   if (input.expiresOn <= today) throw fieldError('expiresOn', 'The expiry date must be after today')
-  if (input.expiresOn > addDays(today, SIGNOFF_MAX_DAYS)) throw fieldError('expiresOn', `At most ${SIGNOFF_MAX_DAYS / 365} years ahead (${addDays(today, SIGNOFF_MAX_DAYS)})`)
+  if (input.expiresOn > addDays(today, SIGNOFF_MAX_DAYS))
+    throw fieldError('expiresOn', `At most ${SIGNOFF_MAX_DAYS / 365} years ahead (${addDays(today, SIGNOFF_MAX_DAYS)})`)
   await decide(db, actor, id, 'approved', input.note, input.expiresOn)
 }
-export const rejectSetup = (db: Db, actor: User, id: number, note: string) => decide(db, actor, id, 'rejected', note, null)
-export const revokeSetup = (db: Db, actor: User, id: number, note: string) => decide(db, actor, id, 'revoked', note, null)
+export const rejectSetup = (db: Db, actor: User, id: number, note: string) =>
+  decide(db, actor, id, 'rejected', note, null)
+export const revokeSetup = (db: Db, actor: User, id: number, note: string) =>
+  decide(db, actor, id, 'revoked', note, null)
 
 /** Inside an update transaction: record that a hazard change voided the approval. */
-export async function voidSignoff(tx: DbOrTx, actor: User, setup: SetupRow, newHash: string, reason: string): Promise<void> {
-  await tx.insert(so).values({ setupId: setup.id, decision: 'voided', byId: actor.id, expiresOn: null, note: reason, hazardHash: newHash })
+export async function voidSignoff(
+  tx: DbOrTx,
+  actor: User,
+  setup: SetupRow,
+  newHash: string,
+  reason: string,
+): Promise<void> {
+  await tx.insert(so).values({
+    setupId: setup.id,
+    decision: 'voided',
+    byId: actor.id,
+    expiresOn: null,
+    note: reason,
+    hazardHash: newHash,
+  })
 }
 
 /** Throws the `laserSetupId` field error unless sessions may be logged on the setup for `performedAt`. */
 export async function requireValidSignoff(tx: DbOrTx, setup: SetupRow, performedAt: Date): Promise<void> {
   const s = signoffSummary((await loadDecisions(tx, [setup.id])).get(setup.id)!, hazardHash(setup), setup.submittedAt)
   const ask = 'ask a safety officer'
-  const why = s.state === 'expired' ? `its sign-off expired on ${s.expiresOn}`
-    : s.state === 'approved' && s.expiresOn! < todayUtc(performedAt) ? `its sign-off expires on ${s.expiresOn}, before the session date`
-    : s.state === 'approved' ? null
-    : s.state === 'waiting' ? 'it is not signed off yet'
-    : s.state === 'draft' ? 'it is a draft, not yet submitted for sign-off'
-    : s.state === 'voided' ? 'its sign-off was voided by a change to its hazard fields'
-    : `its sign-off was ${s.state}`
-  if (why) throw new ConflictError(`${setup.code} cannot be used: ${why}. Sessions need a signed-off setup: ${ask}.`,
-    { laserSetupId: [`This setup is not signed off (${why}): ${ask}`] })
+  const why =
+    s.state === 'expired'
+      ? `its sign-off expired on ${s.expiresOn}`
+      : s.state === 'approved' && s.expiresOn! < todayUtc(performedAt)
+        ? `its sign-off expires on ${s.expiresOn}, before the session date`
+        : s.state === 'approved'
+          ? null
+          : s.state === 'waiting'
+            ? 'it is not signed off yet'
+            : s.state === 'draft'
+              ? 'it is a draft, not yet submitted for sign-off'
+              : s.state === 'voided'
+                ? 'its sign-off was voided by a change to its hazard fields'
+                : `its sign-off was ${s.state}`
+  if (why)
+    throw new ConflictError(`${setup.code} cannot be used: ${why}. Sessions need a signed-off setup: ${ask}.`, {
+      laserSetupId: [`This setup is not signed off (${why}): ${ask}`],
+    })
 }

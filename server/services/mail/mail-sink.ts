@@ -13,7 +13,11 @@ function addresses(a: AddressObject | AddressObject[] | undefined): string {
  * and tests send real mail through nodemailer without any outside service. Its packages are loaded
  * here, on first use, so a server that sends through a real SMTP relay never loads them.
  */
-export async function startMailSink(db: Db, port: number, log: Logger): Promise<{ port: number; close: () => Promise<void> }> {
+export async function startMailSink(
+  db: Db,
+  port: number,
+  log: Logger,
+): Promise<{ port: number; close: () => Promise<void> }> {
   const [{ SMTPServer }, { simpleParser }] = await Promise.all([import('smtp-server'), import('mailparser')])
   const server = new SMTPServer({
     authOptional: true,
@@ -32,7 +36,10 @@ export async function startMailSink(db: Db, port: number, log: Logger): Promise<
           })
           callback()
         })
-        .catch((err: Error) => { log.error({ err }, 'mail sink: storing a message failed'); callback(err) })
+        .catch((err: Error) => {
+          log.error({ err }, 'mail sink: storing a message failed')
+          callback(err)
+        })
     },
   })
   await new Promise<void>((resolve, reject) => {

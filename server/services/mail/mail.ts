@@ -7,11 +7,18 @@ import type { Db, DbOrTx } from '../../db/client'
 import type { MailMessage, MailSummary } from '../../../shared/types'
 import type { Logger } from '../../logger'
 
-export interface OutgoingMail { to: string; subject: string; text: string; html?: string }
+export interface OutgoingMail {
+  to: string
+  subject: string
+  text: string
+  html?: string
+}
 
 /** Queue a message. Call inside the user's transaction: the mail goes out only if the action commits. */
 export async function queueMail(tx: DbOrTx, mail: OutgoingMail): Promise<void> {
-  await tx.insert(mailQueue).values({ toAddress: mail.to, subject: mail.subject, textBody: mail.text, htmlBody: mail.html ?? null })
+  await tx
+    .insert(mailQueue)
+    .values({ toAddress: mail.to, subject: mail.subject, textBody: mail.text, htmlBody: mail.html ?? null })
 }
 
 /** Retry delays after a failed attempt (seconds); after the last one the message is marked failed. */
@@ -35,7 +42,8 @@ type QueuedMail = typeof mailQueue.$inferSelect
 type MailOutcome = { id: number; set: Partial<QueuedMail> }
 
 /** A Galera certification conflict or an InnoDB deadlock on the claim: another worker has the row. */
-const isConflict = (err: unknown) => [1213, 1205].includes(((err as { cause?: { errno?: number } }).cause ?? (err as { errno?: number }))?.errno ?? 0)
+const isConflict = (err: unknown) =>
+  [1213, 1205].includes(((err as { cause?: { errno?: number } }).cause ?? (err as { errno?: number }))?.errno ?? 0)
 
 /**
  * Sends queued mail in the background with retry. A mail server that is down never fails a user
@@ -61,7 +69,13 @@ export class MailWorker {
   /** Outcomes already decided (sent, or an attempt failed) whose row could not be written yet. */
   private unrecorded: MailOutcome[] = []
 
-  constructor(private db: Db, smtpUrl: string, private from: string, private log: Logger, private intervalMs = 1000) {
+  constructor(
+    private db: Db,
+    smtpUrl: string,
+    private from: string,
+    private log: Logger,
+    private intervalMs = 1000,
+  ) {
     this.transport = nodemailer.createTransport(withTimeouts(smtpUrl))
   }
 
@@ -79,8 +93,16 @@ export class MailWorker {
   /** Claim the row for this worker; false when another worker has it (or it is no longer queued). */
   private async claim(id: number): Promise<boolean> {
     try {
-      const [res] = await this.db.update(mailQueue).set({ claimedBy: this.workerId, claimedUntil: sql`NOW(3) + INTERVAL ${CLAIM_S} SECOND` })
-        .where(and(eq(mailQueue.id, id), eq(mailQueue.status, 'queued'), or(isNull(mailQueue.claimedUntil), lt(mailQueue.claimedUntil, sql`NOW(3)`))))
+      const [res] = await this.db
+        .update(mailQueue)
+        .set({ claimedBy: this.workerId, claimedUntil: sql`NOW(3) + INTERVAL ${CLAIM_S} SECOND` })
+        .where(
+          and(
+            eq(mailQueue.id, id),
+            eq(mailQueue.status, 'queued'),
+            or(isNull(mailQueue.claimedUntil), lt(mailQueue.claimedUntil, sql`NOW(3)`)),
+          ),
+        )
       // affectedRows counts matched rows (mysql2 connects with FOUND_ROWS): 1 = the claim is ours.
       return (res as { affectedRows: number }).affectedRows === 1
     } catch (err) {
@@ -91,13 +113,17 @@ export class MailWorker {
 
   /** Write an outcome on our own claim (the claim is released with it). */
   private async record(o: MailOutcome): Promise<void> {
-    await this.db.update(mailQueue).set({ ...o.set, claimedBy: null, claimedUntil: null })
+    await this.db
+      .update(mailQueue)
+      .set({ ...o.set, claimedBy: null, claimedUntil: null })
       .where(and(eq(mailQueue.id, o.id), eq(mailQueue.claimedBy, this.workerId)))
   }
 
   /** Record, or keep the outcome to record on a later pass when the database does not take it now. */
   private async recordOrKeep(o: MailOutcome): Promise<void> {
-    try { await this.record(o) } catch (err) {
+    try {
+      await this.record(o)
+    } catch (err) {
       this.log.warn({ err, mailId: o.id }, 'mail worker: outcome not recorded yet, trying again on the next pass')
       this.unrecorded.push(o)
     }
@@ -111,28 +137,54 @@ export class MailWorker {
     try {
       for (const o of this.unrecorded.splice(0)) await this.recordOrKeep(o)
       if (this.unrecorded.length) return 0 // the database still refuses: send nothing new meanwhile
-      const due = await this.db.select().from(mailQueue)
-        .where(and(eq(mailQueue.status, 'queued'), lte(mailQueue.nextAttemptAt, new Date()), or(isNull(mailQueue.claimedUntil), lt(mailQueue.claimedUntil, sql`NOW(3)`))))
-        .orderBy(asc(mailQueue.id)).limit(20)
+      const due = await this.db
+        .select()
+        .from(mailQueue)
+        .where(
+          and(
+            eq(mailQueue.status, 'queued'),
+            lte(mailQueue.nextAttemptAt, new Date()),
+            or(isNull(mailQueue.claimedUntil), lt(mailQueue.claimedUntil, sql`NOW(3)`)),
+          ),
+        )
+        .orderBy(asc(mailQueue.id))
+        .limit(20)
       for (const m of due) {
         if (!(await this.claim(m.id))) continue
         let outcome: MailOutcome
         try {
-          await this.transport.sendMail({ from: this.from, to: m.toAddress, subject: m.subject, text: m.textBody, html: m.htmlBody ?? undefined })
+          await this.transport.sendMail({
+            from: this.from,
+            to: m.toAddress,
+            subject: m.subject,
+            text: m.textBody,
+            html: m.htmlBody ?? undefined,
+          })
           // Once sent, the queue keeps the message with its one-time links masked (no usable token at rest).
-          outcome = { id: m.id, set: {
-            status: 'sent', sentAt: new Date(), attempts: m.attempts + 1, lastError: null,
-            textBody: maskOneTimeLinks(m.textBody), htmlBody: maskOneTimeLinks(m.htmlBody),
-          } }
+          outcome = {
+            id: m.id,
+            set: {
+              status: 'sent',
+              sentAt: new Date(),
+              attempts: m.attempts + 1,
+              lastError: null,
+              textBody: maskOneTimeLinks(m.textBody),
+              htmlBody: maskOneTimeLinks(m.htmlBody),
+            },
+          }
           sent++
         } catch (err) {
           const attempts = m.attempts + 1
           const delay = BACKOFF_S[attempts - 1]
-          outcome = { id: m.id, set: {
-            attempts, lastError: String((err as Error).message ?? err).slice(0, 500),
-            status: delay === undefined ? 'failed' : 'queued',
-            nextAttemptAt: new Date(Date.now() + (delay ?? 0) * 1000),
-          } }
+          outcome = {
+            id: m.id,
+            set: {
+              attempts,
+              lastError: String((err as Error).message ?? err).slice(0, 500),
+              status: delay === undefined ? 'failed' : 'queued',
+              nextAttemptAt: new Date(Date.now() + (delay ?? 0) * 1000),
+            },
+          }
         }
         await this.recordOrKeep(outcome)
       }
@@ -146,8 +198,17 @@ export class MailWorker {
 }
 
 export async function listReceived(db: Db, limit = 200): Promise<MailSummary[]> {
-  const rows = await db.select({ id: mailReceived.id, from: mailReceived.fromAddress, to: mailReceived.toAddress, subject: mailReceived.subject, receivedAt: mailReceived.receivedAt })
-    .from(mailReceived).orderBy(desc(mailReceived.id)).limit(limit)
+  const rows = await db
+    .select({
+      id: mailReceived.id,
+      from: mailReceived.fromAddress,
+      to: mailReceived.toAddress,
+      subject: mailReceived.subject,
+      receivedAt: mailReceived.receivedAt,
+    })
+    .from(mailReceived)
+    .orderBy(desc(mailReceived.id))
+    .limit(limit)
   return rows.map((r) => ({ ...r, receivedAt: r.receivedAt.toISOString() }))
 }
 
@@ -165,10 +226,30 @@ export function maskOneTimeLinks(s: string | null): string | null {
 export async function getReceived(db: Db, id: number): Promise<MailMessage | null> {
   const [r] = await db.select().from(mailReceived).where(eq(mailReceived.id, id))
   if (!r) return null
-  return { id: r.id, from: r.fromAddress, to: r.toAddress, subject: r.subject, receivedAt: r.receivedAt.toISOString(), text: maskOneTimeLinks(r.textBody), html: maskOneTimeLinks(r.htmlBody) }
+  return {
+    id: r.id,
+    from: r.fromAddress,
+    to: r.toAddress,
+    subject: r.subject,
+    receivedAt: r.receivedAt.toISOString(),
+    text: maskOneTimeLinks(r.textBody),
+    html: maskOneTimeLinks(r.htmlBody),
+  }
 }
 
 export async function listQueue(db: Db, limit = 200) {
-  return db.select({ id: mailQueue.id, to: mailQueue.toAddress, subject: mailQueue.subject, status: mailQueue.status, attempts: mailQueue.attempts, lastError: mailQueue.lastError, createdAt: mailQueue.createdAt, sentAt: mailQueue.sentAt })
-    .from(mailQueue).orderBy(desc(mailQueue.id)).limit(limit)
+  return db
+    .select({
+      id: mailQueue.id,
+      to: mailQueue.toAddress,
+      subject: mailQueue.subject,
+      status: mailQueue.status,
+      attempts: mailQueue.attempts,
+      lastError: mailQueue.lastError,
+      createdAt: mailQueue.createdAt,
+      sentAt: mailQueue.sentAt,
+    })
+    .from(mailQueue)
+    .orderBy(desc(mailQueue.id))
+    .limit(limit)
 }

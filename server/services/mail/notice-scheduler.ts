@@ -34,7 +34,9 @@ export function digestTimeOfWeek(d: Date): Date {
 
 const isDuplicateKey = (err: unknown): boolean => {
   const e = err as { code?: string; errno?: number; cause?: { code?: string; errno?: number } }
-  return e?.code === 'ER_DUP_ENTRY' || e?.errno === 1062 || e?.cause?.code === 'ER_DUP_ENTRY' || e?.cause?.errno === 1062
+  return (
+    e?.code === 'ER_DUP_ENTRY' || e?.errno === 1062 || e?.cause?.code === 'ER_DUP_ENTRY' || e?.cause?.errno === 1062
+  )
 }
 
 /** Claim a once-only notice key; false when it was already claimed (by this or another server). */
@@ -54,13 +56,23 @@ export async function queueExpiringNotices(db: Db, now: Date): Promise<number> {
   for (const s of await expiringSetups(db, now)) {
     queued += await db.transaction(async (tx) => {
       if (!(await claimNoticeKey(tx, `expiring:${s.code}:${s.expiresOn}`, now))) return 0
-      return queueNotice(tx, await recipientsWithRole(tx, 'safety_officer'), setupExpiringNotice({ setupId: s.id, ...s }, getNoticeBaseUrl()))
+      return queueNotice(
+        tx,
+        await recipientsWithRole(tx, 'safety_officer'),
+        setupExpiringNotice({ setupId: s.id, ...s }, getNoticeBaseUrl()),
+      )
     })
   }
   return queued
 }
 
-export interface DigestOutcome { isSent: boolean; key: string; recipients: number; since: string; until: string }
+export interface DigestOutcome {
+  isSent: boolean
+  key: string
+  recipients: number
+  since: string
+  until: string
+}
 
 /**
  * Queue the digest to every active group lead who wants notices, covering the time since the
@@ -77,7 +89,13 @@ export async function queueDigest(db: Db, now: Date, onDemand = false): Promise<
     if (!(await claimNoticeKey(tx, key, now))) return -1
     return queueNotice(tx, await recipientsWithRole(tx, 'group_lead'), digestNotice(content, getNoticeBaseUrl()))
   })
-  return { isSent: recipients >= 0, key, recipients: Math.max(recipients, 0), since: since.toISOString(), until: now.toISOString() }
+  return {
+    isSent: recipients >= 0,
+    key,
+    recipients: Math.max(recipients, 0),
+    since: since.toISOString(),
+    until: now.toISOString(),
+  }
 }
 
 /** Runs the scheduled notices every `intervalMs`; never throws (errors are logged). */
@@ -85,7 +103,11 @@ export class NoticeScheduler {
   private timer: NodeJS.Timeout | undefined
   private running: Promise<unknown> | null = null
 
-  constructor(private db: Db, private log: Logger, private intervalMs = 300_000) {}
+  constructor(
+    private db: Db,
+    private log: Logger,
+    private intervalMs = 300_000,
+  ) {}
 
   start(): void {
     this.timer = setInterval(() => void this.runOnce(new Date()), this.intervalMs)
@@ -104,13 +126,23 @@ export class NoticeScheduler {
     const pass = (async () => {
       let expiring = 0
       let digest: DigestOutcome | null = null
-      try { expiring = await queueExpiringNotices(this.db, now) } catch (err) { this.log.error({ err }, 'notices: expiring sign-offs failed') }
+      try {
+        expiring = await queueExpiringNotices(this.db, now)
+      } catch (err) {
+        this.log.error({ err }, 'notices: expiring sign-offs failed')
+      }
       try {
         if (now >= digestTimeOfWeek(now)) digest = await queueDigest(this.db, now)
-      } catch (err) { this.log.error({ err }, 'notices: digest failed') }
+      } catch (err) {
+        this.log.error({ err }, 'notices: digest failed')
+      }
       return { expiring, digest }
     })()
     this.running = pass
-    try { return await pass } finally { this.running = null }
+    try {
+      return await pass
+    } finally {
+      this.running = null
+    }
   }
 }

@@ -13,18 +13,33 @@ import type { SessionResult } from '../../../shared/records'
 
 /** The array fields the structure symmetry depends on. */
 export interface ArrayGeometry {
-  shape: string; shapeAzimuthDeg: number; lattice: string; azimuthDeg: number
-  customRotationOrder: number | null; customMirrors: number[] | null
+  shape: string
+  shapeAzimuthDeg: number
+  lattice: string
+  azimuthDeg: number
+  customRotationOrder: number | null
+  customMirrors: number[] | null
 }
 
 /** Everything the prediction for one array needs (joined from arrays → chips → wafers → materials). */
 export interface ArrayContext {
-  id: number; code: string; geometry: ArrayGeometry; chipRotationDeg: number
-  pointGroup: string; cutNormal: [number, number, number]; flatDirection: [number, number, number]
+  id: number
+  code: string
+  geometry: ArrayGeometry
+  chipRotationDeg: number
+  pointGroup: string
+  cutNormal: [number, number, number]
+  flatDirection: [number, number, number]
 }
 
 function predictionInputs(a: ArrayContext) {
-  return { ...a.geometry, chipRotationDeg: a.chipRotationDeg, pointGroup: a.pointGroup, cutNormal: a.cutNormal, flatDirection: a.flatDirection }
+  return {
+    ...a.geometry,
+    chipRotationDeg: a.chipRotationDeg,
+    pointGroup: a.pointGroup,
+    cutNormal: a.cutNormal,
+    flatDirection: a.flatDirection,
+  }
 }
 
 /** Engine channels for this session's pump and harmonic order on one array (same path as the stored channels). */
@@ -44,21 +59,31 @@ export function compareObserved(predicted: ChannelResponse, observed: Observed, 
   const seen = observed.observedNormal
   const emitted = seen === 'present' || seen === 'co' || seen === 'counter' || seen === 'linear'
   if (emitted && !normalAllowed(predicted)) {
-    flags.push('Emission along the normal observed where the engine forbids it for this pump and order: check tilt, substrate or surface contributions, or the pump polarisation.')
+    flags.push(
+      'Emission along the normal observed where the engine forbids it for this pump and order: check tilt, substrate or surface contributions, or the pump polarisation.',
+    )
   } else if (emitted && (seen === 'co' || seen === 'counter')) {
     const hand = predicted.normalEmission.handedness
     if (pump.type !== 'circular' || !hand) {
-      flags.push(`Co-/counter-rotating emission was recorded, but the pump is ${pump.type}: handedness relative to the pump is defined only for a circular pump.`)
+      flags.push(
+        `Co-/counter-rotating emission was recorded, but the pump is ${pump.type}: handedness relative to the pump is defined only for a circular pump.`,
+      )
     } else if (!hand.includes(seen === 'co' ? 'co-rotating' : 'counter-rotating')) {
       const allowed = hand.join(' and ')
-      flags.push(`Handedness mismatch: ${seen === 'co' ? 'co' : 'counter'}-rotating emission observed along the normal, but only ${allowed} emission is allowed for this pump and order: check the analyser/quarter-wave plate orientation and the handedness convention.`)
+      flags.push(
+        `Handedness mismatch: ${seen === 'co' ? 'co' : 'counter'}-rotating emission observed along the normal, but only ${allowed} emission is allowed for this pump and order: check the analyser/quarter-wave plate orientation and the handedness convention.`,
+      )
     }
   } else if (seen === 'none' && normalAllowed(predicted)) {
-    flags.push('Emission along the normal is allowed but was not seen: it may be weak; check alignment and the collection NA.')
+    flags.push(
+      'Emission along the normal is allowed but was not seen: it may be weak; check alignment and the collection NA.',
+    )
   }
   const unexpected = observed.observedM.filter((m) => !predicted.m.includes(m))
   if (unexpected.length) {
-    flags.push(`Observed m = ${unexpected.join(', ')} ${unexpected.length > 1 ? 'are' : 'is'} not among the allowed m {${predicted.m.join(', ')}} for this pump and order: check the analysis, the pump polarisation or the array's symmetry.`)
+    flags.push(
+      `Observed m = ${unexpected.join(', ')} ${unexpected.length > 1 ? 'are' : 'is'} not among the allowed m {${predicted.m.join(', ')}} for this pump and order: check the analysis, the pump polarisation or the array's symmetry.`,
+    )
   }
   return flags
 }
@@ -68,7 +93,8 @@ export function compareObserved(predicted: ChannelResponse, observed: Observed, 
  * normalised P_2 / P_pump² in W⁻¹. Pump power is stored in mW; null when a power is missing or zero.
  */
 export function deriveEfficiency(avgPowerMw: number | null | undefined, harmonicPowerW: number | null, order: number) {
-  if (harmonicPowerW === null || avgPowerMw === null || avgPowerMw === undefined || avgPowerMw <= 0) return { efficiency: null, normalisedW: null }
+  if (harmonicPowerW === null || avgPowerMw === null || avgPowerMw === undefined || avgPowerMw <= 0)
+    return { efficiency: null, normalisedW: null }
   const pumpW = avgPowerMw / 1000
   return { efficiency: harmonicPowerW / pumpW, normalisedW: order === 2 ? harmonicPowerW / (pumpW * pumpW) : null }
 }
@@ -77,20 +103,50 @@ export function deriveEfficiency(avgPowerMw: number | null | undefined, harmonic
 /** Db or an open transaction (only `select` is used). */
 export type Reader = Pick<Db, 'select'>
 
-export async function loadArrayContexts(db: Reader, ids: number[]): Promise<Map<number, ArrayContext & { retiredAt: Date | null }>> {
+export async function loadArrayContexts(
+  db: Reader,
+  ids: number[],
+): Promise<Map<number, ArrayContext & { retiredAt: Date | null }>> {
   if (!ids.length) return new Map()
   // Only the columns a prediction reads: the session pages and the export load thousands of these.
-  const rows = await db.select({
-    id: arrays.id, code: arrays.code, retiredAt: arrays.retiredAt,
-    g: { shape: arrays.shape, shapeAzimuthDeg: arrays.shapeAzimuthDeg, lattice: arrays.lattice, azimuthDeg: arrays.azimuthDeg, customRotationOrder: arrays.customRotationOrder, customMirrors: arrays.customMirrors },
-    rotationDeg: chips.rotationDeg, cutNormal: wafers.cutNormal, flatDirection: wafers.flatDirection, pointGroup: materials.pointGroup,
-  })
-    .from(arrays).innerJoin(chips, eq(chips.id, arrays.chipId)).innerJoin(wafers, eq(wafers.id, chips.waferId))
-    .innerJoin(materials, eq(materials.id, wafers.materialId)).where(inArray(arrays.id, ids))
-  return new Map(rows.map((r) => [r.id, {
-    id: r.id, code: r.code, retiredAt: r.retiredAt, chipRotationDeg: r.rotationDeg, pointGroup: r.pointGroup,
-    cutNormal: r.cutNormal, flatDirection: r.flatDirection, geometry: r.g,
-  }]))
+  const rows = await db
+    .select({
+      id: arrays.id,
+      code: arrays.code,
+      retiredAt: arrays.retiredAt,
+      g: {
+        shape: arrays.shape,
+        shapeAzimuthDeg: arrays.shapeAzimuthDeg,
+        lattice: arrays.lattice,
+        azimuthDeg: arrays.azimuthDeg,
+        customRotationOrder: arrays.customRotationOrder,
+        customMirrors: arrays.customMirrors,
+      },
+      rotationDeg: chips.rotationDeg,
+      cutNormal: wafers.cutNormal,
+      flatDirection: wafers.flatDirection,
+      pointGroup: materials.pointGroup,
+    })
+    .from(arrays)
+    .innerJoin(chips, eq(chips.id, arrays.chipId))
+    .innerJoin(wafers, eq(wafers.id, chips.waferId))
+    .innerJoin(materials, eq(materials.id, wafers.materialId))
+    .where(inArray(arrays.id, ids))
+  return new Map(
+    rows.map((r) => [
+      r.id,
+      {
+        id: r.id,
+        code: r.code,
+        retiredAt: r.retiredAt,
+        chipRotationDeg: r.rotationDeg,
+        pointGroup: r.pointGroup,
+        cutNormal: r.cutNormal,
+        flatDirection: r.flatDirection,
+        geometry: r.g,
+      },
+    ]),
+  )
 }
 
 type Prediction = { predicted: ChannelResponse } | { error: string }
@@ -103,27 +159,59 @@ function predictOrError(ctx: ArrayContext, pump: PumpSpec, order: number): Predi
   }
 }
 
-function compareWith(p: Prediction, ctx: ArrayContext, observed: Observed, pump: PumpSpec): { predicted: ChannelResponse; flags: string[] } {
+function compareWith(
+  p: Prediction,
+  ctx: ArrayContext,
+  observed: Observed,
+  pump: PumpSpec,
+): { predicted: ChannelResponse; flags: string[] } {
   let message: string
   if ('predicted' in p) {
     try {
       return { predicted: p.predicted, flags: compareObserved(p.predicted, observed, pump) }
-    } catch (err) { message = (err as Error).message }
+    } catch (err) {
+      message = (err as Error).message
+    }
   } else message = p.error
   const predicted: ChannelResponse = {
-    q: [], m: [], parity: [], normalEmission: { allowed: false, m: [] }, multipoles: [], explain: [message], engineVersion: ENGINE_VERSION, qWeights: [],
+    q: [],
+    m: [],
+    parity: [],
+    normalEmission: { allowed: false, m: [] },
+    multipoles: [],
+    explain: [message],
+    engineVersion: ENGINE_VERSION,
+    qWeights: [],
   }
   return { predicted, flags: [`No prediction for ${ctx.code}: ${message}`] }
 }
 
 /** Prediction and flags for one observed result; an engine failure becomes a flag, never a 500 on a saved record. */
-export function compareResult(ctx: ArrayContext, observed: Observed, pump: PumpSpec, order: number): { predicted: ChannelResponse; flags: string[] } {
+export function compareResult(
+  ctx: ArrayContext,
+  observed: Observed,
+  pump: PumpSpec,
+  order: number,
+): { predicted: ChannelResponse; flags: string[] } {
   return compareWith(predictOrError(ctx, pump, order), ctx, observed, pump)
 }
 
-/** Every input of predictForArray (the compile-time check below fails if one is added to array-channels and not listed here). */
-const PREDICTION_INPUTS = ['pointGroup', 'cutNormal', 'flatDirection', 'chipRotationDeg', 'shape', 'shapeAzimuthDeg', 'lattice', 'azimuthDeg',
-  'customRotationOrder', 'customMirrors'] as const
+/**
+ * Every input of predictForArray (the compile-time check below fails if one is added to array-channels and not listed
+ * here).
+ */
+const PREDICTION_INPUTS = [
+  'pointGroup',
+  'cutNormal',
+  'flatDirection',
+  'chipRotationDeg',
+  'shape',
+  'shapeAzimuthDeg',
+  'lattice',
+  'azimuthDeg',
+  'customRotationOrder',
+  'customMirrors',
+] as const
 type Unlisted = Exclude<keyof (SymmetryInputs & CrystalInputs), (typeof PREDICTION_INPUTS)[number]>
 const allInputsListed: [Unlisted] extends [never] ? true : Unlisted = true
 void allInputsListed

@@ -28,7 +28,8 @@ type ResultInput = SessionInput['results'][number]
 
 function checkPerformedAt(s: string): Date {
   const d = new Date(s)
-  if (d.getTime() > Date.now() + 5 * 60 * 1000) throw fieldError('performedAt', 'The measurement cannot be in the future')
+  if (d.getTime() > Date.now() + 5 * 60 * 1000)
+    throw fieldError('performedAt', 'The measurement cannot be in the future')
   return d
 }
 
@@ -47,18 +48,25 @@ async function checkSetup(tx: DbOrTx, id: number, performedAt: Date, avgPowerMw:
 
 function checkPower(s: { code: string; maxAvgPowerMw: number | null }, avgPowerMw: number): void {
   if (s.maxAvgPowerMw === null || avgPowerMw <= s.maxAvgPowerMw) return
-  throw fieldError('avgPowerMw', `${avgPowerMw} mW is above the maximum average power registered for ${s.code} (${s.maxAvgPowerMw} mW); `
-    + 'its sign-off covers only what was described. Register the higher power on the setup and have it signed off again first.')
+  throw fieldError(
+    'avgPowerMw',
+    `${avgPowerMw} mW is above the maximum average power registered for ${s.code} (${s.maxAvgPowerMw} mW); ` +
+      'its sign-off covers only what was described. Register the higher power on the setup and have it signed off again first.',
+  )
 }
 
 /** Every array must exist, be in use and appear once; field errors name the result row. */
 async function checkArrays(tx: Reader, results: ResultInput[]) {
-  const ctx = await loadArrayContexts(tx, results.map((r) => r.arrayId))
+  const ctx = await loadArrayContexts(
+    tx,
+    results.map((r) => r.arrayId),
+  )
   results.forEach((r, i) => {
     const a = ctx.get(r.arrayId)
     if (!a) throw fieldError(`results.${i}.arrayId`, 'No such array')
     if (a.retiredAt) throw fieldError(`results.${i}.arrayId`, `Array ${a.code} is retired`)
-    if (results.findIndex((x) => x.arrayId === r.arrayId) !== i) throw fieldError(`results.${i}.arrayId`, `Array ${a.code} is listed twice`)
+    if (results.findIndex((x) => x.arrayId === r.arrayId) !== i)
+      throw fieldError(`results.${i}.arrayId`, `Array ${a.code} is listed twice`)
   })
   return ctx
 }
@@ -68,20 +76,33 @@ const resultRows = (sessionId: number, results: ResultInput[]) => results.map((r
 export async function createSession(db: Db, actor: User, input: SessionInput): Promise<MeasurementSession> {
   const performedAt = checkPerformedAt(input.performedAt)
   const { results, safetyNotesRead, ...fields } = input
-  const id = await withCodeRetry(() => db.transaction(async (tx) => {
-    await checkSetup(tx, input.laserSetupId, performedAt, input.avgPowerMw)
-    await checkArrays(tx, results)
-    const code = await nextCode(tx, 'measurement_sessions', 'S', 4)
-    const values = { ...fields, code, performedAt, operatorId: actor.id }
-    const [{ id }] = await tx.insert(ms).values(values).$returningId()
-    await tx.insert(sessionResults).values(resultRows(id, results))
-    await writeAudit(tx, { userId: actor.id, entity: 'session', entityId: id, action: 'create', changes: diffFields({}, { ...values, results, safetyNotesRead }) })
-    return id
-  }))
+  const id = await withCodeRetry(() =>
+    db.transaction(async (tx) => {
+      await checkSetup(tx, input.laserSetupId, performedAt, input.avgPowerMw)
+      await checkArrays(tx, results)
+      const code = await nextCode(tx, 'measurement_sessions', 'S', 4)
+      const values = { ...fields, code, performedAt, operatorId: actor.id }
+      const [{ id }] = await tx.insert(ms).values(values).$returningId()
+      await tx.insert(sessionResults).values(resultRows(id, results))
+      await writeAudit(tx, {
+        userId: actor.id,
+        entity: 'session',
+        entityId: id,
+        action: 'create',
+        changes: diffFields({}, { ...values, results, safetyNotesRead }),
+      })
+      return id
+    }),
+  )
   return getSession(db, id)
 }
 
-export async function updateSession(db: Db, actor: User, id: number, input: SessionUpdateInput): Promise<MeasurementSession> {
+export async function updateSession(
+  db: Db,
+  actor: User,
+  id: number,
+  input: SessionUpdateInput,
+): Promise<MeasurementSession> {
   const { reason, results, performedAt, safetyNotesRead: _read, ...fields } = input
   await db.transaction(async (tx) => {
     const [before] = await tx.select().from(ms).where(eq(ms.id, id)).for('update')
@@ -94,13 +115,20 @@ export async function updateSession(db: Db, actor: User, id: number, input: Sess
     if (fields.laserSetupId !== undefined && fields.laserSetupId !== before.laserSetupId)
       await checkSetup(tx, fields.laserSetupId, (next.performedAt as Date | undefined) ?? before.performedAt, power)
     else if (fields.avgPowerMw !== undefined && fields.avgPowerMw !== before.avgPowerMw) {
-      const [s] = await tx.select({ code: laserSetups.code, maxAvgPowerMw: laserSetups.maxAvgPowerMw }).from(laserSetups).where(eq(laserSetups.id, before.laserSetupId))
+      const [s] = await tx
+        .select({ code: laserSetups.code, maxAvgPowerMw: laserSetups.maxAvgPowerMw })
+        .from(laserSetups)
+        .where(eq(laserSetups.id, before.laserSetupId))
       if (s) checkPower(s, power)
     }
     const changes = diffFields(before as unknown as Record<string, unknown>, next)
     if (results) {
       await checkArrays(tx, results)
-      const old = await tx.select().from(sessionResults).where(eq(sessionResults.sessionId, id)).orderBy(asc(sessionResults.arrayId))
+      const old = await tx
+        .select()
+        .from(sessionResults)
+        .where(eq(sessionResults.sessionId, id))
+        .orderBy(asc(sessionResults.arrayId))
       const prev = old.map(({ sessionId: _s, ...r }) => r)
       const now = [...results].sort((a, b) => a.arrayId - b.arrayId)
       if (JSON.stringify(prev) !== JSON.stringify(now)) {
@@ -111,7 +139,10 @@ export async function updateSession(db: Db, actor: User, id: number, input: Sess
       }
     }
     if (!Object.keys(changes).length) return
-    await tx.update(ms).set({ ...next, updatedAt: new Date() }).where(eq(ms.id, id))
+    await tx
+      .update(ms)
+      .set({ ...next, updatedAt: new Date() })
+      .where(eq(ms.id, id))
     await writeAudit(tx, { userId: actor.id, entity: 'session', entityId: id, action: 'update', changes, reason })
   })
   return getSession(db, id)
@@ -119,50 +150,102 @@ export async function updateSession(db: Db, actor: User, id: number, input: Sess
 
 /** Predictions, flags and derived quantities for a session body that is not saved (the form's live view). */
 export async function previewSession(db: Db, input: SessionPreviewInput) {
-  const ctx = await loadArrayContexts(db, input.results.map((r) => r.arrayId))
+  const ctx = await loadArrayContexts(
+    db,
+    input.results.map((r) => r.arrayId),
+  )
   const results = input.results.map((r, i) => {
     const a = ctx.get(r.arrayId)
     if (!a) throw fieldError(`results.${i}.arrayId`, 'No such array')
     return { arrayId: a.id, arrayCode: a.code, ...compareResult(a, r, input.pump, input.harmonicOrder) }
   })
-  const derived = input.results.map((r) => ({ arrayId: r.arrayId, ...deriveEfficiency(input.avgPowerMw, r.harmonicPowerW, input.harmonicOrder) }))
+  const derived = input.results.map((r) => ({
+    arrayId: r.arrayId,
+    ...deriveEfficiency(input.avgPowerMw, r.harmonicPowerW, input.harmonicOrder),
+  }))
   return { results, derived }
 }
 
 const operators = alias(users, 'operators')
 
 export async function getSession(db: Db, id: number): Promise<MeasurementSession> {
-  const [row] = await db.select({ s: ms, setup: { id: laserSetups.id, code: laserSetups.code, name: laserSetups.name }, operator: { id: operators.id, name: operators.name } })
-    .from(ms).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId)).innerJoin(operators, eq(operators.id, ms.operatorId)).where(eq(ms.id, id))
+  const [row] = await db
+    .select({
+      s: ms,
+      setup: { id: laserSetups.id, code: laserSetups.code, name: laserSetups.name },
+      operator: { id: operators.id, name: operators.name },
+    })
+    .from(ms)
+    .innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId))
+    .innerJoin(operators, eq(operators.id, ms.operatorId))
+    .where(eq(ms.id, id))
   if (!row) throw new NotFoundError('No such session')
   const { s } = row
   const stored = await db.select().from(sessionResults).where(eq(sessionResults.sessionId, id))
-  const ctx = await loadArrayContexts(db, stored.map((r) => r.arrayId))
-  const results = stored.map(({ sessionId: _s, ...r }) => ({ ...r, arrayCode: ctx.get(r.arrayId)!.code, ...compareResult(ctx.get(r.arrayId)!, r, s.pump, s.harmonicOrder) }))
+  const ctx = await loadArrayContexts(
+    db,
+    stored.map((r) => r.arrayId),
+  )
+  const results = stored
+    .map(({ sessionId: _s, ...r }) => ({
+      ...r,
+      arrayCode: ctx.get(r.arrayId)!.code,
+      ...compareResult(ctx.get(r.arrayId)!, r, s.pump, s.harmonicOrder),
+    }))
     .sort((a, b) => a.arrayCode.localeCompare(b.arrayCode))
-  const [{ n }] = await db.select({ n: count() }).from(files).where(and(eq(files.entity, 'session'), eq(files.entityId, id), isNull(files.retiredAt)))
+  const [{ n }] = await db
+    .select({ n: count() })
+    .from(files)
+    .where(and(eq(files.entity, 'session'), eq(files.entityId, id), isNull(files.retiredAt)))
   const backdated = isBackdated(s.performedAt, s.createdAt)
   const { operatorId: _o, laserSetupId: _l, ...plain } = s
   return {
-    ...plain, laserSetup: row.setup, operator: row.operator, performedAt: s.performedAt.toISOString(),
-    results, derived: results.map((r) => ({ arrayId: r.arrayId, ...deriveEfficiency(s.avgPowerMw, r.harmonicPowerW, s.harmonicOrder) })),
-    fileCount: Number(n), createdAt: s.createdAt.toISOString(), updatedAt: s.updatedAt.toISOString(),
-    isBackdated: backdated, flags: backdated ? [BACKDATED] : [],
+    ...plain,
+    laserSetup: row.setup,
+    operator: row.operator,
+    performedAt: s.performedAt.toISOString(),
+    results,
+    derived: results.map((r) => ({
+      arrayId: r.arrayId,
+      ...deriveEfficiency(s.avgPowerMw, r.harmonicPowerW, s.harmonicOrder),
+    })),
+    fileCount: Number(n),
+    createdAt: s.createdAt.toISOString(),
+    updatedAt: s.updatedAt.toISOString(),
+    isBackdated: backdated,
+    flags: backdated ? [BACKDATED] : [],
   }
 }
 
-const SORTABLE = { performedAt: ms.performedAt, code: ms.code, wavelengthNm: ms.wavelengthNm, harmonicOrder: ms.harmonicOrder, createdAt: ms.createdAt } as const
-const dayEnd = (s: string) => (/^\d{4}-\d{2}-\d{2}$/.test(s) ? new Date(Date.parse(s) + DAY_MS) : new Date(Date.parse(s) + 1))
+const SORTABLE = {
+  performedAt: ms.performedAt,
+  code: ms.code,
+  wavelengthNm: ms.wavelengthNm,
+  harmonicOrder: ms.harmonicOrder,
+  createdAt: ms.createdAt,
+} as const
+const dayEnd = (s: string) =>
+  /^\d{4}-\d{2}-\d{2}$/.test(s) ? new Date(Date.parse(s) + DAY_MS) : new Date(Date.parse(s) + 1)
 
-/** Sessions whose code starts with the text, whose notes or detector have its words, or that measured an array whose code starts with it. */
+/**
+ * Sessions whose code starts with the text, whose notes or detector have its words, or that measured an array whose
+ * code starts with it.
+ */
 const SESSION_TEXT: TextTarget = {
-  table: 'measurement_sessions', letter: 'S', wordColumns: ['notes', 'detector'],
-  extra: (text) => codePrefixes(text, 'A').map((p) => sql`SELECT sr.session_id AS id FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE a.code LIKE ${prefixPattern(p)}`),
+  table: 'measurement_sessions',
+  letter: 'S',
+  wordColumns: ['notes', 'detector'],
+  extra: (text) =>
+    codePrefixes(text, 'A').map(
+      (p) =>
+        sql`SELECT sr.session_id AS id FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE a.code LIKE ${prefixPattern(p)}`,
+    ),
 }
 
 async function listWhere(db: Db, q: SessionListQuery): Promise<SQL | undefined> {
   const w: SQL[] = []
-  const inResults = (cond: SQL) => sql`EXISTS (SELECT 1 FROM session_results sr JOIN arrays a ON a.id = sr.array_id JOIN chips c ON c.id = a.chip_id WHERE sr.session_id = ${ms.id} AND ${cond})`
+  const inResults = (cond: SQL) =>
+    sql`EXISTS (SELECT 1 FROM session_results sr JOIN arrays a ON a.id = sr.array_id JOIN chips c ON c.id = a.chip_id WHERE sr.session_id = ${ms.id} AND ${cond})`
   if (q.array) w.push(inResults(sql`a.code = ${q.array}`))
   if (q.chip) w.push(inResults(sql`c.code = ${q.chip}`))
   if (q.laserSetupId) w.push(eq(ms.laserSetupId, q.laserSetupId))
@@ -170,7 +253,13 @@ async function listWhere(db: Db, q: SessionListQuery): Promise<SQL | undefined> 
   if (q.to) w.push(lt(ms.performedAt, dayEnd(q.to)))
   if (q.q) {
     const p = likePattern(q.q)
-    w.push(idCondition(ms.id, await textHitIds(db, SESSION_TEXT, q.q), or(like(ms.code, p), like(ms.notes, p), like(ms.detector, p), inResults(sql`a.code LIKE ${p}`)))!)
+    w.push(
+      idCondition(
+        ms.id,
+        await textHitIds(db, SESSION_TEXT, q.q),
+        or(like(ms.code, p), like(ms.notes, p), like(ms.detector, p), inResults(sql`a.code LIKE ${p}`)),
+      )!,
+    )
   }
   return w.length ? and(...w) : undefined
 }
@@ -180,12 +269,26 @@ async function listWhere(db: Db, q: SessionListQuery): Promise<SQL | undefined> 
  * 200, in code order; NULL for none). mysql2 decodes it itself when MariaDB marks it as JSON.
  */
 const LIST_COLUMNS = {
-  id: ms.id, code: ms.code, setupId: laserSetups.id, setupCode: laserSetups.code, setupName: laserSetups.name, operatorId: operators.id, operatorName: operators.name,
-  performedAt: ms.performedAt, wavelengthNm: ms.wavelengthNm, harmonicOrder: ms.harmonicOrder, pump: ms.pump, avgPowerMw: ms.avgPowerMw, createdAt: ms.createdAt,
-  arrayCodes: sql<string[] | string | null>`(SELECT JSON_ARRAYAGG(a.code ORDER BY a.code) FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE sr.session_id = ${ms.id})`,
+  id: ms.id,
+  code: ms.code,
+  setupId: laserSetups.id,
+  setupCode: laserSetups.code,
+  setupName: laserSetups.name,
+  operatorId: operators.id,
+  operatorName: operators.name,
+  performedAt: ms.performedAt,
+  wavelengthNm: ms.wavelengthNm,
+  harmonicOrder: ms.harmonicOrder,
+  pump: ms.pump,
+  avgPowerMw: ms.avgPowerMw,
+  createdAt: ms.createdAt,
+  arrayCodes: sql<
+    string[] | string | null
+  >`(SELECT JSON_ARRAYAGG(a.code ORDER BY a.code) FROM session_results sr JOIN arrays a ON a.id = sr.array_id WHERE sr.session_id = ${ms.id})`,
 }
 
-const jsonList = (v: string[] | string | null): string[] => (typeof v === 'string' ? (JSON.parse(v) as string[]) : v ?? [])
+const jsonList = (v: string[] | string | null): string[] =>
+  typeof v === 'string' ? (JSON.parse(v) as string[]) : (v ?? [])
 
 export async function listSessions(db: Db, q: SessionListQuery): Promise<Page<MeasurementSessionRow>> {
   const where = await listWhere(db, q)
@@ -196,18 +299,47 @@ export async function listSessions(db: Db, q: SessionListQuery): Promise<Page<Me
   // to setup, operator and array codes: one round trip. (Inside the derived table
   // `measurement_sessions` names its own FROM, outside the joined row: one ORDER BY serves both.)
   const order = [dir === 'desc' ? desc(col) : asc(col), dir === 'desc' ? desc(ms.id) : asc(ms.id)]
-  const page = db.select({ id: ms.id }).from(ms).where(where).orderBy(...order).limit(q.pageSize).offset((q.page - 1) * q.pageSize).as('page')
+  const page = db
+    .select({ id: ms.id })
+    .from(ms)
+    .where(where)
+    .orderBy(...order)
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize)
+    .as('page')
   const [rows, [{ n }]] = await Promise.all([
-    plainRows(db, LIST_COLUMNS, (f) => db.select(f).from(page).innerJoin(ms, eq(ms.id, page.id)).innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId))
-      .innerJoin(operators, eq(operators.id, ms.operatorId)).orderBy(...order), { cache: true }),
+    plainRows(
+      db,
+      LIST_COLUMNS,
+      (f) =>
+        db
+          .select(f)
+          .from(page)
+          .innerJoin(ms, eq(ms.id, page.id))
+          .innerJoin(laserSetups, eq(laserSetups.id, ms.laserSetupId))
+          .innerJoin(operators, eq(operators.id, ms.operatorId))
+          .orderBy(...order),
+      { cache: true },
+    ),
     plainRows(db, { n: count() }, (f) => db.select(f).from(ms).where(where), { cache: true }),
   ])
   return {
     rows: rows.map((r) => ({
-      id: r.id, code: r.code, laserSetup: { id: r.setupId, code: r.setupCode, name: r.setupName }, operator: { id: r.operatorId, name: r.operatorName },
-      performedAt: r.performedAt.toISOString(), wavelengthNm: r.wavelengthNm, harmonicOrder: r.harmonicOrder, pump: r.pump, avgPowerMw: r.avgPowerMw,
-      createdAt: r.createdAt.toISOString(), arrayCodes: jsonList(r.arrayCodes), isBackdated: isBackdated(r.performedAt, r.createdAt),
+      id: r.id,
+      code: r.code,
+      laserSetup: { id: r.setupId, code: r.setupCode, name: r.setupName },
+      operator: { id: r.operatorId, name: r.operatorName },
+      performedAt: r.performedAt.toISOString(),
+      wavelengthNm: r.wavelengthNm,
+      harmonicOrder: r.harmonicOrder,
+      pump: r.pump,
+      avgPowerMw: r.avgPowerMw,
+      createdAt: r.createdAt.toISOString(),
+      arrayCodes: jsonList(r.arrayCodes),
+      isBackdated: isBackdated(r.performedAt, r.createdAt),
     })),
-    total: Number(n), page: q.page, pageSize: q.pageSize,
+    total: Number(n),
+    page: q.page,
+    pageSize: q.pageSize,
   }
 }

@@ -15,33 +15,46 @@ export class MariaDbThrottleStore implements Store {
   private windowMs = 60_000
   private calls = 0
 
-  constructor(private readonly db: Db, readonly prefix = 'login') {}
+  constructor(
+    private readonly db: Db,
+    readonly prefix = 'login',
+  ) {}
 
-  init(options: Options): void { this.windowMs = options.windowMs }
+  init(options: Options): void {
+    this.windowMs = options.windowMs
+  }
 
   private keyOf(key: string): string {
     return `${this.prefix}:${createHash('sha256').update(key).digest('base64url')}`
   }
 
   private async read(k: string): Promise<ClientRateLimitInfo | undefined> {
-    const [rows] = (await this.db.execute(sql`SELECT hits, reset_at AS resetAt FROM throttle_hits WHERE hit_key = ${k} AND reset_at > NOW(3)`)) as unknown as [{ hits: number; resetAt: Date }[]]
+    const [rows] = (await this.db.execute(
+      sql`SELECT hits, reset_at AS resetAt FROM throttle_hits WHERE hit_key = ${k} AND reset_at > NOW(3)`,
+    )) as unknown as [{ hits: number; resetAt: Date }[]]
     const row = rows[0]
     return row ? { totalHits: Number(row.hits), resetTime: new Date(row.resetAt) } : undefined
   }
 
-  async get(key: string): Promise<ClientRateLimitInfo | undefined> { return this.read(this.keyOf(key)) }
+  async get(key: string): Promise<ClientRateLimitInfo | undefined> {
+    return this.read(this.keyOf(key))
+  }
 
   async increment(key: string): Promise<ClientRateLimitInfo> {
-    const k = this.keyOf(key), us = Math.round(this.windowMs * 1000)
+    const k = this.keyOf(key),
+      us = Math.round(this.windowMs * 1000)
     // ON DUPLICATE KEY UPDATE assigns left to right: `hits` is decided on the old reset_at, then reset_at.
-    await this.db.execute(sql`INSERT INTO throttle_hits (hit_key, hits, reset_at) VALUES (${k}, 1, NOW(3) + INTERVAL ${us} MICROSECOND)
+    await this.db
+      .execute(sql`INSERT INTO throttle_hits (hit_key, hits, reset_at) VALUES (${k}, 1, NOW(3) + INTERVAL ${us} MICROSECOND)
       ON DUPLICATE KEY UPDATE hits = IF(reset_at <= NOW(3), 1, hits + 1), reset_at = IF(reset_at <= NOW(3), NOW(3) + INTERVAL ${us} MICROSECOND, reset_at)`)
     if (++this.calls % 200 === 0) await this.sweep()
     return (await this.read(k)) ?? { totalHits: 1, resetTime: new Date(Date.now() + this.windowMs) }
   }
 
   async decrement(key: string): Promise<void> {
-    await this.db.execute(sql`UPDATE throttle_hits SET hits = GREATEST(hits - 1, 0) WHERE hit_key = ${this.keyOf(key)} AND reset_at > NOW(3)`)
+    await this.db.execute(
+      sql`UPDATE throttle_hits SET hits = GREATEST(hits - 1, 0) WHERE hit_key = ${this.keyOf(key)} AND reset_at > NOW(3)`,
+    )
   }
 
   async resetKey(key: string): Promise<void> {

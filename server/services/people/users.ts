@@ -21,8 +21,19 @@ export function toPublicUser(u: User): PublicUser {
 }
 
 /** The public face of a person's columns (no password hash: only whether one is set). */
-function publicUserOf(u: Pick<User, 'id' | 'email' | 'name' | 'roles' | 'active' | 'createdAt'>, invitePending: boolean): PublicUser {
-  return { id: u.id, email: u.email, name: u.name, roles: [...u.roles], active: u.active, invitePending, createdAt: u.createdAt.toISOString() }
+function publicUserOf(
+  u: Pick<User, 'id' | 'email' | 'name' | 'roles' | 'active' | 'createdAt'>,
+  invitePending: boolean,
+): PublicUser {
+  return {
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    roles: [...u.roles],
+    active: u.active,
+    invitePending,
+    createdAt: u.createdAt.toISOString(),
+  }
 }
 
 const sha256 = (s: string) => createHash('sha256').update(s).digest('hex')
@@ -46,8 +57,26 @@ export async function listUsers(db: Db): Promise<PublicUser[]> {
 export async function searchUsers(db: Db, q: string, limit = 10): Promise<PublicUser[]> {
   const pattern = `%${q.replace(/[\\%_]/g, (c) => '\\' + c)}%`
   // Only the public columns (not the password hash: whether one is set is decided in SQL), through plainRows.
-  const rows = await plainRows(db, { id: users.id, email: users.email, name: users.name, roles: users.roles, active: users.active, invitePending: sql<number>`(${users.passwordHash} IS NULL)`, createdAt: users.createdAt },
-    (f) => db.select(f).from(users).where(or(like(users.name, pattern), like(users.email, pattern))).orderBy(asc(users.name), asc(users.id)).limit(limit), { cache: true })
+  const rows = await plainRows(
+    db,
+    {
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      roles: users.roles,
+      active: users.active,
+      invitePending: sql<number>`(${users.passwordHash} IS NULL)`,
+      createdAt: users.createdAt,
+    },
+    (f) =>
+      db
+        .select(f)
+        .from(users)
+        .where(or(like(users.name, pattern), like(users.email, pattern)))
+        .orderBy(asc(users.name), asc(users.id))
+        .limit(limit),
+    { cache: true },
+  )
   return rows.map((u) => publicUserOf(u, Number(u.invitePending) === 1))
 }
 
@@ -55,22 +84,48 @@ export async function searchUsers(db: Db, q: string, limit = 10): Promise<Public
 export async function inviteUser(db: Db, actor: User, input: InviteInput, publicUrl: string): Promise<PublicUser> {
   const email = input.email.toLowerCase()
   const refused = input.roles.filter((r) => !grantableRoles(actor).includes(r))
-  if (refused.length) throw fieldError('roles', `Only an administrator grants ${refused.map((r) => ROLE_LABELS[r]).join(' or ')}`)
-  if (await findUserByEmail(db, email)) throw new ConflictError('This e-mail already has an account', { email: ['This e-mail already has an account'] })
+  if (refused.length)
+    throw fieldError('roles', `Only an administrator grants ${refused.map((r) => ROLE_LABELS[r]).join(' or ')}`)
+  if (await findUserByEmail(db, email))
+    throw new ConflictError('This e-mail already has an account', { email: ['This e-mail already has an account'] })
   const token = randomBytes(32).toString('base64url')
   const roles = [...new Set(input.roles)] as Role[]
   const id = await db.transaction(async (tx) => {
-    const [{ id }] = await tx.insert(users).values({ email, name: input.name, roles, passwordHash: null }).$returningId()
-    await tx.insert(invitations).values({ userId: id, tokenHash: sha256(token), createdBy: actor.id, expiresAt: new Date(Date.now() + INVITE_TTL_MS) })
-    await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'create', changes: { email: { from: null, to: email }, name: { from: null, to: input.name }, roles: { from: null, to: roles }, invitation: { from: null, to: 'sent' } } })
-    await queueMail(tx, inviteMail({ to: email, name: input.name, inviter: actor.name, link: `${publicUrl}/invite/${token}` }))
+    const [{ id }] = await tx
+      .insert(users)
+      .values({ email, name: input.name, roles, passwordHash: null })
+      .$returningId()
+    await tx.insert(invitations).values({
+      userId: id,
+      tokenHash: sha256(token),
+      createdBy: actor.id,
+      expiresAt: new Date(Date.now() + INVITE_TTL_MS),
+    })
+    await writeAudit(tx, {
+      userId: actor.id,
+      entity: 'user',
+      entityId: id,
+      action: 'create',
+      changes: {
+        email: { from: null, to: email },
+        name: { from: null, to: input.name },
+        roles: { from: null, to: roles },
+        invitation: { from: null, to: 'sent' },
+      },
+    })
+    await queueMail(
+      tx,
+      inviteMail({ to: email, name: input.name, inviter: actor.name, link: `${publicUrl}/invite/${token}` }),
+    )
     return id
   })
   return toPublicUser((await findUserById(db, id))!)
 }
 
 async function activeAdminCount(db: Db): Promise<number> {
-  const [row] = await db.select({ n: sql<number>`count(*)` }).from(users)
+  const [row] = await db
+    .select({ n: sql<number>`count(*)` })
+    .from(users)
     .where(and(eq(users.active, true), sql`JSON_CONTAINS(${users.roles}, '"admin"')`))
   return Number(row.n)
 }
@@ -89,7 +144,12 @@ export async function updateUser(db: Db, actor: User, id: number, input: UpdateU
   const nextRoles = input.roles ? [...new Set(input.roles)] : undefined
   const changedRoles = nextRoles ? ROLES.filter((r) => nextRoles.includes(r) !== target.roles.includes(r)) : []
   if (changedRoles.length && actor.id === id && !isAdmin)
-    throw new AppError(403, 'forbidden', 'You cannot change your own roles: another group lead or an administrator does.', { roles: ['You cannot change your own roles'] })
+    throw new AppError(
+      403,
+      'forbidden',
+      'You cannot change your own roles: another group lead or an administrator does.',
+      { roles: ['You cannot change your own roles'] },
+    )
   const refused = changedRoles.filter((r) => !grantableRoles(actor).includes(r))
   if (refused.length) {
     const msg = `Only an administrator grants or removes ${refused.map((r) => ROLE_LABELS[r]).join(' or ')}`
@@ -97,18 +157,42 @@ export async function updateUser(db: Db, actor: User, id: number, input: UpdateU
   }
   const togglesActive = input.active !== undefined && input.active !== target.active
   if (togglesActive && !isAdmin && target.roles.some((r) => PROTECTED_ROLES.includes(r)))
-    throw new ForbiddenError(`Only an administrator can ${input.active ? 'reactivate' : 'deactivate'} a person who is ${target.roles.filter((r) => PROTECTED_ROLES.includes(r)).map((r) => ROLE_LABELS[r]).join(' and ')}.`)
+    throw new ForbiddenError(
+      `Only an administrator can ${input.active ? 'reactivate' : 'deactivate'} a person who is ${target.roles
+        .filter((r) => PROTECTED_ROLES.includes(r))
+        .map((r) => ROLE_LABELS[r])
+        .join(' and ')}.`,
+    )
   if (actor.id === id && input.active === false) throw fieldError('active', 'You cannot deactivate your own account')
-  const losesAdmin = target.roles.includes('admin') && target.active && ((nextRoles && !nextRoles.includes('admin')) || input.active === false)
-  if (losesAdmin && (await activeAdminCount(db)) <= 1) throw fieldError(input.active === false ? 'active' : 'roles', 'Overtone needs at least one active administrator')
+  const losesAdmin =
+    target.roles.includes('admin') &&
+    target.active &&
+    ((nextRoles && !nextRoles.includes('admin')) || input.active === false)
+  if (losesAdmin && (await activeAdminCount(db)) <= 1)
+    throw fieldError(input.active === false ? 'active' : 'roles', 'Overtone needs at least one active administrator')
   if ((changedRoles.length || togglesActive) && !input.reason)
-    throw fieldError('reason', changedRoles.length ? 'Say why the roles change (kept in the audit trail)' : `Say why the account is ${input.active ? 'reactivated' : 'deactivated'}`)
+    throw fieldError(
+      'reason',
+      changedRoles.length
+        ? 'Say why the roles change (kept in the audit trail)'
+        : `Say why the account is ${input.active ? 'reactivated' : 'deactivated'}`,
+    )
   const next = { name: input.name, roles: nextRoles, active: input.active }
   const changes = diffFields(target as unknown as Record<string, unknown>, next)
   if (Object.keys(changes).length) {
     await db.transaction(async (tx) => {
-      await tx.update(users).set({ ...next, updatedAt: new Date() }).where(eq(users.id, id))
-      await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'update', changes, reason: input.reason ?? null })
+      await tx
+        .update(users)
+        .set({ ...next, updatedAt: new Date() })
+        .where(eq(users.id, id))
+      await writeAudit(tx, {
+        userId: actor.id,
+        entity: 'user',
+        entityId: id,
+        action: 'update',
+        changes,
+        reason: input.reason ?? null,
+      })
       if (changedRoles.length || input.active === false) await endSessions(tx, id)
     })
   }
@@ -121,7 +205,11 @@ export async function updateUser(db: Db, actor: User, id: number, input: UpdateU
  */
 export async function endSessions(db: DbOrTx, userId: number, keepSessionId?: string): Promise<number> {
   const who = sql`JSON_VALUE(${sessions.data}, '$.passport.user') = ${String(userId)}`
-  const [res] = await db.delete(sessions).where(keepSessionId ? and(who, ne(sessions.sessionId, keepSessionId)) : who) as unknown as [{ affectedRows: number }]
+  const [res] = (await db
+    .delete(sessions)
+    .where(keepSessionId ? and(who, ne(sessions.sessionId, keepSessionId)) : who)) as unknown as [
+    { affectedRows: number },
+  ]
   return res.affectedRows
 }
 
@@ -131,7 +219,14 @@ export async function endSessionsOf(db: Db, actor: User, id: number, reason: str
   if (!target) throw new NotFoundError('No such person')
   const ended = await db.transaction(async (tx) => {
     const n = await endSessions(tx, id)
-    await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'other', changes: { sessions: { from: `${n} open`, to: 'ended' } }, reason })
+    await writeAudit(tx, {
+      userId: actor.id,
+      entity: 'user',
+      entityId: id,
+      action: 'other',
+      changes: { sessions: { from: `${n} open`, to: 'ended' } },
+      reason,
+    })
     return n
   })
   return { ended }
@@ -141,23 +236,48 @@ export async function endSessionsOf(db: Db, actor: User, id: number, reason: str
  * An administrator sends a person a one-time link to choose a new password (7 days, stored
  * hashed like an invitation) and ends their sessions; the old password works until the new one is set.
  */
-export async function sendPasswordReset(db: Db, actor: User, id: number, reason: string, publicUrl: string): Promise<void> {
+export async function sendPasswordReset(
+  db: Db,
+  actor: User,
+  id: number,
+  reason: string,
+  publicUrl: string,
+): Promise<void> {
   const target = await findUserById(db, id)
   if (!target) throw new NotFoundError('No such person')
   if (!target.active) throw new ConflictError('This account is deactivated: reactivate it first.')
   const token = randomBytes(32).toString('base64url')
   await db.transaction(async (tx) => {
-    await tx.insert(invitations).values({ userId: id, tokenHash: sha256(token), createdBy: actor.id, expiresAt: new Date(Date.now() + INVITE_TTL_MS) })
+    await tx.insert(invitations).values({
+      userId: id,
+      tokenHash: sha256(token),
+      createdBy: actor.id,
+      expiresAt: new Date(Date.now() + INVITE_TTL_MS),
+    })
     const n = await endSessions(tx, id)
-    await writeAudit(tx, { userId: actor.id, entity: 'user', entityId: id, action: 'other', changes: { password: { from: '(hidden)', to: 'reset link sent' }, sessions: { from: `${n} open`, to: 'ended' } }, reason })
-    await queueMail(tx, resetMail({ to: target.email, name: target.name, actor: actor.name, link: `${publicUrl}/invite/${token}` }))
+    await writeAudit(tx, {
+      userId: actor.id,
+      entity: 'user',
+      entityId: id,
+      action: 'other',
+      changes: { password: { from: '(hidden)', to: 'reset link sent' }, sessions: { from: `${n} open`, to: 'ended' } },
+      reason,
+    })
+    await queueMail(
+      tx,
+      resetMail({ to: target.email, name: target.name, actor: actor.name, link: `${publicUrl}/invite/${token}` }),
+    )
   })
 }
 
 async function findOpenInvitation(db: Db, token: string) {
-  const [row] = await db.select({ inv: invitations, user: users }).from(invitations)
+  const [row] = await db
+    .select({ inv: invitations, user: users })
+    .from(invitations)
     .innerJoin(users, eq(users.id, invitations.userId))
-    .where(and(eq(invitations.tokenHash, sha256(token)), isNull(invitations.usedAt), gt(invitations.expiresAt, new Date())))
+    .where(
+      and(eq(invitations.tokenHash, sha256(token)), isNull(invitations.usedAt), gt(invitations.expiresAt, new Date())),
+    )
   return row && row.user.active ? row : undefined
 }
 
@@ -174,25 +294,53 @@ export async function acceptInvitation(db: Db, token: string, password: string):
   await requireStrongPassword('password', password, [row.user.email, row.user.name])
   const hash = await hashPassword(password)
   await db.transaction(async (tx) => {
-    const res = await tx.update(invitations).set({ usedAt: new Date() }).where(and(eq(invitations.id, row.inv.id), isNull(invitations.usedAt)))
-    if ((res[0] as { affectedRows: number }).affectedRows !== 1) throw new NotFoundError('This invitation link has just been used.')
+    const res = await tx
+      .update(invitations)
+      .set({ usedAt: new Date() })
+      .where(and(eq(invitations.id, row.inv.id), isNull(invitations.usedAt)))
+    if ((res[0] as { affectedRows: number }).affectedRows !== 1)
+      throw new NotFoundError('This invitation link has just been used.')
     await tx.update(users).set({ passwordHash: hash, updatedAt: new Date() }).where(eq(users.id, row.user.id))
     const was = row.user.passwordHash ? '(hidden)' : '(none)'
-    await writeAudit(tx, { userId: row.user.id, entity: 'user', entityId: row.user.id, action: 'update', changes: { password: { from: was, to: row.user.passwordHash ? '(reset from a one-time link)' : '(set from invitation)' } } })
+    await writeAudit(tx, {
+      userId: row.user.id,
+      entity: 'user',
+      entityId: row.user.id,
+      action: 'update',
+      changes: {
+        password: { from: was, to: row.user.passwordHash ? '(reset from a one-time link)' : '(set from invitation)' },
+      },
+    })
     await endSessions(tx, row.user.id)
   })
   return (await findUserById(db, row.user.id))!
 }
 
 /** Change your own password; every other session of yours ends (the one you are using stays). */
-export async function changePassword(db: Db, user: User, current: string, next: string, keepSessionId?: string): Promise<void> {
-  if (!(await verifyPassword(current, user.passwordHash))) throw fieldError('currentPassword', 'The current password is not right')
+export async function changePassword(
+  db: Db,
+  user: User,
+  current: string,
+  next: string,
+  keepSessionId?: string,
+): Promise<void> {
+  if (!(await verifyPassword(current, user.passwordHash)))
+    throw fieldError('currentPassword', 'The current password is not right')
   if (current === next) throw fieldError('newPassword', 'Choose a password different from the current one')
   await requireStrongPassword('newPassword', next, [user.email, user.name])
   const hash = await hashPassword(next)
   await db.transaction(async (tx) => {
     await tx.update(users).set({ passwordHash: hash, updatedAt: new Date() }).where(eq(users.id, user.id))
     const ended = await endSessions(tx, user.id, keepSessionId)
-    await writeAudit(tx, { userId: user.id, entity: 'user', entityId: user.id, action: 'update', changes: { password: { from: '(hidden)', to: '(changed)' }, ...(ended ? { sessions: { from: `${ended} other open`, to: 'ended' } } : {}) } })
+    await writeAudit(tx, {
+      userId: user.id,
+      entity: 'user',
+      entityId: user.id,
+      action: 'update',
+      changes: {
+        password: { from: '(hidden)', to: '(changed)' },
+        ...(ended ? { sessions: { from: `${ended} other open`, to: 'ended' } } : {}),
+      },
+    })
   })
 }

@@ -22,7 +22,8 @@ export function codePrefixes(q: string, letter: 'A' | 'C' | 'W' | 'S' | 'L', nes
   if (!t) return []
   // Only a parent's code nests (W-0059 → its chips and arrays, C-0059-25 → its arrays): a session
   // or location code shares digits with array codes by chance, not by descent.
-  if (/^[A-Z]-/.test(t)) return t.startsWith(`${letter}-`) || !nested || !/^[WC]-/.test(t) ? [t] : [`${letter}-${t.slice(2)}`, t]
+  if (/^[A-Z]-/.test(t))
+    return t.startsWith(`${letter}-`) || !nested || !/^[WC]-/.test(t) ? [t] : [`${letter}-${t.slice(2)}`, t]
   if (/^\d/.test(t)) return [`${letter}-${t}`]
   return [t]
 }
@@ -30,7 +31,10 @@ export function codePrefixes(q: string, letter: 'A' | 'C' | 'W' | 'S' | 'L', nes
 /** LIKE pattern of a code prefix (escaped). */
 export const prefixPattern = (p: string) => `${p.replace(/[\\%_]/g, (c) => '\\' + c)}%`
 
-interface FtSettings { minToken: number; stop: Set<string> }
+interface FtSettings {
+  minToken: number
+  stop: Set<string>
+}
 let settings: Promise<FtSettings> | null = null
 
 /** The server's full-text settings, read once (fallbacks are MariaDB's defaults). */
@@ -41,9 +45,13 @@ function ftSettings(db: Pick<Db, 'execute'>): Promise<FtSettings> {
     try {
       const [[row]] = (await db.execute(sql`SELECT @@innodb_ft_min_token_size AS n`)) as unknown as [[{ n: number }]]
       minToken = Number(row?.n ?? 3)
-      const [words] = (await db.execute(sql`SELECT value FROM information_schema.INNODB_FT_DEFAULT_STOPWORD`)) as unknown as [{ value: string }[]]
+      const [words] = (await db.execute(
+        sql`SELECT value FROM information_schema.INNODB_FT_DEFAULT_STOPWORD`,
+      )) as unknown as [{ value: string }[]]
       stop = new Set(words.map((w) => String(w.value).toLowerCase()))
-    } catch { /* keep the defaults */ }
+    } catch {
+      /* keep the defaults */
+    }
     return { minToken, stop }
   })()
   return settings
@@ -52,8 +60,16 @@ function ftSettings(db: Pick<Db, 'execute'>): Promise<FtSettings> {
 /** The words of `q` as a boolean-mode query (`+word* +word*`), or null when no word can be searched. */
 export async function fulltextQuery(db: Pick<Db, 'execute'>, q: string): Promise<string | null> {
   const { minToken, stop } = await ftSettings(db)
-  const words = q.toLowerCase().split(/[^\p{L}\p{N}_]+/u).filter((w) => w.length >= minToken && !stop.has(w))
-  return words.length ? [...new Set(words)].slice(0, 8).map((w) => `+${w}*`).join(' ') : null
+  const words = q
+    .toLowerCase()
+    .split(/[^\p{L}\p{N}_]+/u)
+    .filter((w) => w.length >= minToken && !stop.has(w))
+  return words.length
+    ? [...new Set(words)]
+        .slice(0, 8)
+        .map((w) => `+${w}*`)
+        .join(' ')
+    : null
 }
 
 /** More matching ids than this and the caller falls back to a plain (slower) condition. */
@@ -66,11 +82,21 @@ export function idCondition(id: Column, ids: number[] | null, fallback: SQL | un
 
 /** `MATCH(columns) AGAINST (words IN BOOLEAN MODE)`; the columns must be exactly those of one FULLTEXT index. */
 export function matchWords(columns: string[], words: string): SQL {
-  return sql`MATCH(${sql.join(columns.map((c) => sql.identifier(c)), sql`, `)}) AGAINST (${words} IN BOOLEAN MODE)`
+  return sql`MATCH(${sql.join(
+    columns.map((c) => sql.identifier(c)),
+    sql`, `,
+  )}) AGAINST (${words} IN BOOLEAN MODE)`
 }
 
-/** Where the search box of one big list looks: the table, its code letter, its FULLTEXT columns, and extra id queries. */
-export interface TextTarget { table: string; letter: 'A' | 'C' | 'S'; wordColumns: string[]; extra?: (text: string) => SQL[] }
+/**
+ * Where the search box of one big list looks: the table, its code letter, its FULLTEXT columns, and extra id queries.
+ */
+export interface TextTarget {
+  table: string
+  letter: 'A' | 'C' | 'S'
+  wordColumns: string[]
+  extra?: (text: string) => SQL[]
+}
 
 /**
  * Ids of the rows of `target.table` whose code starts with one of the code prefixes of `text`, whose
@@ -80,10 +106,15 @@ export interface TextTarget { table: string; letter: 'A' | 'C' | 'S'; wordColumn
  */
 export async function textHitIds(db: Pick<Db, 'execute'>, target: TextTarget, text: string): Promise<number[] | null> {
   const words = await fulltextQuery(db, text)
-  const branches: SQL[] = codePrefixes(text, target.letter).map((p) => sql`SELECT id FROM ${sql.identifier(target.table)} WHERE code LIKE ${prefixPattern(p)}`)
-  if (words) branches.push(sql`SELECT id FROM ${sql.identifier(target.table)} WHERE ${matchWords(target.wordColumns, words)}`)
+  const branches: SQL[] = codePrefixes(text, target.letter).map(
+    (p) => sql`SELECT id FROM ${sql.identifier(target.table)} WHERE code LIKE ${prefixPattern(p)}`,
+  )
+  if (words)
+    branches.push(sql`SELECT id FROM ${sql.identifier(target.table)} WHERE ${matchWords(target.wordColumns, words)}`)
   branches.push(...(target.extra?.(text) ?? []))
   if (!branches.length) return []
-  const [rows] = (await db.execute(sql`${sql.join(branches, sql` UNION `)} LIMIT ${MAX_TEXT_HITS + 1}`)) as unknown as [{ id: number }[]]
+  const [rows] = (await db.execute(sql`${sql.join(branches, sql` UNION `)} LIMIT ${MAX_TEXT_HITS + 1}`)) as unknown as [
+    { id: number }[],
+  ]
   return rows.length > MAX_TEXT_HITS ? null : rows.map((r) => Number(r.id))
 }

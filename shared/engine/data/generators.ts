@@ -40,7 +40,8 @@ export const SYMMETRY_OPERATIONS = {
 export type OperationName = keyof typeof SYMMETRY_OPERATIONS
 
 /** Crystal systems of the point groups. */
-export type CrystalSystem = 'triclinic' | 'monoclinic' | 'orthorhombic' | 'tetragonal' | 'trigonal' | 'hexagonal' | 'cubic'
+export type CrystalSystem =
+  'triclinic' | 'monoclinic' | 'orthorhombic' | 'tetragonal' | 'trigonal' | 'hexagonal' | 'cubic'
 
 /** One row of the generator table. */
 export interface PointGroupEntry {

@@ -4,8 +4,10 @@ import { describeCircularHandedness, type ChannelResponse, type Multipole, type 
 const signed = (n: number): string => (n > 0 ? `+${n}` : n < 0 ? `−${-n}` : '0')
 
 export const PUMP_LABELS: Record<string, string> = {
-  'circular+1': 'Circular, m = +1', 'circular-1': 'Circular, m = −1',
-  'linear-along-flat': 'Linear along the flat (0°)', 'linear-across-flat': 'Linear across the flat (90°)',
+  'circular+1': 'Circular, m = +1',
+  'circular-1': 'Circular, m = −1',
+  'linear-along-flat': 'Linear along the flat (0°)',
+  'linear-across-flat': 'Linear across the flat (90°)',
 }
 export const ORDER_LABELS: Record<number, string> = { 2: 'SHG (2ω)', 3: 'THG (3ω)' }
 
@@ -29,7 +31,8 @@ export function formatNormal(r: ChannelResponse): { isAllowed: boolean; text: st
   if (n.suppressedByParity) return { isAllowed: false, text: 'm = ±1 allowed but the mirror parities cancel it' }
   const ms = n.m.map(signed).join(', ')
   if (n.handedness?.length) return { isAllowed: true, text: `Yes, ${n.handedness.join(' and ')} (m = ${ms})` }
-  if (n.polarizationDeg !== undefined) return { isAllowed: true, text: `Yes, linearly polarised at ${n.polarizationDeg}° from the flat` }
+  if (n.polarizationDeg !== undefined)
+    return { isAllowed: true, text: `Yes, linearly polarised at ${n.polarizationDeg}° from the flat` }
   return { isAllowed: true, text: `Yes (m = ${ms})` }
 }
 
@@ -42,7 +45,9 @@ export function formatMultipoles(list: Multipole[]): string[] {
   }
   return [...groups.entries()].map(([key, ms]) => {
     const abs = [...new Set(ms.map(Math.abs))].sort((a, b) => a - b)
-    const parts = abs.map((a) => (a === 0 ? '0' : ms.includes(a) && ms.includes(-a) ? `±${a}` : signed(ms.includes(a) ? a : -a)))
+    const parts = abs.map((a) =>
+      a === 0 ? '0' : ms.includes(a) && ms.includes(-a) ? `±${a}` : signed(ms.includes(a) ? a : -a),
+    )
     return `${key}(${parts.join(', ')})`
   })
 }

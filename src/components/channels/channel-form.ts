@@ -1,6 +1,11 @@
 import {
-  POINT_GROUP_SYMBOLS, deriveArraySymmetry, getPointGroup,
-  type LatticeKind, type PumpSpec, type ShapeKind, type StructureSymmetry,
+  POINT_GROUP_SYMBOLS,
+  deriveArraySymmetry,
+  getPointGroup,
+  type LatticeKind,
+  type PumpSpec,
+  type ShapeKind,
+  type StructureSymmetry,
 } from '../../../shared/engine'
 
 /** The calculator's form. Directions are typed as text: (hkl), [uvw], X/Y/Z, or "0, 0, 1" (Cartesian). */
@@ -23,14 +28,32 @@ export interface ChannelForm {
 }
 
 export const defaultChannelForm = (): ChannelForm => ({
-  pointGroup: '-43m', normal: '(001)', reference: '[110]', surface: false, structureMode: 'shape', shape: 'disk', shapeAzimuthDeg: 0,
-  lattice: 'single', rotationOrder: 0, mirrors: '', pump: { type: 'circular', m: 1 }, order: 2, lmax: 4, window: 8,
+  pointGroup: '-43m',
+  normal: '(001)',
+  reference: '[110]',
+  surface: false,
+  structureMode: 'shape',
+  shape: 'disk',
+  shapeAzimuthDeg: 0,
+  lattice: 'single',
+  rotationOrder: 0,
+  mirrors: '',
+  pump: { type: 'circular', m: 1 },
+  order: 2,
+  lmax: 4,
+  window: 8,
 })
 
 export const MATERIAL_PICKS = [
-  { name: 'GaAs', pointGroup: '-43m' }, { name: 'GaP', pointGroup: '-43m' }, { name: 'LiNbO₃', pointGroup: '3m' },
-  { name: 'BBO', pointGroup: '3m' }, { name: 'ZnO', pointGroup: '6mm' }, { name: 'GaN', pointGroup: '6mm' },
-  { name: 'MoS₂ (1 layer)', pointGroup: '-6m2' }, { name: 'α-quartz', pointGroup: '32' }, { name: 'KTP', pointGroup: 'mm2' },
+  { name: 'GaAs', pointGroup: '-43m' },
+  { name: 'GaP', pointGroup: '-43m' },
+  { name: 'LiNbO₃', pointGroup: '3m' },
+  { name: 'BBO', pointGroup: '3m' },
+  { name: 'ZnO', pointGroup: '6mm' },
+  { name: 'GaN', pointGroup: '6mm' },
+  { name: 'MoS₂ (1 layer)', pointGroup: '-6m2' },
+  { name: 'α-quartz', pointGroup: '32' },
+  { name: 'KTP', pointGroup: 'mm2' },
 ]
 
 /** Cut quick picks: normal + an in-plane reference direction (lab x). */
@@ -51,7 +74,11 @@ export function cutPicks(pointGroup: string): { label: string; normal: string; r
 }
 
 export function isCubic(pointGroup: string): boolean {
-  try { return getPointGroup(pointGroup).isCubic } catch { return false }
+  try {
+    return getPointGroup(pointGroup).isCubic
+  } catch {
+    return false
+  }
 }
 
 /** Point groups by crystal system, in table order. */
@@ -69,16 +96,24 @@ export function pointGroupsBySystem(): { system: string; symbols: string[] }[] {
 export function directionInput(text: string): string | number[] {
   const t = text.trim()
   if (/,/.test(t)) {
-    const parts = t.replace(/^[[(]|[\])]$/g, '').split(',').map((x) => Number(x.trim().replace('−', '-')))
+    const parts = t
+      .replace(/^[[(]|[\])]$/g, '')
+      .split(',')
+      .map((x) => Number(x.trim().replace('−', '-')))
     if (parts.length === 3 && parts.every(Number.isFinite)) return parts
   }
   return t
 }
 
-export const parseMirrors = (text: string) => text.split(/[,;\s]+/).filter(Boolean).map((x) => Number(x.replace('−', '-')))
+export const parseMirrors = (text: string) =>
+  text
+    .split(/[,;\s]+/)
+    .filter(Boolean)
+    .map((x) => Number(x.replace('−', '-')))
 
 /** Mirror list for a request: 'all' (a body of revolution) is sampled every 15°, as the session predictions do. */
-export const mirrorList = (s: StructureSymmetry) => (s.mirrors === 'all' ? Array.from({ length: 12 }, (_, k) => k * 15) : s.mirrors)
+export const mirrorList = (s: StructureSymmetry) =>
+  s.mirrors === 'all' ? Array.from({ length: 12 }, (_, k) => k * 15) : s.mirrors
 
 export function structureOf(f: ChannelForm): StructureSymmetry {
   if (f.structureMode === 'direct') return { rotationOrder: Number(f.rotationOrder), mirrors: parseMirrors(f.mirrors) }
@@ -90,7 +125,11 @@ export function toChannelRequest(f: ChannelForm) {
   const s = structureOf(f)
   return {
     crystal: { pointGroup: f.pointGroup, normal: directionInput(f.normal), reference: directionInput(f.reference) },
-    surface: f.surface, structure: { rotationOrder: s.rotationOrder, mirrors: mirrorList(s) },
-    pump: f.pump, order: f.order, lmax: f.lmax, window: f.window,
+    surface: f.surface,
+    structure: { rotationOrder: s.rotationOrder, mirrors: mirrorList(s) },
+    pump: f.pump,
+    order: f.order,
+    lmax: f.lmax,
+    window: f.window,
   }
 }

@@ -5,10 +5,15 @@ import { defaultChannelForm, type ChannelForm } from './channel-form'
 export function toQuery(f: ChannelForm): Record<string, string> {
   const d = defaultChannelForm()
   const q: Record<string, string> = {
-    pg: f.pointGroup, n: f.normal, ref: f.reference, N: String(f.order), pump: f.pump.type,
+    pg: f.pointGroup,
+    n: f.normal,
+    ref: f.reference,
+    N: String(f.order),
+    pump: f.pump.type,
   }
   if (f.surface) q.surface = '1'
-  if (f.structureMode === 'shape') Object.assign(q, { shape: f.shape, lat: f.lattice }, f.shapeAzimuthDeg ? { az: String(f.shapeAzimuthDeg) } : {})
+  if (f.structureMode === 'shape')
+    Object.assign(q, { shape: f.shape, lat: f.lattice }, f.shapeAzimuthDeg ? { az: String(f.shapeAzimuthDeg) } : {})
   else Object.assign(q, { rot: String(f.rotationOrder), mir: f.mirrors })
   if (f.pump.type === 'circular') q.m = String(f.pump.m)
   if (f.pump.type === 'linear') q.angle = String(f.pump.angle)
@@ -18,8 +23,12 @@ export function toQuery(f: ChannelForm): Record<string, string> {
   return q
 }
 
-const str = (v: LocationQuery[string]) => (Array.isArray(v) ? v[0] ?? undefined : v ?? undefined) as string | undefined
-const num = (v: LocationQuery[string], fallback: number) => { const x = Number(str(v)); return str(v) !== undefined && Number.isFinite(x) ? x : fallback }
+const str = (v: LocationQuery[string]) =>
+  (Array.isArray(v) ? (v[0] ?? undefined) : (v ?? undefined)) as string | undefined
+const num = (v: LocationQuery[string], fallback: number) => {
+  const x = Number(str(v))
+  return str(v) !== undefined && Number.isFinite(x) ? x : fallback
+}
 const sign = (v: LocationQuery[string]) => (num(v, 1) < 0 ? -1 : 1) as 1 | -1
 
 export function fromQuery(q: LocationQuery): ChannelForm {
@@ -30,8 +39,10 @@ export function fromQuery(q: LocationQuery): ChannelForm {
   f.reference = str(q.ref) ?? f.reference
   f.surface = str(q.surface) === '1'
   f.order = num(q.N, 2)
-  if (str(q.rot) !== undefined) Object.assign(f, { structureMode: 'direct', rotationOrder: num(q.rot, 0), mirrors: str(q.mir) ?? '' })
-  else Object.assign(f, { shape: str(q.shape) ?? 'disk', lattice: str(q.lat) ?? 'single', shapeAzimuthDeg: num(q.az, 0) })
+  if (str(q.rot) !== undefined)
+    Object.assign(f, { structureMode: 'direct', rotationOrder: num(q.rot, 0), mirrors: str(q.mir) ?? '' })
+  else
+    Object.assign(f, { shape: str(q.shape) ?? 'disk', lattice: str(q.lat) ?? 'single', shapeAzimuthDeg: num(q.az, 0) })
   const type = str(q.pump)
   if (type === 'linear') f.pump = { type, angle: num(q.angle, 0) }
   else if (type === 'vortex') f.pump = { type, spin: sign(q.spin), charge: num(q.l, 1) }

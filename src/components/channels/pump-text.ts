@@ -15,11 +15,16 @@ export const signedText = (n: number) => (n > 0 ? `+${n}` : n < 0 ? `−${-n}` :
 /** Short pump label for tables, e.g. "circular m = +1", "linear 45°", "vortex s = +1, ℓ = −2". */
 export function pumpLabel(pump: PumpSpec): string {
   switch (pump.type) {
-    case 'circular': return `circular m = ${signedText(pump.m)}`
-    case 'linear': return `linear ${pump.angle}°`
-    case 'vortex': return `vortex s = ${signedText(pump.spin)}, ℓ = ${signedText(pump.charge)}`
-    case 'explicit': return `m ∈ {${pump.m.map(signedText).join(', ')}}`
-    default: return pump.type
+    case 'circular':
+      return `circular m = ${signedText(pump.m)}`
+    case 'linear':
+      return `linear ${pump.angle}°`
+    case 'vortex':
+      return `vortex s = ${signedText(pump.spin)}, ℓ = ${signedText(pump.charge)}`
+    case 'explicit':
+      return `m ∈ {${pump.m.map(signedText).join(', ')}}`
+    default:
+      return pump.type
   }
 }
 

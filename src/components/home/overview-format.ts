@@ -18,17 +18,31 @@ export function bytesText(n: number | null): string {
   const units = ['B', 'kB', 'MB', 'GB', 'TB', 'PB']
   let i = 0
   let v = n
-  while (v >= 1000 && i < units.length - 1) { v /= 1000; i++ }
+  while (v >= 1000 && i < units.length - 1) {
+    v /= 1000
+    i++
+  }
   return `${formatNumber(v, 3)} ${units[i]}`
 }
 
 export const STEP_KINDS: Record<string, string> = {
-  resist: 'Resist', exposure: 'Exposure', etch: 'Etch', deposition: 'Deposition', lift_off: 'Lift-off', inspection: 'Inspection', other: 'Other step',
+  resist: 'Resist',
+  exposure: 'Exposure',
+  etch: 'Etch',
+  deposition: 'Deposition',
+  lift_off: 'Lift-off',
+  inspection: 'Inspection',
+  other: 'Other step',
 }
 
 export const SIGNOFF_WORDS: Record<string, string> = {
-  draft: 'draft', waiting: 'waiting for sign-off', approved: 'signed off', expired: 'sign-off expired', rejected: 'rejected',
-  revoked: 'sign-off revoked', voided: 'sign-off voided by a hazard change',
+  draft: 'draft',
+  waiting: 'waiting for sign-off',
+  approved: 'signed off',
+  expired: 'sign-off expired',
+  rejected: 'rejected',
+  revoked: 'sign-off revoked',
+  voided: 'sign-off voided by a hazard change',
 }
 
 /** "SHG at 1550 nm", "THG at 1560 nm". */

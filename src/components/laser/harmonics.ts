@@ -1,5 +1,8 @@
 /** Wavelengths generated from a pump wavelength: order N gives λ/N (vacuum wavelengths, nm). */
-export function harmonicsOf(wavelengthNm: number, orders: readonly number[] = [2, 3]): { order: number; wavelengthNm: number }[] {
+export function harmonicsOf(
+  wavelengthNm: number,
+  orders: readonly number[] = [2, 3],
+): { order: number; wavelengthNm: number }[] {
   return orders.map((order) => ({ order, wavelengthNm: Math.round((wavelengthNm / order) * 10) / 10 }))
 }
 

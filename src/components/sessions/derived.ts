@@ -33,7 +33,9 @@ export function formatSci(value: number | null, unit = ''): string {
   if (value === null || !Number.isFinite(value)) return '—'
   if (value === 0) return `0${unit ? ' ' + unit : ''}`
   const exp = Math.floor(Math.log10(Math.abs(value)))
-  const sup = String(exp).replace('-', '⁻').replace(/\d/g, (d) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(d)])
+  const sup = String(exp)
+    .replace('-', '⁻')
+    .replace(/\d/g, (d) => '⁰¹²³⁴⁵⁶⁷⁸⁹'[Number(d)])
   const mant = (value / 10 ** exp).toPrecision(3)
   return `${mant} × 10${sup}${unit ? ' ' + unit : ''}`
 }

@@ -2,7 +2,9 @@ import type { PumpSpec } from '../../../shared/engine'
 import type { SessionInput } from '../../../shared/schemas/records'
 import { OBSERVED_NORMAL } from '../../../shared/schemas/records'
 
-/** Form state of "Log a session". Units as the person types them; `toSessionInput` converts (MHz → Hz, pW/nW/µW → W). */
+/**
+ * Form state of "Log a session". Units as the person types them; `toSessionInput` converts (MHz → Hz, pW/nW/µW → W).
+ */
 export interface SessionForm {
   laserSetupId: number | null
   /** Local date-time, `YYYY-MM-DDTHH:mm`. */
@@ -56,19 +58,45 @@ function localNow(): string {
 
 export function emptySessionForm(): SessionForm {
   return {
-    laserSetupId: null, performedAt: localNow(), wavelengthNm: 1550, pulseDurationFs: null, repRateMhz: null, avgPowerMw: null,
-    spotDiameterUm: null, objectiveNa: null, pump: { type: 'circular', m: 1 }, harmonicOrder: 2, geometry: 'reflection',
-    collection: 'normal', analyser: '', detector: '', integrationS: null, filters: '', notes: '',
+    laserSetupId: null,
+    performedAt: localNow(),
+    wavelengthNm: 1550,
+    pulseDurationFs: null,
+    repRateMhz: null,
+    avgPowerMw: null,
+    spotDiameterUm: null,
+    objectiveNa: null,
+    pump: { type: 'circular', m: 1 },
+    harmonicOrder: 2,
+    geometry: 'reflection',
+    collection: 'normal',
+    analyser: '',
+    detector: '',
+    integrationS: null,
+    filters: '',
+    notes: '',
   }
 }
 
 export function newResult(arrayId: number, arrayCode: string): ResultForm {
-  return { arrayId, arrayCode, powerValue: null, powerUnit: 'nW', observedNormal: 'not_checked', observedM: '', notes: '' }
+  return {
+    arrayId,
+    arrayCode,
+    powerValue: null,
+    powerUnit: 'nW',
+    observedNormal: 'not_checked',
+    observedM: '',
+    notes: '',
+  }
 }
 
 /** "0, 4, −2" → [0, 4, -2] (accepts the typographic minus); non-integers are dropped. */
 export function parseMList(text: string): number[] {
-  return text.split(/[,;\s]+/).map((s) => s.replace('−', '-').replace(/^\+/, '')).filter((s) => /^-?\d+$/.test(s)).map(Number)
+  return text
+    .split(/[,;\s]+/)
+    .map((s) => s.replace('−', '-').replace(/^\+/, ''))
+    .filter((s) => /^-?\d+$/.test(s))
+    .map(Number)
 }
 
 const orNull = (v: number | null | string) => (v === null || v === '' || Number.isNaN(Number(v)) ? null : Number(v))
@@ -77,20 +105,35 @@ const textOrNull = (s: string) => (s.trim() ? s.trim() : null)
 export function toResultInput(r: ResultForm): SessionInput['results'][number] {
   const p = orNull(r.powerValue)
   return {
-    arrayId: r.arrayId, harmonicPowerW: p === null ? null : p * POWER_UNITS[r.powerUnit],
-    observedNormal: r.observedNormal, observedM: parseMList(r.observedM), notes: textOrNull(r.notes),
+    arrayId: r.arrayId,
+    harmonicPowerW: p === null ? null : p * POWER_UNITS[r.powerUnit],
+    observedNormal: r.observedNormal,
+    observedM: parseMList(r.observedM),
+    notes: textOrNull(r.notes),
   }
 }
 
 export function toSessionInput(f: SessionForm, results: ResultForm[]): Omit<SessionInput, 'safetyNotesRead'> {
   const rep = orNull(f.repRateMhz)
   return {
-    laserSetupId: f.laserSetupId ?? 0, performedAt: new Date(f.performedAt).toISOString(),
-    wavelengthNm: Number(f.wavelengthNm), pulseDurationFs: orNull(f.pulseDurationFs), repRateHz: rep === null ? null : rep * 1e6,
-    avgPowerMw: Number(f.avgPowerMw ?? 0), spotDiameterUm: orNull(f.spotDiameterUm), objectiveNa: orNull(f.objectiveNa),
-    pump: f.pump, harmonicOrder: f.harmonicOrder, geometry: f.geometry, collection: f.collection,
-    analyser: textOrNull(f.analyser), detector: textOrNull(f.detector), integrationS: orNull(f.integrationS),
-    filters: textOrNull(f.filters), notes: textOrNull(f.notes), results: results.map(toResultInput),
+    laserSetupId: f.laserSetupId ?? 0,
+    performedAt: new Date(f.performedAt).toISOString(),
+    wavelengthNm: Number(f.wavelengthNm),
+    pulseDurationFs: orNull(f.pulseDurationFs),
+    repRateHz: rep === null ? null : rep * 1e6,
+    avgPowerMw: Number(f.avgPowerMw ?? 0),
+    spotDiameterUm: orNull(f.spotDiameterUm),
+    objectiveNa: orNull(f.objectiveNa),
+    pump: f.pump,
+    harmonicOrder: f.harmonicOrder,
+    geometry: f.geometry,
+    collection: f.collection,
+    analyser: textOrNull(f.analyser),
+    detector: textOrNull(f.detector),
+    integrationS: orNull(f.integrationS),
+    filters: textOrNull(f.filters),
+    notes: textOrNull(f.notes),
+    results: results.map(toResultInput),
   }
 }
 

@@ -1,6 +1,9 @@
 import { describeRoleMatrix, EVERYONE, type MatrixRoute } from '../role-matrix'
 
-/** The analysis routes × roles: reading for everyone signed in; fits and spectra (which may save) for optics staff and admins. */
+/**
+ * The analysis routes × roles: reading for everyone signed in; fits and spectra (which may save) for optics staff and
+ * admins.
+ */
 const MATRIX: MatrixRoute[] = [
   { method: 'get', path: '/api/analysis/arrays/999999999/pattern', allowed: EVERYONE },
   { method: 'get', path: '/api/analysis/chips/999999999/pattern', allowed: EVERYONE },

@@ -15,12 +15,24 @@ beforeAll(async () => {
   t = await startTestApp()
   for (const role of ROLES) agents[role] = await signedInAs(t.app, role)
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 /** A wafer registered by the fab technician, then its notes changed once. */
 async function editedWafer(notes = `scratch near the flat ${uid()}`) {
   const { wafer, material } = await makeWafer(agents.fab_technician)
-  const body = { materialId: material.id, cutNormal: wafer.cutNormal, flatDirection: wafer.flatDirection, diameterMm: wafer.diameterMm, thicknessUm: wafer.thicknessUm, lot: wafer.lot, supplier: wafer.supplier, notes, reason: 'inspection' }
+  const body = {
+    materialId: material.id,
+    cutNormal: wafer.cutNormal,
+    flatDirection: wafer.flatDirection,
+    diameterMm: wafer.diameterMm,
+    thicknessUm: wafer.thicknessUm,
+    lot: wafer.lot,
+    supplier: wafer.supplier,
+    notes,
+    reason: 'inspection',
+  }
   const up = await agents.fab_technician.patch(`/api/wafers/${wafer.id}`).send(body)
   expect(up.status).toBe(200)
   return { wafer, notes }
@@ -33,7 +45,13 @@ describe('GET /api/audit/records/:entity/:id', () => {
     expect(res.status).toBe(200)
     expect(res.body.map((r: { action: string }) => r.action)).toEqual(['update', 'create'])
     const [upd, created] = res.body
-    expect(upd).toMatchObject({ entity: 'wafer', entityId: wafer.id, code: wafer.code, reason: 'inspection', user: { name: 'Tomasz Lindqvist' } })
+    expect(upd).toMatchObject({
+      entity: 'wafer',
+      entityId: wafer.id,
+      code: wafer.code,
+      reason: 'inspection',
+      user: { name: 'Tomasz Lindqvist' },
+    })
     expect(upd.changes).toEqual({ notes: { from: null, to: notes } })
     expect(created.changes.code.to).toBe(wafer.code)
     expect(Date.parse(upd.at)).toBeGreaterThanOrEqual(Date.parse(created.at))
@@ -53,11 +71,21 @@ describe('GET /api/audit/records/:entity/:id', () => {
   })
 
   it('never shows password hashes or invitation tokens, at any depth', async () => {
-    const [fab] = await t.db.select().from(users).where(eq(users.email, demoEmail('fab_technician')))
+    const [fab] = await t.db
+      .select()
+      .from(users)
+      .where(eq(users.email, demoEmail('fab_technician')))
     const hash = fab.passwordHash!
     await writeAudit(t.db, {
-      userId: null, entity: 'user', entityId: fab.id, action: 'other',
-      changes: { passwordHash: { from: hash, to: 'scrypt$new-secret' }, invitation: { from: null, to: { tokenHash: 'f00dfeed', token: 'raw-token-123', email: 'x@y' } }, password: { from: '(hidden)', to: '(changed)' } },
+      userId: null,
+      entity: 'user',
+      entityId: fab.id,
+      action: 'other',
+      changes: {
+        passwordHash: { from: hash, to: 'scrypt$new-secret' },
+        invitation: { from: null, to: { tokenHash: 'f00dfeed', token: 'raw-token-123', email: 'x@y' } },
+        password: { from: '(hidden)', to: '(changed)' },
+      },
     })
     const res = await agents.group_lead.get(`/api/audit/records/user/${fab.id}`)
     const text = JSON.stringify(res.body)
@@ -83,9 +111,16 @@ describe('GET /api/audit/search', () => {
     const lead = agents.group_lead
     const byCode = await lead.get(`/api/audit/search?code=${wafer.code.toLowerCase()}`)
     expect(byCode.body).toMatchObject({ total: 2, page: 1, pageSize: 25 })
-    expect(byCode.body.rows[0]).toMatchObject({ action: 'update', code: wafer.code, changes: { notes: { from: null } } })
+    expect(byCode.body.rows[0]).toMatchObject({
+      action: 'update',
+      code: wafer.code,
+      changes: { notes: { from: null } },
+    })
     expect((await lead.get(`/api/audit/search?entity=wafer&entityId=${wafer.id}&action=create`)).body.total).toBe(1)
-    const [fab] = await t.db.select().from(users).where(eq(users.email, demoEmail('fab_technician')))
+    const [fab] = await t.db
+      .select()
+      .from(users)
+      .where(eq(users.email, demoEmail('fab_technician')))
     expect((await lead.get(`/api/audit/search?userId=${fab.id}&code=${wafer.code}`)).body.total).toBe(2)
     expect((await lead.get(`/api/audit/search?userId=${fab.id + 100000}&code=${wafer.code}`)).body.total).toBe(0)
     expect((await lead.get(`/api/audit/search?code=${wafer.code}&q=notes&action=update`)).body.total).toBe(1)
@@ -98,7 +133,9 @@ describe('GET /api/audit/search', () => {
     const paged = await lead.get(`/api/audit/search?code=${wafer.code}&pageSize=1&page=2&sort=at&dir=desc`)
     expect(paged.body).toMatchObject({ total: 2, page: 2, pageSize: 1 })
     expect(paged.body.rows[0].action).toBe('create')
-    expect((await lead.get(`/api/audit/search?code=${wafer.code}&sort=action&dir=asc`)).body.rows[0].action).toBe('create')
+    expect((await lead.get(`/api/audit/search?code=${wafer.code}&sort=action&dir=asc`)).body.rows[0].action).toBe(
+      'create',
+    )
     expect((await lead.get('/api/audit/search?sort=user&dir=asc&pageSize=3')).status).toBe(200)
   })
 
@@ -116,7 +153,11 @@ describe('GET /api/audit/search', () => {
 })
 
 describe('the audit trail is append-only', () => {
-  type Layer = { route?: { path: string; methods: Record<string, boolean> }; handle?: { stack?: Layer[] }; match?: (p: string) => boolean }
+  type Layer = {
+    route?: { path: string; methods: Record<string, boolean> }
+    handle?: { stack?: Layer[] }
+    match?: (p: string) => boolean
+  }
   function methodsUnder(stack: Layer[], probe: string): string[] {
     const out: string[] = []
     for (const l of stack) {
@@ -136,20 +177,36 @@ describe('the audit trail is append-only', () => {
   it('no router mounted under /api/audit answers PATCH / PUT / DELETE / POST', async () => {
     const app = t.app as unknown as { router: { stack: Layer[] } }
     // routers mounted at /api/audit itself (not the /api-wide ones, which the HTTP probes below cover)
-    const onlyAudit = app.router.stack.filter((l) => l.handle?.stack && l.match?.('/api/audit/search') && !l.match?.('/api/not-audit'))
+    const onlyAudit = app.router.stack.filter(
+      (l) => l.handle?.stack && l.match?.('/api/audit/search') && !l.match?.('/api/not-audit'),
+    )
     expect(onlyAudit.length).toBe(1)
     expect(methodsUnder(onlyAudit, '/api/audit/search').filter((r) => !r.startsWith('get '))).toEqual([])
     for (const method of ['patch', 'put', 'delete', 'post'] as const) {
       for (const path of ['/api/audit/records/wafer/1', '/api/audit/search', '/api/audit/1']) {
-        expect([method, path, (await agents.admin[method](path).send({ reason: 'x' })).status]).toEqual([method, path, 404])
+        expect([method, path, (await agents.admin[method](path).send({ reason: 'x' })).status]).toEqual([
+          method,
+          path,
+          404,
+        ])
       }
     }
   })
 
   it('the database refuses UPDATE and DELETE on audit_log, even through SQL', async () => {
-    const [row] = await t.db.select({ id: auditLog.id, reason: auditLog.reason }).from(auditLog).orderBy(sql`${auditLog.id} desc`).limit(1)
-    const failure = (q: Promise<unknown>) => q.then(() => 'no error', (e: Error & { cause?: Error }) => `${e.message} ${e.cause?.message ?? ''}`)
-    expect(await failure(t.db.execute(sql`UPDATE audit_log SET reason = 'tampered' WHERE id = ${row.id}`))).toMatch(/append-only/)
+    const [row] = await t.db
+      .select({ id: auditLog.id, reason: auditLog.reason })
+      .from(auditLog)
+      .orderBy(sql`${auditLog.id} desc`)
+      .limit(1)
+    const failure = (q: Promise<unknown>) =>
+      q.then(
+        () => 'no error',
+        (e: Error & { cause?: Error }) => `${e.message} ${e.cause?.message ?? ''}`,
+      )
+    expect(await failure(t.db.execute(sql`UPDATE audit_log SET reason = 'tampered' WHERE id = ${row.id}`))).toMatch(
+      /append-only/,
+    )
     expect(await failure(t.db.execute(sql`DELETE FROM audit_log WHERE id = ${row.id}`))).toMatch(/append-only/)
     const [after] = await t.db.select({ reason: auditLog.reason }).from(auditLog).where(eq(auditLog.id, row.id))
     expect(after.reason).toBe(row.reason)

@@ -5,7 +5,6 @@ import path from 'node:path'
 import { randomUUID } from 'node:crypto'
 import ExcelJS from 'exceljs'
 import { eq, inArray, sql } from 'drizzle-orm'
-import type TestAgent from 'supertest/lib/agent'
 import { exportJobs } from '../../../server/db/schema/index'
 import { createFileStorage } from '../../../server/services/files/create-storage'
 import type { ExportJob } from '../../../shared/excel'
@@ -24,8 +23,13 @@ import { waitForExport } from '../../../server/services/excel/excel-export'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 const people: number[] = []
-beforeAll(async () => { t = await startTestApp() })
-afterAll(async () => { await retirePeople(t.db, people); await t.stop() })
+beforeAll(async () => {
+  t = await startTestApp()
+})
+afterAll(async () => {
+  await retirePeople(t.db, people)
+  await t.stop()
+})
 
 /** A new group lead, signed in on `app`. */
 async function newLead(signIn: typeof signedInAs = signedInAs, app = t.app) {
@@ -41,11 +45,22 @@ describe('two app servers, each with its own disk, sharing MariaDB and an S3 buc
   const fake = fakeS3(BUCKET)
   const dirs: string[] = []
   let other: Awaited<ReturnType<typeof startTestApp>> | undefined
-  afterAll(async () => { await other?.stop(); await fake.stop(); for (const d of dirs) await fs.rm(d, { recursive: true, force: true }) })
+  afterAll(async () => {
+    await other?.stop()
+    await fake.stop()
+    for (const d of dirs) await fs.rm(d, { recursive: true, force: true })
+  })
 
   it('a job started on one server is polled and downloaded through the other', async () => {
     const endpoint = await fake.start()
-    const s3 = { FILE_STORAGE: 's3', S3_ENDPOINT: endpoint, S3_BUCKET: BUCKET, S3_ACCESS_KEY_ID: 'k', S3_SECRET_ACCESS_KEY: 's', S3_PREFIX: 'blobs/' }
+    const s3 = {
+      FILE_STORAGE: 's3',
+      S3_ENDPOINT: endpoint,
+      S3_BUCKET: BUCKET,
+      S3_ACCESS_KEY_ID: 'k',
+      S3_SECRET_ACCESS_KEY: 's',
+      S3_PREFIX: 'blobs/',
+    }
     for (let i = 0; i < 2; i++) dirs.push(await fs.mkdtemp(path.join(os.tmpdir(), 'ovt-export-server-')))
     const first = await startTestApp({ ...s3, DATA_DIR: dirs[0] })
     try {
@@ -61,7 +76,17 @@ describe('two app servers, each with its own disk, sharing MariaDB and an S3 buc
       const start = await onFirst.post('/api/excel/exports').send({})
       expect(start.status).toBe(202)
       let job = start.body as ExportJob
-      expect(Object.keys(job)).toEqual(['id', 'phase', 'done', 'total', 'startedAt', 'finishedAt', 'fileName', 'sizeBytes', 'error'])
+      expect(Object.keys(job)).toEqual([
+        'id',
+        'phase',
+        'done',
+        'total',
+        'startedAt',
+        'finishedAt',
+        'fileName',
+        'sizeBytes',
+        'error',
+      ])
       expect(job).toMatchObject({ phase: 'queued', done: 0, total: 0, finishedAt: null, sizeBytes: null, error: null })
       for (let i = 0; i < 600 && !['done', 'failed'].includes(job.phase); i++) {
         await new Promise((r) => setTimeout(r, 20))
@@ -73,7 +98,10 @@ describe('two app servers, each with its own disk, sharing MariaDB and an S3 buc
       expect(job.done).toBe(job.total)
       expect(job.total).toBeGreaterThan(0)
 
-      const dl = await onOther.get(`/api/excel/exports/${job.id}/download`).buffer(true).parse(binary as never)
+      const dl = await onOther
+        .get(`/api/excel/exports/${job.id}/download`)
+        .buffer(true)
+        .parse(binary as never)
       expect(dl.status).toBe(200)
       expect(dl.headers['content-type']).toMatch(/spreadsheetml/)
       expect(dl.headers['content-disposition']).toContain(job.fileName)
@@ -81,12 +109,26 @@ describe('two app servers, each with its own disk, sharing MariaDB and an S3 buc
       expect(bytes.length).toBe(job.sizeBytes)
       const book = new ExcelJS.Workbook()
       await book.xlsx.load(bytes as unknown as ArrayBuffer)
-      expect(book.worksheets.map((w) => w.name)).toEqual(['About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'Fabrication', 'Laser setups', 'Moves', 'Files'])
+      expect(book.worksheets.map((w) => w.name)).toEqual([
+        'About',
+        'Materials',
+        'Wafers',
+        'Chips',
+        'Arrays',
+        'Sessions',
+        'Locations',
+        'Fabrication',
+        'Laser setups',
+        'Moves',
+        'Files',
+      ])
 
       // The workbook is in the bucket under its hash; neither server's disk keeps it.
       const row = await jobRow(job.id)
       expect(row.blobSha256).toMatch(/^[0-9a-f]{64}$/)
-      expect([...fake.objects.keys()]).toContain(`blobs/${row.blobSha256!.slice(0, 2)}/${row.blobSha256!.slice(2, 4)}/${row.blobSha256}`)
+      expect([...fake.objects.keys()]).toContain(
+        `blobs/${row.blobSha256!.slice(0, 2)}/${row.blobSha256!.slice(2, 4)}/${row.blobSha256}`,
+      )
       expect(await fs.readdir(path.join(dirs[0], 'exports'))).toEqual([])
       await expect(fs.readdir(path.join(dirs[1], 'exports'))).rejects.toMatchObject({ code: 'ENOENT' })
       // Another person is refused on either server.
@@ -105,11 +147,17 @@ describe('starting twice at once', () => {
     const other = await startTestApp()
     try {
       const onOther = await signedInAs(other.app, lead.email, NOTICE_PASSWORD)
-      const answers = await Promise.all([lead.agent.post('/api/excel/exports').send({}), onOther.post('/api/excel/exports').send({}), lead.agent.post('/api/excel/exports').send({})])
+      const answers = await Promise.all([
+        lead.agent.post('/api/excel/exports').send({}),
+        onOther.post('/api/excel/exports').send({}),
+        lead.agent.post('/api/excel/exports').send({}),
+      ])
       expect(answers.map((a) => a.status).sort()).toEqual([202, 409, 409])
       const started = answers.find((a) => a.status === 202)!.body as ExportJob
       expect((await waitForExport(t.db, started.id)).phase).toBe('done')
-    } finally { await other.stop() }
+    } finally {
+      await other.stop()
+    }
   })
 })
 
@@ -119,9 +167,23 @@ describe('a job whose app server stopped', () => {
     // A job row as a server leaves it when it dies while writing the Arrays sheet.
     const id = randomUUID()
     const now = new Date()
-    await t.db.insert(exportJobs).values({ id, userId, phase: 'Arrays', done: 40, total: 90, startedAt: now, fileName: 'overtone-inventory-x.xlsx', updatedAt: now })
+    await t.db.insert(exportJobs).values({
+      id,
+      userId,
+      phase: 'Arrays',
+      done: 40,
+      total: 90,
+      startedAt: now,
+      fileName: 'overtone-inventory-x.xlsx',
+      updatedAt: now,
+    })
     // While its row is fresh it counts as running: a second export of the same person is refused.
-    expect((await agent.get(`/api/excel/exports/${id}`)).body).toMatchObject({ phase: 'Arrays', done: 40, total: 90, error: null })
+    expect((await agent.get(`/api/excel/exports/${id}`)).body).toMatchObject({
+      phase: 'Arrays',
+      done: 40,
+      total: 90,
+      error: null,
+    })
     const refused = await agent.post('/api/excel/exports').send({})
     expect(refused.status).toBe(409)
     expect(refused.body.message).toMatch(/still running/)
@@ -155,14 +217,34 @@ describe('expiry', () => {
     // as an uploaded file names the same blob as that file's row.
     const fab = await signedInAs(t.app, 'fab_technician')
     const { chipId } = await makeSample(t.db)
-    const up = await fab.post('/api/files').field('entity', 'chip').field('entityId', String(chipId)).field('kind', 'spectrum')
+    const up = await fab
+      .post('/api/files')
+      .field('entity', 'chip')
+      .field('entityId', String(chipId))
+      .field('kind', 'spectrum')
       .attach('file', Buffer.from(`wavelength_nm,counts\n775,${Math.random()}\n776,3\n`), 'spectrum.csv')
     expect(up.status).toBe(201)
     const shared = randomUUID()
-    await t.db.insert(exportJobs).values({ id: shared, userId, phase: 'done', done: 1, total: 1, startedAt: new Date(), finishedAt: new Date(), fileName: 'overtone-inventory-y.xlsx', blobSha256: up.body.sha256, updatedAt: new Date() })
+    await t.db.insert(exportJobs).values({
+      id: shared,
+      userId,
+      phase: 'done',
+      done: 1,
+      total: 1,
+      startedAt: new Date(),
+      finishedAt: new Date(),
+      fileName: 'overtone-inventory-y.xlsx',
+      blobSha256: up.body.sha256,
+      updatedAt: new Date(),
+    })
 
     const ids = [job.id, shared]
-    await t.db.execute(sql`UPDATE export_jobs SET started_at = started_at - INTERVAL 61 MINUTE, finished_at = finished_at - INTERVAL 61 MINUTE, updated_at = updated_at - INTERVAL 61 MINUTE WHERE id IN (${sql.join(ids.map((i) => sql`${i}`), sql`, `)})`)
+    await t.db.execute(
+      sql`UPDATE export_jobs SET started_at = started_at - INTERVAL 61 MINUTE, finished_at = finished_at - INTERVAL 61 MINUTE, updated_at = updated_at - INTERVAL 61 MINUTE WHERE id IN (${sql.join(
+        ids.map((i) => sql`${i}`),
+        sql`, `,
+      )})`,
+    )
     // Expired: no longer served, even before a sweep has removed it.
     expect((await agent.get(`/api/excel/exports/${job.id}`)).status).toBe(404)
     expect((await agent.get(`/api/excel/exports/${job.id}/download`)).status).toBe(404)
@@ -173,7 +255,10 @@ describe('expiry', () => {
     expect(await t.db.select({ id: exportJobs.id }).from(exportJobs).where(inArray(exportJobs.id, ids))).toEqual([])
     expect(await storage.has(exported)).toBe(false)
     expect(await storage.has(up.body.sha256)).toBe(true)
-    const file = await fab.get(`/api/files/${up.body.id}/download`).buffer(true).parse(binary as never)
+    const file = await fab
+      .get(`/api/files/${up.body.id}/download`)
+      .buffer(true)
+      .parse(binary as never)
     expect(file.status).toBe(200)
     expect(String(file.body)).toMatch(/^wavelength_nm,counts/)
     // Let the export just started finish before the app stops.

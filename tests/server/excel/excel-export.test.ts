@@ -16,7 +16,9 @@ beforeAll(async () => {
   lead = agents.group_lead
   fab = agents.fab_technician
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 describe('inventory export', () => {
   it('writes About, Materials, Wafers, Chips, Arrays, Sessions and Locations with styled, frozen, filtered headers and date cells', async () => {
@@ -26,15 +28,41 @@ describe('inventory export', () => {
     const { job, book } = await runExport(lead)
     expect(job.fileName).toMatch(/^overtone-inventory-\d{8}-\d{4}\.xlsx$/)
     expect(job.done).toBe(job.total)
-    expect(book.worksheets.map((w) => w.name)).toEqual(['About', 'Materials', 'Wafers', 'Chips', 'Arrays', 'Sessions', 'Locations', 'Fabrication', 'Laser setups', 'Moves', 'Files'])
+    expect(book.worksheets.map((w) => w.name)).toEqual([
+      'About',
+      'Materials',
+      'Wafers',
+      'Chips',
+      'Arrays',
+      'Sessions',
+      'Locations',
+      'Fabrication',
+      'Laser setups',
+      'Moves',
+      'Files',
+    ])
     // read-only sheets: the demo lab's laser setups with their sign-off state
     const setups = book.getWorksheet('Laser setups')!
     const sHeader = (setups.getRow(1).values as unknown[]).slice(1)
-    expect(sHeader).toEqual(expect.arrayContaining(['Code', 'Laser class', 'Sign-off', 'Sessions may be logged today', 'Approval expires on']))
+    expect(sHeader).toEqual(
+      expect.arrayContaining([
+        'Code',
+        'Laser class',
+        'Sign-off',
+        'Sessions may be logged today',
+        'Approval expires on',
+      ]),
+    )
     expect(setups.rowCount).toBeGreaterThan(1)
-    expect(String(setups.getRow(2).getCell(sHeader.indexOf('Sign-off') + 1).value)).toMatch(/^(draft|waiting|approved|approval expired|rejected|revoked|voided)/)
-    expect((book.getWorksheet('Files')!.getRow(1).values as unknown[]).slice(1)).toEqual(expect.arrayContaining(['File name', 'SHA-256', 'Attached to']))
-    expect((book.getWorksheet('Moves')!.getRow(1).values as unknown[]).slice(1)).toEqual(expect.arrayContaining(['Code', 'From', 'To', 'Moved by']))
+    expect(String(setups.getRow(2).getCell(sHeader.indexOf('Sign-off') + 1).value)).toMatch(
+      /^(draft|waiting|approved|approval expired|rejected|revoked|voided)/,
+    )
+    expect((book.getWorksheet('Files')!.getRow(1).values as unknown[]).slice(1)).toEqual(
+      expect.arrayContaining(['File name', 'SHA-256', 'Attached to']),
+    )
+    expect((book.getWorksheet('Moves')!.getRow(1).values as unknown[]).slice(1)).toEqual(
+      expect.arrayContaining(['Code', 'From', 'To', 'Moved by']),
+    )
     for (const ws of book.worksheets) {
       expect(ws.views[0]).toMatchObject({ state: 'frozen', ySplit: 1 })
       expect(ws.getRow(1).getCell(1).font?.bold).toBe(true)
@@ -44,7 +72,9 @@ describe('inventory export', () => {
     const header = (wafers.getRow(1).values as unknown[]).slice(1)
     expect(header.slice(0, 3)).toEqual(['Code', 'Material', 'Cut normal'])
     let found: ExcelJS.Row | undefined
-    wafers.eachRow((row) => { if (row.getCell(1).value === wafer.code) found = row })
+    wafers.eachRow((row) => {
+      if (row.getCell(1).value === wafer.code) found = row
+    })
     expect(found).toBeTruthy()
     const received = found!.getCell(header.indexOf('Received on') + 1)
     expect(received.value).toBeInstanceOf(Date)
@@ -55,7 +85,9 @@ describe('inventory export', () => {
     expect(aHeader).toContain('SHG circular +1: allowed m')
     expect(aHeader).toContain('THG linear across flat: normal emission')
     let arow: ExcelJS.Row | undefined
-    arrays.eachRow((row) => { if (row.getCell(1).value === arr.body.code) arow = row })
+    arrays.eachRow((row) => {
+      if (row.getCell(1).value === arr.body.code) arow = row
+    })
     expect(arow!.getCell(aHeader.indexOf('Symmetry') + 1).value).toBe(arr.body.symmetry.name)
     expect(String(arow!.getCell(aHeader.indexOf('SHG circular +1: normal emission') + 1).value)).toMatch(/^(no|yes.*)$/)
     const about = book.getWorksheet('About')!
@@ -69,13 +101,19 @@ describe('inventory export', () => {
     expect((await admin.get(`/api/excel/exports/${job.id}`)).status).toBe(404)
     expect((await admin.get(`/api/excel/exports/${job.id}/download`)).status).toBe(404)
     expect((await lead.get('/api/excel/exports/not-a-uuid')).status).toBe(400)
-    const dl = await lead.get(`/api/excel/exports/${job.id}/download`).buffer(true).parse(binary as never)
+    const dl = await lead
+      .get(`/api/excel/exports/${job.id}/download`)
+      .buffer(true)
+      .parse(binary as never)
     expect(dl.headers['content-type']).toMatch(/spreadsheetml/)
     expect(dl.headers['content-disposition']).toMatch(/attachment; filename="?overtone-inventory-/)
   })
 
   it('template: Instructions, Wafers, Chips, Arrays with commented headers, drop-downs and an EXAMPLE row', async () => {
-    const res = await lead.get('/api/excel/template').buffer(true).parse(binary as never)
+    const res = await lead
+      .get('/api/excel/template')
+      .buffer(true)
+      .parse(binary as never)
     expect(res.status).toBe(200)
     const book = new ExcelJS.Workbook()
     await book.xlsx.load(res.body as ArrayBuffer)
@@ -110,6 +148,7 @@ describe('excel route × role matrix', () => {
   }
   it('POST /api/excel/exports: 401 anonymous, 403 for fab technicians and optics staff, 202 for a group lead', async () => {
     expect((await request(t.app).post('/api/excel/exports')).status).toBe(401)
-    for (const role of ['fab_technician', 'optics_staff', 'safety_officer'] as Role[]) expect((await agents[role].post('/api/excel/exports')).status).toBe(403)
+    for (const role of ['fab_technician', 'optics_staff', 'safety_officer'] as Role[])
+      expect((await agents[role].post('/api/excel/exports')).status).toBe(403)
   })
 })

@@ -5,7 +5,10 @@ import type { ExportJob } from '../../../shared/excel'
 import { startTestApp, signedInAs } from '../helpers'
 
 /** Helpers of the Excel tests: run an export to the end, read a downloaded workbook, upload a file. */
-export function binary(res: NodeJS.ReadableStream & { setEncoding: (e: string) => void; on: (e: string, f: (c?: unknown) => void) => void }, cb: (err: Error | null, body: Buffer) => void) {
+export function binary(
+  res: NodeJS.ReadableStream & { setEncoding: (e: string) => void; on: (e: string, f: (c?: unknown) => void) => void },
+  cb: (err: Error | null, body: Buffer) => void,
+) {
   const parts: Buffer[] = []
   res.on('data', (c) => parts.push(c as Buffer))
   res.on('end', () => cb(null, Buffer.concat(parts)))
@@ -20,7 +23,10 @@ export async function runExport(agent: TestAgent): Promise<{ job: ExportJob; boo
     job = (await agent.get(`/api/excel/exports/${job.id}`)).body
   }
   if (job.phase !== 'done') throw new Error(`export: ${JSON.stringify(job)}`)
-  const dl = await agent.get(`/api/excel/exports/${job.id}/download`).buffer(true).parse(binary as never)
+  const dl = await agent
+    .get(`/api/excel/exports/${job.id}/download`)
+    .buffer(true)
+    .parse(binary as never)
   const book = new ExcelJS.Workbook()
   await book.xlsx.load(dl.body as ArrayBuffer)
   return { job, book, bytes: dl.body as Buffer }
@@ -46,16 +52,23 @@ export async function startImportTestApp(env: Record<string, string> = {}) {
    * them all unchanged (the shared DB sees other people's activity, hence the audit filter).
    */
   async function counts() {
-    const [rows] = (await t.db.execute(sql`SELECT (SELECT count(*) FROM wafers) w, (SELECT count(*) FROM chips) c, (SELECT count(*) FROM arrays) a,
-      (SELECT count(*) FROM audit_log WHERE user_id = ${leadId} AND entity IN ('wafer', 'chip', 'array')) l`)) as unknown as [Record<string, number>[]]
+    const [rows] = (await t.db
+      .execute(sql`SELECT (SELECT count(*) FROM wafers) w, (SELECT count(*) FROM chips) c, (SELECT count(*) FROM arrays) a,
+      (SELECT count(*) FROM audit_log WHERE user_id = ${leadId} AND entity IN ('wafer', 'chip', 'array')) l`)) as unknown as [
+      Record<string, number>[],
+    ]
     return rows[0]
   }
   return { t, lead, fab, leadId, counts }
 }
 
 /** A workbook of the given sheets (header row, then rows), each visible unless `state` says otherwise. */
-export function workbookOf(sheets: Record<string, (ExcelJS.CellValue | object)[][]>, state: Record<string, ExcelJS.WorksheetState> = {}): ExcelJS.Workbook {
+export function workbookOf(
+  sheets: Record<string, (ExcelJS.CellValue | object)[][]>,
+  state: Record<string, ExcelJS.WorksheetState> = {},
+): ExcelJS.Workbook {
   const book = new ExcelJS.Workbook()
-  for (const [name, rows] of Object.entries(sheets)) book.addWorksheet(name, { state: state[name] ?? 'visible' }).addRows(rows as ExcelJS.CellValue[][])
+  for (const [name, rows] of Object.entries(sheets))
+    book.addWorksheet(name, { state: state[name] ?? 'visible' }).addRows(rows as ExcelJS.CellValue[][])
   return book
 }

@@ -32,28 +32,58 @@ beforeAll(async () => {
   officer = await signedInAs(t.app, 'safety_officer')
   chipId = (await makeSample(t.db)).chipId
 })
-afterAll(async () => { await t.stop(); fs.rmSync(dataDir, { recursive: true, force: true }) })
+afterAll(async () => {
+  await t.stop()
+  fs.rmSync(dataDir, { recursive: true, force: true })
+})
 
 const upload = (who: TestAgent, data: Buffer, name: string, kind: string) =>
-  who.post('/api/files').field('entity', 'chip').field('entityId', String(chipId)).field('kind', kind).attach('file', data, name)
+  who
+    .post('/api/files')
+    .field('entity', 'chip')
+    .field('entityId', String(chipId))
+    .field('kind', kind)
+    .attach('file', data, name)
 const csv = () => Buffer.from(`x;y\n1;${Math.random()}\n2;${Math.random()}\n3;4\n`)
 const randomPng = (w: number, h: number) =>
-  sharp(Buffer.from(Array.from({ length: w * h * 3 }, () => Math.floor(Math.random() * 256))), { raw: { width: w, height: h, channels: 3 } }).png().toBuffer()
+  sharp(Buffer.from(Array.from({ length: w * h * 3 }, () => Math.floor(Math.random() * 256))), {
+    raw: { width: w, height: h, channels: 3 },
+  })
+    .png()
+    .toBuffer()
 
 /** A whole, valid PNG of w × h pixels, 1-bit grey, all black: tiny on disk however large its area. */
 function hugePng(w: number, h: number): Buffer {
-  const crcTable = Array.from({ length: 256 }, (_, n) => { let c = n; for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1; return c >>> 0 })
-  const crc = (b: Buffer) => { let c = 0xffffffff; for (const x of b) c = crcTable[(c ^ x) & 0xff] ^ (c >>> 8); return (c ^ 0xffffffff) >>> 0 }
+  const crcTable = Array.from({ length: 256 }, (_, n) => {
+    let c = n
+    for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1
+    return c >>> 0
+  })
+  const crc = (b: Buffer) => {
+    let c = 0xffffffff
+    for (const x of b) c = crcTable[(c ^ x) & 0xff] ^ (c >>> 8)
+    return (c ^ 0xffffffff) >>> 0
+  }
   const chunk = (type: string, data: Buffer) => {
     const td = Buffer.concat([Buffer.from(type, 'ascii'), data])
-    const len = Buffer.alloc(4); len.writeUInt32BE(data.length)
-    const c = Buffer.alloc(4); c.writeUInt32BE(crc(td))
+    const len = Buffer.alloc(4)
+    len.writeUInt32BE(data.length)
+    const c = Buffer.alloc(4)
+    c.writeUInt32BE(crc(td))
     return Buffer.concat([len, td, c])
   }
   const ihdr = Buffer.alloc(13)
-  ihdr.writeUInt32BE(w, 0); ihdr.writeUInt32BE(h, 4); ihdr[8] = 1; ihdr[9] = 0
+  ihdr.writeUInt32BE(w, 0)
+  ihdr.writeUInt32BE(h, 4)
+  ihdr[8] = 1
+  ihdr[9] = 0
   const raw = Buffer.alloc((1 + Math.ceil(w / 8)) * h) // filter byte 0 + packed zero bits per row
-  return Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), chunk('IDAT', zlib.deflateSync(raw, { level: 9 })), chunk('IEND', Buffer.alloc(0))])
+  return Buffer.concat([
+    Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]),
+    chunk('IHDR', ihdr),
+    chunk('IDAT', zlib.deflateSync(raw, { level: 9 })),
+    chunk('IEND', Buffer.alloc(0)),
+  ])
 }
 
 describe('upload names', () => {
@@ -72,7 +102,13 @@ describe('retiring a file', () => {
     expect(other.status).toBe(403)
     expect(other.body.message).toMatch(/uploaded this file, a group lead or an administrator/)
     expect((await officer.post(`/api/files/${ids[0]}/retire`).send({ reason: 'not mine' })).status).toBe(403)
-    expect((await t.pool.query('SELECT retired_at FROM files WHERE id = ?', [ids[0]]) as unknown as [{ retired_at: Date | null }[]])[0][0].retired_at).toBeNull()
+    expect(
+      (
+        (await t.pool.query('SELECT retired_at FROM files WHERE id = ?', [ids[0]])) as unknown as [
+          { retired_at: Date | null }[],
+        ]
+      )[0][0].retired_at,
+    ).toBeNull()
     expect((await fab.post(`/api/files/${ids[0]}/retire`).send({ reason: 'my own, wrong chip' })).status).toBe(200)
     expect((await lead.post(`/api/files/${ids[1]}/retire`).send({ reason: 'group lead tidies up' })).status).toBe(200)
     expect((await admin.post(`/api/files/${ids[2]}/retire`).send({ reason: 'administrator' })).status).toBe(200)
@@ -81,7 +117,9 @@ describe('retiring a file', () => {
   it('the client hides Retire by the same rule', () => {
     const f = { uploadedBy: { id: 7 } }
     expect(defineAbilityFor({ id: 7, roles: ['optics_staff'] }).can('retire', fileSubject(f))).toBe(true)
-    expect(defineAbilityFor({ id: 8, roles: ['optics_staff', 'fab_technician'] }).can('retire', fileSubject(f))).toBe(false)
+    expect(defineAbilityFor({ id: 8, roles: ['optics_staff', 'fab_technician'] }).can('retire', fileSubject(f))).toBe(
+      false,
+    )
     expect(defineAbilityFor({ id: 8, roles: ['safety_officer'] }).can('retire', fileSubject(f))).toBe(false)
     expect(defineAbilityFor({ id: 8, roles: ['group_lead'] }).can('retire', fileSubject(f))).toBe(true)
     expect(defineAbilityFor({ id: 8, roles: ['admin'] }).can('retire', fileSubject(f))).toBe(true)

@@ -26,19 +26,31 @@ beforeAll(async () => {
   chipId = (await makeSample(t.db)).chipId
   // A real PNG with random pixels (so its hash is unique to this run).
   const raw = Buffer.from(Array.from({ length: 64 * 48 * 3 }, () => Math.floor(Math.random() * 256)))
-  png = await sharp(raw, { raw: { width: 64, height: 48, channels: 3 } }).png().toBuffer()
+  png = await sharp(raw, { raw: { width: 64, height: 48, channels: 3 } })
+    .png()
+    .toBuffer()
 })
-afterAll(async () => { await t.stop(); fs.rmSync(dataDir, { recursive: true, force: true }) })
+afterAll(async () => {
+  await t.stop()
+  fs.rmSync(dataDir, { recursive: true, force: true })
+})
 
 const upload = (data: Buffer, name: string, kind: string, entity = 'chip', entityId: number | string = chipId) =>
-  fab.post('/api/files').field('entity', entity).field('entityId', String(entityId)).field('kind', kind).attach('file', data, name)
+  fab
+    .post('/api/files')
+    .field('entity', entity)
+    .field('entityId', String(entityId))
+    .field('kind', kind)
+    .attach('file', data, name)
 
 /** A synthetic spectrum: Gaussian peak at 775 nm, semicolon-separated with decimal commas, plus a header. */
 function spectrumCsv(n: number): Buffer {
   const lines = ['Wavelength (nm);Counts (a.u.)']
   for (let i = 0; i < n; i++) {
     const x = 700 + (150 * i) / n
-    lines.push(`${x.toFixed(3).replace('.', ',')};${(1000 * Math.exp(-(((x - 775) / 2) ** 2)) + Math.random()).toFixed(2).replace('.', ',')}`)
+    lines.push(
+      `${x.toFixed(3).replace('.', ',')};${(1000 * Math.exp(-(((x - 775) / 2) ** 2)) + Math.random()).toFixed(2).replace('.', ',')}`,
+    )
   }
   lines.push('end of data;;')
   return Buffer.from(lines.join('\r\n'))
@@ -48,9 +60,24 @@ describe('POST /api/files', () => {
   it('accepts a real PNG as SEM, stores it by hash with an audit row, and previews it', async () => {
     const res = await upload(png, 'disk array B2.png', 'sem')
     expect(res.status).toBe(201)
-    expect(res.body).toMatchObject({ mime: 'image/png', kind: 'sem', entity: 'chip', entityId: chipId, originalName: 'disk array B2.png', hasPreview: true, sizeBytes: png.length })
-    expect(fs.existsSync(path.join(dataDir, 'uploads', res.body.sha256.slice(0, 2), res.body.sha256.slice(2, 4), res.body.sha256))).toBe(true)
-    const [audit] = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'file'), eq(auditLog.entityId, res.body.id)))
+    expect(res.body).toMatchObject({
+      mime: 'image/png',
+      kind: 'sem',
+      entity: 'chip',
+      entityId: chipId,
+      originalName: 'disk array B2.png',
+      hasPreview: true,
+      sizeBytes: png.length,
+    })
+    expect(
+      fs.existsSync(
+        path.join(dataDir, 'uploads', res.body.sha256.slice(0, 2), res.body.sha256.slice(2, 4), res.body.sha256),
+      ),
+    ).toBe(true)
+    const [audit] = await t.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'file'), eq(auditLog.entityId, res.body.id)))
     expect(audit.action).toBe('create')
     const preview = await lead.get(`/api/files/${res.body.id}/preview`).buffer(true)
     expect(preview.status).toBe(200)
@@ -87,7 +114,11 @@ describe('POST /api/files', () => {
     expect(Object.keys(bad.body.fields)).toEqual(expect.arrayContaining(['entity', 'entityId', 'kind']))
     const missing = await upload(png, 'x.png', 'sem', 'wafer', 999999999)
     expect(missing.body.fields.entityId).toEqual(['No such wafer'])
-    const noFile = await fab.post('/api/files').field('entity', 'chip').field('entityId', String(chipId)).field('kind', 'sem')
+    const noFile = await fab
+      .post('/api/files')
+      .field('entity', 'chip')
+      .field('entityId', String(chipId))
+      .field('kind', 'sem')
     expect(noFile.body.fields.file).toEqual(['Choose a file to upload'])
   })
 
@@ -135,8 +166,14 @@ describe('GET /api/files…', () => {
     const sweep = '# polarisation sweep\nangle;I\n0;1,5\n10;2,5\n20;3,5\n'
     expect(readDataTable(sweep)!.rows).toEqual(parseTable(sweep).rows)
     expect(readDataTable(sweep)!.columns).toEqual(['angle', 'I'])
-    expect(readDataTable('x,y\n1,2\n3,4\n')!.rows).toEqual([[1, 2], [3, 4]])
-    expect(readDataTable('1\t2,5\n3\t4,5\n')!.rows).toEqual([[1, 2.5], [3, 4.5]])
+    expect(readDataTable('x,y\n1,2\n3,4\n')!.rows).toEqual([
+      [1, 2],
+      [3, 4],
+    ])
+    expect(readDataTable('1\t2,5\n3\t4,5\n')!.rows).toEqual([
+      [1, 2.5],
+      [3, 4.5],
+    ])
     expect(readDataTable('one column\n1\n2\n3\n')).toBeNull()
     expect(readDataTable('only,one row\n1,2\n')).toBeNull()
   })
@@ -150,7 +187,9 @@ describe('GET /api/files…', () => {
     expect((await fab.post(`/api/files/${f.id}/retire`).send({})).body.fields.reason).toBeTruthy()
     expect((await fab.post(`/api/files/${f.id}/retire`).send({ reason: 'Wrong array' })).status).toBe(200)
     expect((await lead.get(`/api/files?entity=array&entityId=${s.arrays[0].id}`)).body).toEqual([])
-    expect((await lead.get(`/api/files?entity=array&entityId=${s.arrays[0].id}&includeRetired=true`)).body).toHaveLength(1)
+    expect(
+      (await lead.get(`/api/files?entity=array&entityId=${s.arrays[0].id}&includeRetired=true`)).body,
+    ).toHaveLength(1)
     expect((await lead.get('/api/files/999999999')).status).toBe(404)
     expect((await lead.get('/api/files/999999999/download')).status).toBe(404)
     expect((await lead.get('/api/files?entity=planet&entityId=1')).status).toBe(400)

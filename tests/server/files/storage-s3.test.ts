@@ -22,10 +22,15 @@ async function filesUnder(root: string): Promise<string[]> {
   const out: string[] = []
   async function walk(dir: string) {
     let entries
-    try { entries = await fs.readdir(dir, { withFileTypes: true }) } catch { return }
+    try {
+      entries = await fs.readdir(dir, { withFileTypes: true })
+    } catch {
+      return
+    }
     for (const e of entries) {
       const p = path.join(dir, e.name)
-      if (e.isDirectory()) await walk(p); else out.push(path.relative(root, p).split(path.sep).join('/'))
+      if (e.isDirectory()) await walk(p)
+      else out.push(path.relative(root, p).split(path.sep).join('/'))
     }
   }
   await walk(root)
@@ -71,43 +76,56 @@ interface Harness {
 let localRoot = ''
 
 const harnesses: [string, Harness][] = [
-  ['LocalDiskStorage', {
-    prefix: '',
-    make() {
-      localRoot = path.join(tmp, `data-${randomBytes(4).toString('hex')}`)
-      const storage = createFileStorage(localRoot)
-      expect(storage).toBeInstanceOf(LocalDiskStorage)
-      return storage
+  [
+    'LocalDiskStorage',
+    {
+      prefix: '',
+      make() {
+        localRoot = path.join(tmp, `data-${randomBytes(4).toString('hex')}`)
+        const storage = createFileStorage(localRoot)
+        expect(storage).toBeInstanceOf(LocalDiskStorage)
+        return storage
+      },
+      stored: () => filesUnder(path.join(localRoot, 'uploads')),
+      async fingerprint() {
+        const stats = await Promise.all(
+          (await filesUnder(path.join(localRoot, 'uploads'))).map((f) => fs.stat(path.join(localRoot, 'uploads', f))),
+        )
+        return stats.map((s) => `${s.ino}:${s.mtimeMs}`).join()
+      },
+      async backdate() {
+        const past = new Date('2001-01-01T00:00:00Z')
+        for (const f of await filesUnder(path.join(localRoot, 'uploads')))
+          await fs.utimes(path.join(localRoot, 'uploads', f), past, past)
+      },
+      requests: () => 0,
     },
-    stored: () => filesUnder(path.join(localRoot, 'uploads')),
-    async fingerprint() {
-      const stats = await Promise.all((await filesUnder(path.join(localRoot, 'uploads'))).map((f) => fs.stat(path.join(localRoot, 'uploads', f))))
-      return stats.map((s) => `${s.ino}:${s.mtimeMs}`).join()
+  ],
+  [
+    'S3Storage',
+    {
+      prefix: PREFIX,
+      make() {
+        fake.objects.clear()
+        fake.seen.length = 0
+        const env = loadFileStorageEnv({
+          FILE_STORAGE: 's3',
+          S3_ENDPOINT: endpoint,
+          S3_BUCKET: BUCKET,
+          S3_ACCESS_KEY_ID: 'test-key',
+          S3_SECRET_ACCESS_KEY: 'test-secret',
+          S3_PREFIX: PREFIX,
+        })
+        const storage = createFileStorage(path.join(tmp, 'unused'), env)
+        expect(storage).toBeInstanceOf(S3Storage)
+        return storage
+      },
+      stored: async () => [...fake.objects.keys()].sort(),
+      fingerprint: async () => String(fake.seen.filter((r) => r.method === 'PUT').length),
+      backdate: async () => {},
+      requests: () => fake.seen.length,
     },
-    async backdate() {
-      const past = new Date('2001-01-01T00:00:00Z')
-      for (const f of await filesUnder(path.join(localRoot, 'uploads'))) await fs.utimes(path.join(localRoot, 'uploads', f), past, past)
-    },
-    requests: () => 0,
-  }],
-  ['S3Storage', {
-    prefix: PREFIX,
-    make() {
-      fake.objects.clear()
-      fake.seen.length = 0
-      const env = loadFileStorageEnv({
-        FILE_STORAGE: 's3', S3_ENDPOINT: endpoint, S3_BUCKET: BUCKET, S3_ACCESS_KEY_ID: 'test-key',
-        S3_SECRET_ACCESS_KEY: 'test-secret', S3_PREFIX: PREFIX,
-      })
-      const storage = createFileStorage(path.join(tmp, 'unused'), env)
-      expect(storage).toBeInstanceOf(S3Storage)
-      return storage
-    },
-    stored: async () => [...fake.objects.keys()].sort(),
-    fingerprint: async () => String(fake.seen.filter((r) => r.method === 'PUT').length),
-    backdate: async () => {},
-    requests: () => fake.seen.length,
-  }],
+  ],
 ]
 
 describe.each(harnesses)('FileStorage contract: %s', (_name, h) => {
@@ -160,7 +178,9 @@ describe.each(harnesses)('FileStorage contract: %s', (_name, h) => {
     expect(await storage.has(gone.sha256)).toBe(false)
     await expect(storage.get(gone.sha256)).rejects.toMatchObject({ code: 'ENOENT' })
     await expect(storage.read(gone.sha256)).rejects.toMatchObject({ code: 'ENOENT' })
-    expect(await h.stored()).toEqual([`${h.prefix}${keep.sha256.slice(0, 2)}/${keep.sha256.slice(2, 4)}/${keep.sha256}`])
+    expect(await h.stored()).toEqual([
+      `${h.prefix}${keep.sha256.slice(0, 2)}/${keep.sha256.slice(2, 4)}/${keep.sha256}`,
+    ])
     expect((await storage.read(keep.sha256)).toString()).toBe('kept: a spectrum someone uploaded\n')
     await expect(storage.remove(gone.sha256)).resolves.toBeUndefined()
     await expect(storage.remove(sha(Buffer.from('never stored')))).resolves.toBeUndefined()
@@ -173,7 +193,15 @@ describe.each(harnesses)('FileStorage contract: %s', (_name, h) => {
     const storage = h.make()
     const before = h.requests()
     const good = sha(Buffer.from('x'))
-    for (const bad of ['../../etc/passwd', `../${good.slice(3)}`, good.toUpperCase(), good.slice(1), `${good}/`, `${good}\0`, '']) {
+    for (const bad of [
+      '../../etc/passwd',
+      `../${good.slice(3)}`,
+      good.toUpperCase(),
+      good.slice(1),
+      `${good}/`,
+      `${good}\0`,
+      '',
+    ]) {
       await expect(storage.has(bad)).rejects.toThrow(/not a sha256/)
       await expect(storage.get(bad)).rejects.toThrow(/not a sha256/)
       await expect(storage.read(bad)).rejects.toThrow(/not a sha256/)
@@ -202,21 +230,38 @@ describe('S3Storage on the wire', () => {
     expect(obj.meta['x-amz-meta-sha256']).toBe(sha256)
     fake.seen.length = 0
     await storage.remove(sha256)
-    expect(fake.seen.map((r) => [r.method, r.path])).toEqual([['DELETE', `/${BUCKET}/${PREFIX}${sha256.slice(0, 2)}/${sha256.slice(2, 4)}/${sha256}`]])
+    expect(fake.seen.map((r) => [r.method, r.path])).toEqual([
+      ['DELETE', `/${BUCKET}/${PREFIX}${sha256.slice(0, 2)}/${sha256.slice(2, 4)}/${sha256}`],
+    ])
     expect(fake.seen[0].authorization.startsWith('AWS4-HMAC-SHA256')).toBe(true)
     expect(fake.objects.size).toBe(0)
   })
 
   it('makes no request until first used', async () => {
     fake.seen.length = 0
-    createFileStorage(tmp, loadFileStorageEnv({ FILE_STORAGE: 's3', S3_ENDPOINT: endpoint, S3_BUCKET: BUCKET, S3_ACCESS_KEY_ID: 'k', S3_SECRET_ACCESS_KEY: 's' }))
+    createFileStorage(
+      tmp,
+      loadFileStorageEnv({
+        FILE_STORAGE: 's3',
+        S3_ENDPOINT: endpoint,
+        S3_BUCKET: BUCKET,
+        S3_ACCESS_KEY_ID: 'k',
+        S3_SECRET_ACCESS_KEY: 's',
+      }),
+    )
     // A request would start in a later turn of the event loop at the earliest: let those pass.
     for (let i = 0; i < 10; i++) await new Promise((r) => setImmediate(r))
     expect(fake.seen).toHaveLength(0)
   })
 
   it('a missing bucket is an error, not a missing blob', async () => {
-    const storage = new S3Storage({ endpoint, region: 'us-east-1', bucket: 'no-such-bucket', accessKeyId: 'k', secretAccessKey: 's' })
+    const storage = new S3Storage({
+      endpoint,
+      region: 'us-east-1',
+      bucket: 'no-such-bucket',
+      accessKeyId: 'k',
+      secretAccessKey: 's',
+    })
     await expect(storage.get(sha(Buffer.from('x')))).rejects.toMatchObject({ name: 'NoSuchBucket' })
   })
 })
@@ -234,15 +279,36 @@ describe('FILE_STORAGE configuration', () => {
 
   it('FILE_STORAGE=s3 without bucket or keys fails loadEnv naming what is missing', () => {
     expect(() => loadEnv({ ...base, FILE_STORAGE: 's3' })).toThrow(/S3_BUCKET/)
-    expect(() => loadEnv({ ...base, FILE_STORAGE: 's3', S3_BUCKET: 'b' })).toThrow(/S3_ACCESS_KEY_ID[\s\S]*S3_SECRET_ACCESS_KEY/)
-    expect(() => loadEnv({ ...base, FILE_STORAGE: 's3', S3_ACCESS_KEY_ID: 'k', S3_SECRET_ACCESS_KEY: 's' })).toThrow(/S3_BUCKET is required when FILE_STORAGE=s3/)
+    expect(() => loadEnv({ ...base, FILE_STORAGE: 's3', S3_BUCKET: 'b' })).toThrow(
+      /S3_ACCESS_KEY_ID[\s\S]*S3_SECRET_ACCESS_KEY/,
+    )
+    expect(() => loadEnv({ ...base, FILE_STORAGE: 's3', S3_ACCESS_KEY_ID: 'k', S3_SECRET_ACCESS_KEY: 's' })).toThrow(
+      /S3_BUCKET is required when FILE_STORAGE=s3/,
+    )
     expect(() => loadFileStorageEnv({ FILE_STORAGE: 's3' })).toThrow(/S3_BUCKET/)
     expect(() => loadEnv({ ...base, FILE_STORAGE: 'ftp' })).toThrow(/FILE_STORAGE/)
-    expect(() => loadEnv({ ...base, FILE_STORAGE: 's3', S3_BUCKET: 'b', S3_ACCESS_KEY_ID: 'k', S3_SECRET_ACCESS_KEY: 's', S3_ENDPOINT: 'not a url' })).toThrow(/S3_ENDPOINT/)
+    expect(() =>
+      loadEnv({
+        ...base,
+        FILE_STORAGE: 's3',
+        S3_BUCKET: 'b',
+        S3_ACCESS_KEY_ID: 'k',
+        S3_SECRET_ACCESS_KEY: 's',
+        S3_ENDPOINT: 'not a url',
+      }),
+    ).toThrow(/S3_ENDPOINT/)
   })
 
   it('FILE_STORAGE=s3 with bucket and keys loads and chooses S3Storage', () => {
-    const env = loadEnv({ ...base, FILE_STORAGE: 's3', S3_ENDPOINT: 'http://127.0.0.1:9000', S3_BUCKET: 'b', S3_ACCESS_KEY_ID: 'k', S3_SECRET_ACCESS_KEY: 's', S3_PREFIX: 'p/' })
+    const env = loadEnv({
+      ...base,
+      FILE_STORAGE: 's3',
+      S3_ENDPOINT: 'http://127.0.0.1:9000',
+      S3_BUCKET: 'b',
+      S3_ACCESS_KEY_ID: 'k',
+      S3_SECRET_ACCESS_KEY: 's',
+      S3_PREFIX: 'p/',
+    })
     const storage = createFileStorage(tmp, env)
     expect(storage).toBeInstanceOf(S3Storage)
     expect((storage as S3Storage).keyOf('a'.repeat(64))).toBe(`p/aa/aa/${'a'.repeat(64)}`)

@@ -3,7 +3,17 @@ import request from 'supertest'
 import type TestAgent from 'supertest/lib/agent'
 import { count, eq, gte, isNull, sql } from 'drizzle-orm'
 import {
-  arrays, auditLog, chips, files, laserSetupSignoffs, laserSetups, locations, mailQueue, measurementSessions, users, wafers,
+  arrays,
+  auditLog,
+  chips,
+  files,
+  laserSetupSignoffs,
+  laserSetups,
+  locations,
+  mailQueue,
+  measurementSessions,
+  users,
+  wafers,
 } from '../../../server/db/schema/index'
 import { hazardHash } from '../../../server/services/laser-safety/setup-hazards'
 import { startTestApp, signedInAs, createPerson, demoEmail, uniqueEmail } from '../helpers'
@@ -18,9 +28,12 @@ let t: Awaited<ReturnType<typeof startTestApp>>
 const agents: Record<string, TestAgent> = {}
 beforeAll(async () => {
   t = await startTestApp()
-  for (const role of ['fab_technician', 'optics_staff', 'safety_officer', 'group_lead', 'admin'] as const) agents[role] = await signedInAs(t.app, role)
+  for (const role of ['fab_technician', 'optics_staff', 'safety_officer', 'group_lead', 'admin'] as const)
+    agents[role] = await signedInAs(t.app, role)
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 const overviewOf = async (agent: TestAgent): Promise<Overview> => {
   const res = await agent.get('/api/overview')
@@ -43,7 +56,11 @@ describe('GET /api/overview: who sees which panel', () => {
 
   it('gives each demo person only the panel of their role', async () => {
     const expected: Record<string, string[]> = {
-      fab_technician: ['fab'], optics_staff: ['optics'], safety_officer: ['safety'], group_lead: ['lead'], admin: ['admin'],
+      fab_technician: ['fab'],
+      optics_staff: ['optics'],
+      safety_officer: ['safety'],
+      group_lead: ['lead'],
+      admin: ['admin'],
     }
     for (const [role, panels] of Object.entries(expected)) {
       const o = await overviewOf(agents[role])
@@ -64,28 +81,60 @@ describe('fab technician panel', () => {
   it('counts chips in process, steps of the last 7 days and wafers/chips whose label was never printed', async () => {
     const before = (await overviewOf(agents.fab_technician)).panels.fab!
     const s = await makeSample(t.db)
-    const [{ id: chip2 }] = await t.db.insert(chips).values({ code: `${s.chipCode.slice(0, -3)}-02`, waferId: s.waferId, index: 2, widthMm: 5, heightMm: 5, status: 'in_process' }).$returningId()
+    const [{ id: chip2 }] = await t.db
+      .insert(chips)
+      .values({
+        code: `${s.chipCode.slice(0, -3)}-02`,
+        waferId: s.waferId,
+        index: 2,
+        widthMm: 5,
+        heightMm: 5,
+        status: 'in_process',
+      })
+      .$returningId()
     await t.db.update(chips).set({ status: 'in_process' }).where(eq(chips.id, s.chipId))
-    const step = await agents.fab_technician.post(`/api/chips/${s.chipId}/fab-steps`)
-      .send({ chipId: s.chipId, kind: 'inspection', params: { tool: 'optical microscope' }, performedAt: new Date(Date.now() - 60_000).toISOString() })
+    const step = await agents.fab_technician.post(`/api/chips/${s.chipId}/fab-steps`).send({
+      chipId: s.chipId,
+      kind: 'inspection',
+      params: { tool: 'optical microscope' },
+      performedAt: new Date(Date.now() - 60_000).toISOString(),
+    })
     expect(step.status).toBe(201)
     // A step performed 8 days ago is not "recent".
-    await agents.fab_technician.post(`/api/chips/${s.chipId}/fab-steps`)
-      .send({ chipId: s.chipId, kind: 'inspection', params: {}, performedAt: new Date(Date.now() - 8 * 86400_000).toISOString() })
+    await agents.fab_technician.post(`/api/chips/${s.chipId}/fab-steps`).send({
+      chipId: s.chipId,
+      kind: 'inspection',
+      params: {},
+      performedAt: new Date(Date.now() - 8 * 86400_000).toISOString(),
+    })
 
     const after = (await overviewOf(agents.fab_technician)).panels.fab!
     expect(after.inProcess.total).toBe(before.inProcess.total + 2)
     expect(after.inProcess.items.map((c) => c.id)).toEqual(expect.arrayContaining([s.chipId, chip2]))
     expect(after.recentSteps.total).toBe(before.recentSteps.total + 1)
-    expect(after.recentSteps.items[0]).toMatchObject({ id: step.body.id, chipId: s.chipId, chipCode: s.chipCode, kind: 'inspection', operator: 'Tomasz Lindqvist' })
+    expect(after.recentSteps.items[0]).toMatchObject({
+      id: step.body.id,
+      chipId: s.chipId,
+      chipCode: s.chipCode,
+      kind: 'inspection',
+      operator: 'Tomasz Lindqvist',
+    })
     // New wafer + two chips, none printed yet.
     expect(after.unlabelled.total).toBe(before.unlabelled.total + 3)
-    expect(after.unlabelled.items.slice(0, 3).map((i) => i.kind).sort()).toEqual(['chip', 'chip', 'wafer'])
-    for (const list of [after.inProcess, after.recentSteps, after.unlabelled]) expect(list.items.length).toBeLessThanOrEqual(10)
+    expect(
+      after.unlabelled.items
+        .slice(0, 3)
+        .map((i) => i.kind)
+        .sort(),
+    ).toEqual(['chip', 'chip', 'wafer'])
+    for (const list of [after.inProcess, after.recentSteps, after.unlabelled])
+      expect(list.items.length).toBeLessThanOrEqual(10)
 
     // "Print now" on the print page records a print job: those codes are no longer unprinted.
     const [w] = await t.db.select({ code: wafers.code }).from(wafers).where(eq(wafers.id, s.waferId))
-    const job = await agents.fab_technician.post('/api/labels/jobs').send({ template: 'chip-box', codes: [s.chipCode, w.code] })
+    const job = await agents.fab_technician
+      .post('/api/labels/jobs')
+      .send({ template: 'chip-box', codes: [s.chipCode, w.code] })
     expect(job.status).toBe(201)
     const printed = (await overviewOf(agents.fab_technician)).panels.fab!
     expect(printed.unlabelled.total).toBe(after.unlabelled.total - 2)
@@ -108,7 +157,13 @@ describe('optics staff panel', () => {
     // GaAs (001), flat along [110]; single disks (a body of revolution). SHG selection rules for a
     // body of revolution of a -43m crystal on (001) (Frizyuk et al., Phys. Rev. B 99, 075425 (2019)):
     // a circular pump with m = +1 gives SH only with m ∈ {0, 4}, so nothing along the normal.
-    const s = await makeSample(t.db, { arrays: [{ shape: 'disk', lattice: 'single' }, { shape: 'disk', lattice: 'single' }, { shape: 'disk', lattice: 'single' }] })
+    const s = await makeSample(t.db, {
+      arrays: [
+        { shape: 'disk', lattice: 'single' },
+        { shape: 'disk', lattice: 'single' },
+        { shape: 'disk', lattice: 'single' },
+      ],
+    })
     const [a1, a2] = s.arrays
     const afterSample = (await overviewOf(agents.optics_staff)).panels.optics!
     expect(afterSample.neverMeasured.total).toBe(before.neverMeasured.total + 3)
@@ -123,7 +178,12 @@ describe('optics staff panel', () => {
 
     const after = (await overviewOf(agents.optics_staff)).panels.optics!
     expect(after.mySessions.total).toBe(before.mySessions.total + 2)
-    expect(after.mySessions.items.slice(0, 2).map((x) => x.id).sort()).toEqual([consistent.body.id, flagged.body.id].sort())
+    expect(
+      after.mySessions.items
+        .slice(0, 2)
+        .map((x) => x.id)
+        .sort(),
+    ).toEqual([consistent.body.id, flagged.body.id].sort())
     expect(after.mySessions.items.every((x) => x.operator === 'Priya Halvorsen')).toBe(true)
     expect(after.flagged.total).toBe(before.flagged.total + 1)
     const f = after.flagged.items.find((x) => x.id === flagged.body.id)!
@@ -140,12 +200,16 @@ describe('optics staff panel', () => {
     expect([...expiries].sort()).toEqual(expiries)
   })
 
-  it('does not count another person\'s sessions as mine', async () => {
+  it("does not count another person's sessions as mine", async () => {
     const setup = await makeLaserSetup(t.db)
     const s = await makeSample(t.db, { arrays: [{ shape: 'disk', lattice: 'single' }] })
     const other = await createPerson(t.db, ['optics_staff'], 'optics2')
     const before = (await overviewOf(agents.optics_staff)).panels.optics!
-    const res = await (await signedInAs(t.app, other.email)).post('/api/sessions').send(sessionBody(setup.id, [s.arrays[0].id]))
+    const res = await (
+      await signedInAs(t.app, other.email)
+    )
+      .post('/api/sessions')
+      .send(sessionBody(setup.id, [s.arrays[0].id]))
     expect(res.status).toBe(201)
     const after = (await overviewOf(agents.optics_staff)).panels.optics!
     expect(after.mySessions.total).toBe(before.mySessions.total)
@@ -157,8 +221,18 @@ async function setupWithSignoff(expiresOn: string | null) {
   const s = await makeLaserSetup(t.db, false, 'none')
   if (expiresOn) {
     const [row] = await t.db.select().from(laserSetups).where(eq(laserSetups.id, s.id))
-    const [safety] = await t.db.select().from(users).where(eq(users.email, demoEmail('safety_officer')))
-    await t.db.insert(laserSetupSignoffs).values({ setupId: s.id, decision: 'approved', byId: safety.id, expiresOn, note: 'test', hazardHash: hazardHash(row) })
+    const [safety] = await t.db
+      .select()
+      .from(users)
+      .where(eq(users.email, demoEmail('safety_officer')))
+    await t.db.insert(laserSetupSignoffs).values({
+      setupId: s.id,
+      decision: 'approved',
+      byId: safety.id,
+      expiresOn,
+      note: 'test',
+      hazardHash: hazardHash(row),
+    })
   }
   return s
 }
@@ -175,8 +249,18 @@ describe('safety officer panel', () => {
     expect(session.status).toBe(201)
     // Its sign-off lapses after the session was logged (a later decision row, as a renewal that ran out would leave).
     const [row] = await t.db.select().from(laserSetups).where(eq(laserSetups.id, lapsing.id))
-    const [safety] = await t.db.select().from(users).where(eq(users.email, demoEmail('safety_officer')))
-    await t.db.insert(laserSetupSignoffs).values({ setupId: lapsing.id, decision: 'approved', byId: safety.id, expiresOn: day(-1), note: 'lapsed', hazardHash: hazardHash(row) })
+    const [safety] = await t.db
+      .select()
+      .from(users)
+      .where(eq(users.email, demoEmail('safety_officer')))
+    await t.db.insert(laserSetupSignoffs).values({
+      setupId: lapsing.id,
+      decision: 'approved',
+      byId: safety.id,
+      expiresOn: day(-1),
+      note: 'lapsed',
+      hazardHash: hazardHash(row),
+    })
 
     const after = (await overviewOf(agents.safety_officer)).panels.safety!
     expect(after.waiting.total).toBe(before.waiting.total + 1)
@@ -188,17 +272,31 @@ describe('safety officer panel', () => {
     expect(after.expired.total).toBe(before.expired.total + 1)
     expectListed(after.expired, lapsing.id)
     expect(after.lapsedSessions.total).toBe(before.lapsedSessions.total + 1)
-    expect(after.lapsedSessions.items.find((x) => x.id === session.body.id)).toMatchObject({ setupId: lapsing.id, setupState: 'expired', setupExpiresOn: day(-1) })
+    expect(after.lapsedSessions.items.find((x) => x.id === session.body.id)).toMatchObject({
+      setupId: lapsing.id,
+      setupState: 'expired',
+      setupExpiresOn: day(-1),
+    })
   })
 })
 
 describe('group lead panel', () => {
-  it('counts the inventory in use and the week\'s audit trail, and offers the export', async () => {
+  it("counts the inventory in use and the week's audit trail, and offers the export", async () => {
     const lead = (await overviewOf(agents.group_lead)).panels.lead!
     const n = async (q: Promise<{ n: number }[]>) => Number((await q)[0].n)
     expect(lead.counts).toEqual({
-      wafers: await n(t.db.select({ n: count() }).from(wafers).where(sql`${wafers.status} NOT IN ('used_up', 'retired')`)),
-      chips: await n(t.db.select({ n: count() }).from(chips).where(sql`${chips.status} NOT IN ('used_up', 'retired')`)),
+      wafers: await n(
+        t.db
+          .select({ n: count() })
+          .from(wafers)
+          .where(sql`${wafers.status} NOT IN ('used_up', 'retired')`),
+      ),
+      chips: await n(
+        t.db
+          .select({ n: count() })
+          .from(chips)
+          .where(sql`${chips.status} NOT IN ('used_up', 'retired')`),
+      ),
       chipsInProcess: await n(t.db.select({ n: count() }).from(chips).where(eq(chips.status, 'in_process'))),
       arrays: await n(t.db.select({ n: count() }).from(arrays).where(isNull(arrays.retiredAt))),
       sessions: await n(t.db.select({ n: count() }).from(measurementSessions)),
@@ -207,18 +305,28 @@ describe('group lead panel', () => {
     })
     const since = new Date(Date.now() - 7 * 86400_000)
     expect(lead.activity.total).toBeGreaterThan(0)
-    expect(lead.activity.total).toBeLessThanOrEqual(await n(t.db.select({ n: count() }).from(auditLog).where(gte(auditLog.at, since))))
+    expect(lead.activity.total).toBeLessThanOrEqual(
+      await n(t.db.select({ n: count() }).from(auditLog).where(gte(auditLog.at, since))),
+    )
     expect(Object.values(lead.activity.byAction).reduce((a, b) => a + b, 0)).toBe(lead.activity.total)
     expect(lead.activity.items.length).toBe(Math.min(10, lead.activity.total))
     expect(lead.canExport).toBe(true)
 
     // One more change shows at the top of the week's activity, with its code.
     const s = await makeSample(t.db)
-    const res = await agents.fab_technician.patch(`/api/chips/${s.chipId}`).send({ notes: 'overview test', reason: 'overview test' })
+    const res = await agents.fab_technician
+      .patch(`/api/chips/${s.chipId}`)
+      .send({ notes: 'overview test', reason: 'overview test' })
     expect(res.status).toBe(200)
     const next = (await overviewOf(agents.group_lead)).panels.lead!
     expect(next.activity.total).toBe(lead.activity.total + 1)
-    expect(next.activity.items[0]).toMatchObject({ entity: 'chip', entityId: s.chipId, code: s.chipCode, action: 'update', user: 'Tomasz Lindqvist' })
+    expect(next.activity.items[0]).toMatchObject({
+      entity: 'chip',
+      entityId: s.chipId,
+      code: s.chipCode,
+      action: 'update',
+      user: 'Tomasz Lindqvist',
+    })
   })
 })
 
@@ -226,14 +334,27 @@ describe('administrator panel', () => {
   it('counts pending invitations, undelivered mail and the stored files', async () => {
     const before = (await overviewOf(agents.admin)).panels.admin!
     const email = uniqueEmail('invitee')
-    const inv = await agents.admin.post('/api/users/invite').send({ email, name: 'Overview Invitee', roles: ['optics_staff'] })
+    const inv = await agents.admin
+      .post('/api/users/invite')
+      .send({ email, name: 'Overview Invitee', roles: ['optics_staff'] })
     expect(inv.status).toBe(201)
     // An invitation whose link ran out is counted apart.
     const lapsedEmail = uniqueEmail('lapsed')
-    const inv2 = await agents.admin.post('/api/users/invite').send({ email: lapsedEmail, name: 'Lapsed Invitee', roles: ['fab_technician'] })
+    const inv2 = await agents.admin
+      .post('/api/users/invite')
+      .send({ email: lapsedEmail, name: 'Lapsed Invitee', roles: ['fab_technician'] })
     expect(inv2.status).toBe(201)
-    await t.db.execute(sql`UPDATE invitations SET expires_at = ${new Date(Date.now() - 1000)} WHERE user_id = ${inv2.body.user.id}`)
-    await t.db.insert(mailQueue).values({ toAddress: 'nobody@kestrel-lab.example', subject: 'Overview test failed', textBody: 'x', status: 'failed', attempts: 5, lastError: 'refused' })
+    await t.db.execute(
+      sql`UPDATE invitations SET expires_at = ${new Date(Date.now() - 1000)} WHERE user_id = ${inv2.body.user.id}`,
+    )
+    await t.db.insert(mailQueue).values({
+      toAddress: 'nobody@kestrel-lab.example',
+      subject: 'Overview test failed',
+      textBody: 'x',
+      status: 'failed',
+      attempts: 5,
+      lastError: 'refused',
+    })
 
     const after = (await overviewOf(agents.admin)).panels.admin!
     expect(after.invitations.total).toBe(before.invitations.total + 1)
@@ -242,15 +363,25 @@ describe('administrator panel', () => {
     // Two invitation mails queued (the worker is not ticked here) and one given up.
     expect(after.undelivered.total).toBe(before.undelivered.total + 3)
     expect(after.undelivered.failed).toBe(before.undelivered.failed + 1)
-    expect(after.undelivered.items.find((m) => m.subject === 'Overview test failed')).toMatchObject({ status: 'failed', attempts: 5 })
+    expect(after.undelivered.items.find((m) => m.subject === 'Overview test failed')).toMatchObject({
+      status: 'failed',
+      attempts: 5,
+    })
     // Delivered mail is not listed.
     await t.worker.tick()
     const sent = (await overviewOf(agents.admin)).panels.admin!
     expect(sent.undelivered.total).toBe(after.undelivered.total - 2)
 
     // Storage holds each content once, also of retired files (they are never deleted).
-    const blobs = await t.db.select({ sha: files.sha256, size: sql<number>`MAX(${files.sizeBytes})` }).from(files).groupBy(files.sha256)
-    expect(after.storage).toMatchObject({ kind: 'local', files: blobs.length, bytes: blobs.reduce((a, b) => a + Number(b.size), 0) })
+    const blobs = await t.db
+      .select({ sha: files.sha256, size: sql<number>`MAX(${files.sizeBytes})` })
+      .from(files)
+      .groupBy(files.sha256)
+    expect(after.storage).toMatchObject({
+      kind: 'local',
+      files: blobs.length,
+      bytes: blobs.reduce((a, b) => a + Number(b.size), 0),
+    })
     expect(after.storage.freeBytes).toBeGreaterThan(0)
   })
 
@@ -266,4 +397,3 @@ describe('administrator panel', () => {
     expect(JSON.stringify(fab)).not.toContain('invitations')
   })
 })
-

@@ -5,14 +5,21 @@ import { disk, makeChip, makeWafer } from '../inventory-helpers'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 let fab: TestAgent
-beforeAll(async () => { t = await startTestApp(); fab = await signedInAs(t.app, 'fab_technician') })
-afterAll(async () => { await t.stop() })
+beforeAll(async () => {
+  t = await startTestApp()
+  fab = await signedInAs(t.app, 'fab_technician')
+})
+afterAll(async () => {
+  await t.stop()
+})
 
 describe('chips and fab steps', () => {
   it('dices several chips in one go; numbering continues after existing chips', async () => {
     const { wafer } = await makeWafer(fab)
     const n = wafer.code.slice(2)
-    const a = await fab.post(`/api/wafers/${wafer.id}/dice`).send({ count: 3, widthMm: 5, heightMm: 5, rotationDeg: 45 })
+    const a = await fab
+      .post(`/api/wafers/${wafer.id}/dice`)
+      .send({ count: 3, widthMm: 5, heightMm: 5, rotationDeg: 45 })
     expect(a.status).toBe(201)
     expect(a.body.chips.map((c: { code: string }) => c.code)).toEqual([`C-${n}-01`, `C-${n}-02`, `C-${n}-03`])
     expect(a.body.chips[0].rotationDeg).toBe(45)
@@ -26,10 +33,14 @@ describe('chips and fab steps', () => {
     const over = await fab.post(`/api/wafers/${wafer.id}/dice`).send({ count: 5, widthMm: 1, heightMm: 1 })
     expect(over.status).toBe(400)
     expect(over.body.fields.count[0]).toMatch(/at most 4 more/)
-    const badLoc = await fab.post(`/api/wafers/${wafer.id}/dice`).send({ count: 2, widthMm: 1, heightMm: 1, locationId: 999999 })
+    const badLoc = await fab
+      .post(`/api/wafers/${wafer.id}/dice`)
+      .send({ count: 2, widthMm: 1, heightMm: 1, locationId: 999999 })
     expect(badLoc.body.fields).toHaveProperty('locationId')
     expect((await fab.get(`/api/wafers/${wafer.id}`)).body.chipCount).toBe(95)
-    expect((await fab.post('/api/wafers/999999/dice').send({ count: 1, widthMm: 1, heightMm: 1 })).body.fields).toHaveProperty('waferId')
+    expect(
+      (await fab.post('/api/wafers/999999/dice').send({ count: 1, widthMm: 1, heightMm: 1 })).body.fields,
+    ).toHaveProperty('waferId')
   })
 
   it('update is audited; rotating a chip with arrays needs a reason; retire needs a reason', async () => {
@@ -41,7 +52,10 @@ describe('chips and fab steps', () => {
     const noReason = await fab.patch(`/api/chips/${chip.id}`).send({ rotationDeg: 90 })
     expect(noReason.status).toBe(400)
     expect(noReason.body.fields).toHaveProperty('reason')
-    expect((await fab.patch(`/api/chips/${chip.id}`).send({ rotationDeg: 90, reason: 'remeasured against the flat' })).body.rotationDeg).toBe(90)
+    expect(
+      (await fab.patch(`/api/chips/${chip.id}`).send({ rotationDeg: 90, reason: 'remeasured against the flat' })).body
+        .rotationDeg,
+    ).toBe(90)
     expect((await fab.post(`/api/chips/${chip.id}/retire`).send({})).body.fields).toHaveProperty('reason')
     expect((await fab.post(`/api/chips/${chip.id}/retire`).send({ reason: 'lost' })).body.status).toBe('retired')
     expect((await fab.get('/api/chips/999999')).status).toBe(404)
@@ -49,11 +63,20 @@ describe('chips and fab steps', () => {
 
   it('records fab steps with the signed-in operator; detail includes arrays and steps', async () => {
     const { chip, wafer } = await makeChip(fab)
-    const s = await fab.post(`/api/chips/${chip.id}/fab-steps`).send({ kind: 'exposure', params: { doseUcPerCm2: 220, tool: 'EBL 100 kV' }, performedAt: '2025-06-01T10:00:00Z' })
+    const s = await fab.post(`/api/chips/${chip.id}/fab-steps`).send({
+      kind: 'exposure',
+      params: { doseUcPerCm2: 220, tool: 'EBL 100 kV' },
+      performedAt: '2025-06-01T10:00:00Z',
+    })
     expect(s.status).toBe(201)
     expect(s.body.operator.name).toBe('Tomasz Lindqvist')
-    expect((await fab.post(`/api/chips/${chip.id}/fab-steps`).send({ kind: 'bake', performedAt: 'x' })).body.fields).toHaveProperty('kind')
-    expect((await fab.post(`/api/chips/${chip.id}/fab-steps`).send({ kind: 'etch', performedAt: '2999-01-01T00:00:00Z' })).body.fields).toHaveProperty('performedAt')
+    expect(
+      (await fab.post(`/api/chips/${chip.id}/fab-steps`).send({ kind: 'bake', performedAt: 'x' })).body.fields,
+    ).toHaveProperty('kind')
+    expect(
+      (await fab.post(`/api/chips/${chip.id}/fab-steps`).send({ kind: 'etch', performedAt: '2999-01-01T00:00:00Z' }))
+        .body.fields,
+    ).toHaveProperty('performedAt')
     expect((await fab.get('/api/chips/999999/fab-steps')).status).toBe(404)
     await fab.post('/api/arrays').send(disk(chip.id))
     const d = await fab.get(`/api/chips/${chip.id}`)

@@ -5,14 +5,31 @@ import { makeMaterial, uid } from '../inventory-helpers'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 let fab: TestAgent, optics: TestAgent
-beforeAll(async () => { t = await startTestApp(); fab = await signedInAs(t.app, 'fab_technician'); optics = await signedInAs(t.app, 'optics_staff') })
-afterAll(async () => { await t.stop() })
+beforeAll(async () => {
+  t = await startTestApp()
+  fab = await signedInAs(t.app, 'fab_technician')
+  optics = await signedInAs(t.app, 'optics_staff')
+})
+afterAll(async () => {
+  await t.stop()
+})
 
-const coef = (component: string, valuePmV: number, wavelengthNm = 1064) => ({ component, order: 2, valuePmV, wavelengthNm, source: 'test', isTypical: true })
+const coef = (component: string, valuePmV: number, wavelengthNm = 1064) => ({
+  component,
+  order: 2,
+  valuePmV,
+  wavelengthNm,
+  source: 'test',
+  isTypical: true,
+})
 
 describe('materials', () => {
   it('creates a material and shows the engine d-matrix form beside the numbers', async () => {
-    const m = await makeMaterial(fab, { pointGroup: '3m', name: `LN ${uid()}`, coefficients: [coef('d33', 25.2), coef('d31', 4.6), coef('d22', 2.1)] })
+    const m = await makeMaterial(fab, {
+      pointGroup: '3m',
+      name: `LN ${uid()}`,
+      coefficients: [coef('d33', 25.2), coef('d31', 4.6), coef('d22', 2.1)],
+    })
     expect(m.code).toBeUndefined()
     const res = await optics.get(`/api/materials/${m.id}`)
     expect(res.status).toBe(200)
@@ -33,27 +50,48 @@ describe('materials', () => {
   })
 
   it('rejects a χ(2) component the point group forbids, naming the group and the allowed ones', async () => {
-    const res = await fab.post('/api/materials').send({ name: `Bad ${uid()}`, formula: 'GaAs', pointGroup: '-43m', coefficients: [coef('d14', 100), coef('d33', 5)] })
+    const res = await fab.post('/api/materials').send({
+      name: `Bad ${uid()}`,
+      formula: 'GaAs',
+      pointGroup: '-43m',
+      coefficients: [coef('d14', 100), coef('d33', 5)],
+    })
     expect(res.status).toBe(400)
-    expect(res.body.fields['coefficients.1.component'][0]).toMatch(/-43m.*forbids d33.*allowed components: d14, d25, d36/)
+    expect(res.body.fields['coefficients.1.component'][0]).toMatch(
+      /-43m.*forbids d33.*allowed components: d14, d25, d36/,
+    )
   })
 
   it('rejects any χ(2) for a centrosymmetric class', async () => {
-    const res = await fab.post('/api/materials').send({ name: `Si ${uid()}`, formula: 'Si', pointGroup: 'm-3m', coefficients: [coef('d14', 1)] })
+    const res = await fab
+      .post('/api/materials')
+      .send({ name: `Si ${uid()}`, formula: 'Si', pointGroup: 'm-3m', coefficients: [coef('d14', 1)] })
     expect(res.status).toBe(400)
     expect(res.body.fields['coefficients.0.component'][0]).toMatch(/centrosymmetric/)
   })
 
   it('rejects tied components with different values at the same wavelength (but not at different wavelengths)', async () => {
-    const bad = await fab.post('/api/materials').send({ name: `Tie ${uid()}`, formula: 'GaAs', pointGroup: '-43m', coefficients: [coef('d14', 100), coef('d36', 90)] })
+    const bad = await fab.post('/api/materials').send({
+      name: `Tie ${uid()}`,
+      formula: 'GaAs',
+      pointGroup: '-43m',
+      coefficients: [coef('d14', 100), coef('d36', 90)],
+    })
     expect(bad.status).toBe(400)
     expect(bad.body.fields['coefficients.1.valuePmV'][0]).toMatch(/d14 = d25 = d36/)
-    const ok = await fab.post('/api/materials').send({ name: `Tie ${uid()}`, formula: 'GaAs', pointGroup: '-43m', coefficients: [coef('d14', 100), coef('d36', 90, 1550)] })
+    const ok = await fab.post('/api/materials').send({
+      name: `Tie ${uid()}`,
+      formula: 'GaAs',
+      pointGroup: '-43m',
+      coefficients: [coef('d14', 100), coef('d36', 90, 1550)],
+    })
     expect(ok.status).toBe(201)
   })
 
   it('field-level 400s, 404, duplicate name, update with audit, retire needs a reason', async () => {
-    expect((await fab.post('/api/materials').send({ name: '', pointGroup: 'x' })).body.fields).toHaveProperty('pointGroup')
+    expect((await fab.post('/api/materials').send({ name: '', pointGroup: 'x' })).body.fields).toHaveProperty(
+      'pointGroup',
+    )
     expect((await fab.get('/api/materials/999999')).status).toBe(404)
     const m = await makeMaterial(fab)
     expect((await fab.post('/api/materials').send({ ...m, id: undefined })).status).toBe(409)

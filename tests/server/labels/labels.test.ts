@@ -20,11 +20,17 @@ beforeAll(async () => {
   sample = await makeSample(t.db)
   waferCode = sample.chipCode.replace(/^C-(.*)-01$/, 'W-$1')
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 /** Rasterise an SVG (librsvg through sharp) at 300 dpi and read its QR code with jsqr. */
 async function decodeSvg(svg: string): Promise<string | undefined> {
-  const { data, info } = await sharp(Buffer.from(svg), { density: 300 }).flatten({ background: '#fff' }).ensureAlpha().raw().toBuffer({ resolveWithObject: true })
+  const { data, info } = await sharp(Buffer.from(svg), { density: 300 })
+    .flatten({ background: '#fff' })
+    .ensureAlpha()
+    .raw()
+    .toBuffer({ resolveWithObject: true })
   return jsQR(new Uint8ClampedArray(data), info.width, info.height)?.data
 }
 
@@ -54,7 +60,9 @@ describe('label rendering', () => {
   }, 60_000)
 
   it('renders sheet pages for sheet templates', async () => {
-    const res = await agents.fab_technician.post('/api/labels/render').send({ template: 'sheet-letter', codes: [waferCode, sample.chipCode], skip: 3 })
+    const res = await agents.fab_technician
+      .post('/api/labels/render')
+      .send({ template: 'sheet-letter', codes: [waferCode, sample.chipCode], skip: 3 })
     expect(res.status).toBe(200)
     expect(res.body.sheets).toHaveLength(1)
     expect(res.body.sheets[0]).toContain('width="215.9mm" height="279.4mm"')
@@ -62,7 +70,9 @@ describe('label rendering', () => {
   }, 60_000)
 
   it('names unknown codes in a field-level 400', async () => {
-    const res = await agents.fab_technician.post('/api/labels/render').send({ template: 'chip-box', codes: [waferCode, 'W-NOPE1', 'C-NOPE2-01'] })
+    const res = await agents.fab_technician
+      .post('/api/labels/render')
+      .send({ template: 'chip-box', codes: [waferCode, 'W-NOPE1', 'C-NOPE2-01'] })
     expect(res.status).toBe(400)
     expect(res.body.fields.codes[0]).toContain('W-NOPE1')
     expect(res.body.fields.codes[0]).toContain('C-NOPE2-01')
@@ -75,9 +85,16 @@ describe('label rendering', () => {
   })
 
   it('downloads one label as an SVG attachment', async () => {
-    const res = await agents.optics_staff.get(`/api/labels/chip-box/${sample.chipCode}.svg`).buffer(true).parse((r, cb) => {
-      let s = ''; r.on('data', (c: Buffer) => { s += c.toString() }); r.on('end', () => cb(null, s))
-    })
+    const res = await agents.optics_staff
+      .get(`/api/labels/chip-box/${sample.chipCode}.svg`)
+      .buffer(true)
+      .parse((r, cb) => {
+        let s = ''
+        r.on('data', (c: Buffer) => {
+          s += c.toString()
+        })
+        r.on('end', () => cb(null, s))
+      })
     expect(res.status).toBe(200)
     expect(res.headers['content-type']).toMatch(/^image\/svg\+xml/)
     expect(res.headers['content-disposition']).toBe(`attachment; filename="${sample.chipCode}-chip-box.svg"`)
@@ -90,7 +107,9 @@ describe('label rendering', () => {
 
 describe('print jobs', () => {
   it('records a print job with an audit row', async () => {
-    const res = await agents.fab_technician.post('/api/labels/jobs').send({ template: 'sheet-a4', codes: [waferCode, sample.chipCode.toLowerCase()] })
+    const res = await agents.fab_technician
+      .post('/api/labels/jobs')
+      .send({ template: 'sheet-a4', codes: [waferCode, sample.chipCode.toLowerCase()] })
     expect(res.status).toBe(201)
     expect(res.body.codes).toEqual([waferCode, sample.chipCode])
     expect(res.body.createdBy.name).toBeTruthy()

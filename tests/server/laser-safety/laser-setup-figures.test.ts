@@ -9,16 +9,29 @@ beforeAll(async () => {
   t = await startTestApp()
   optics = await signedInAs(t.app, 'optics_staff')
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 const unique = (s: string) => `${s} ${Date.now()}-${Math.floor(Math.random() * 1e6)}`
 const create = async (over: Record<string, unknown>) => {
-  const res = await optics.post('/api/laser-setups').send({ name: unique('Figures bench'), room: 'B2.14', sourceType: 'cw', wavelengthsNm: [532], ...over })
+  const res = await optics
+    .post('/api/laser-setups')
+    .send({ name: unique('Figures bench'), room: 'B2.14', sourceType: 'cw', wavelengthsNm: [532], ...over })
   expect(res.status).toBe(201)
   return res.body.id as number
 }
-type Line = { wavelengthNm: number; exposureDurationS: number; mpe: { value: number } | null; en208: unknown; od: { value: number } | null; classHint: { value: string } | null; limitingRule: string }
-const lineOf = (body: { computed: { wavelengths: Line[] } }, nm: number) => body.computed.wavelengths.find((w) => Math.round(w.wavelengthNm) === nm)!
+type Line = {
+  wavelengthNm: number
+  exposureDurationS: number
+  mpe: { value: number } | null
+  en208: unknown
+  od: { value: number } | null
+  classHint: { value: string } | null
+  limitingRule: string
+}
+const lineOf = (body: { computed: { wavelengths: Line[] } }, nm: number) =>
+  body.computed.wavelengths.find((w) => Math.round(w.wavelengthNm) === nm)!
 
 describe('GET /api/laser-setups/:id figures', () => {
   // Health Physics Society list, "RE: Laser calculations" (June 2000): visible beam, t = 0.25 s,
@@ -53,9 +66,15 @@ describe('GET /api/laser-setups/:id figures', () => {
   it('EN 208 for visible lines as en208 { labels, scale }, like en207; none for 1064 nm', async () => {
     const id = await create({ wavelengthsNm: [532, 1064], maxAvgPowerMw: 50, beamDiameterMm: 2 })
     const res = await optics.get(`/api/laser-setups/${id}`)
-    expect(lineOf(res.body, 532).en208).toMatchObject({ labels: ['RB2'], scale: [{ value: 2, unit: 'RB', source: 'EN 208:2009 Annex B (Table B.1)' }] })
+    expect(lineOf(res.body, 532).en208).toMatchObject({
+      labels: ['RB2'],
+      scale: [{ value: 2, unit: 'RB', source: 'EN 208:2009 Annex B (Table B.1)' }],
+    })
     expect(lineOf(res.body, 1064).en208).toBeNull()
-    expect(res.body.computed.wavelengths[0].en207).toMatchObject({ labels: expect.any(Array), scale: expect.any(Array) })
+    expect(res.body.computed.wavelengths[0].en207).toMatchObject({
+      labels: expect.any(Array),
+      scale: expect.any(Array),
+    })
   })
 
   // IEC 60825-1:2014 4.3 f requirement 1: a single pulse is judged by the single-pulse limits.

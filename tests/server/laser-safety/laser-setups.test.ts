@@ -13,9 +13,17 @@ beforeAll(async () => {
   safety = await signedInAs(t.app, 'safety_officer')
   optics = await signedInAs(t.app, 'optics_staff')
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
-const body = (name: string) => ({ name, room: 'B2.14', sourceType: 'mode_locked', wavelengthsNm: [1550, 775], notes: 'Tunable OPO line' })
+const body = (name: string) => ({
+  name,
+  room: 'B2.14',
+  sourceType: 'mode_locked',
+  wavelengthsNm: [1550, 775],
+  notes: 'Tunable OPO line',
+})
 const unique = (s: string) => `${s} ${Date.now()}-${Math.floor(Math.random() * 1e6)}`
 
 describe('/api/laser-setups', () => {
@@ -26,7 +34,10 @@ describe('/api/laser-setups', () => {
     expect(a.body.code).toMatch(/^LS-\d{3,}$/)
     expect(Number(b.body.code.slice(3))).toBe(Number(a.body.code.slice(3)) + 1)
     expect(a.body.caution).toBe(LASER_CAUTION)
-    const [audit] = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, a.body.id)))
+    const [audit] = await t.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, a.body.id)))
     expect(audit.action).toBe('create')
   })
 
@@ -43,7 +54,9 @@ describe('/api/laser-setups', () => {
   })
 
   it('answers field-level 400s', async () => {
-    const res = await safety.post('/api/laser-setups').send({ name: '', room: 'B2', sourceType: 'lamp', wavelengthsNm: [] })
+    const res = await safety
+      .post('/api/laser-setups')
+      .send({ name: '', room: 'B2', sourceType: 'lamp', wavelengthsNm: [] })
     expect(res.status).toBe(400)
     expect(Object.keys(res.body.fields)).toEqual(expect.arrayContaining(['name', 'sourceType', 'wavelengthsNm']))
   })
@@ -53,7 +66,10 @@ describe('/api/laser-setups', () => {
     const { body: s } = await safety.post('/api/laser-setups').send(body(name))
     const upd = await safety.patch(`/api/laser-setups/${s.id}`).send({ room: 'B2.16' })
     expect(upd.body.room).toBe('B2.16')
-    const audits = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, s.id), eq(auditLog.action, 'update')))
+    const audits = await t.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, s.id), eq(auditLog.action, 'update')))
     expect(audits[0].changes).toEqual({ room: { from: 'B2.14', to: 'B2.16' } })
     const noReason = await safety.post(`/api/laser-setups/${s.id}/retire`).send({})
     expect(noReason.status).toBe(400)

@@ -14,7 +14,13 @@ let t: Awaited<ReturnType<typeof startTestApp>>
 const agents = {} as Record<Role, TestAgent>
 let safety2: TestAgent
 let safety2Id: number
-const idOf = async (role: Role) => (await t.db.select().from(users).where(eq(users.email, demoEmail(role))))[0].id
+const idOf = async (role: Role) =>
+  (
+    await t.db
+      .select()
+      .from(users)
+      .where(eq(users.email, demoEmail(role)))
+  )[0].id
 
 beforeAll(async () => {
   t = await startTestApp()
@@ -23,12 +29,20 @@ beforeAll(async () => {
   safety2Id = second.id
   safety2 = await signedInAs(t.app, second.email)
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 const day = (n: number) => new Date(Date.now() + n * 86400_000).toISOString().slice(0, 10)
 const setup = (extra: Record<string, unknown> = {}) => ({
-  name: `SoD bench ${Date.now()}-${Math.floor(Math.random() * 1e6)}`, room: 'C1.03', sourceType: 'cw', wavelengthsNm: [532],
-  maxAvgPowerMw: 50, beamDiameterMm: 1, eyewear: [{ description: 'Green goggle', bandsNm: '520–540', od: 4 }], interlocks: 'Key switch',
+  name: `SoD bench ${Date.now()}-${Math.floor(Math.random() * 1e6)}`,
+  room: 'C1.03',
+  sourceType: 'cw',
+  wavelengthsNm: [532],
+  maxAvgPowerMw: 50,
+  beamDiameterMm: 1,
+  eyewear: [{ description: 'Green goggle', bandsNm: '520–540', od: 4 }],
+  interlocks: 'Key switch',
   ...extra,
 })
 /** `who` describes a setup and submits it. */
@@ -38,7 +52,8 @@ async function described(who: TestAgent, extra: Record<string, unknown> = {}): P
   expect((await who.post(`/api/laser-setups/${res.body.id}/submit`).send({})).status).toBe(200)
   return res.body.id
 }
-const approve = (who: TestAgent, id: number) => who.post(`/api/laser-setups/${id}/approve`).send({ expiresOn: day(60), note: 'Seen on site' })
+const approve = (who: TestAgent, id: number) =>
+  who.post(`/api/laser-setups/${id}/approve`).send({ expiresOn: day(60), note: 'Seen on site' })
 
 describe('the submitter is the signed-in author, set by the server', () => {
   it('a submitterId in a create body is 400, also null', async () => {
@@ -52,7 +67,9 @@ describe('the submitter is the signed-in author, set by the server', () => {
 
   it('a submitterId in an update body is 400 and changes nothing', async () => {
     const id = await described(agents.safety_officer)
-    const res = await agents.safety_officer.patch(`/api/laser-setups/${id}`).send({ submitterId: await idOf('optics_staff') })
+    const res = await agents.safety_officer
+      .patch(`/api/laser-setups/${id}`)
+      .send({ submitterId: await idOf('optics_staff') })
     expect(res.status).toBe(400)
     const [row] = await t.db.select().from(laserSetups).where(eq(laserSetups.id, id))
     expect(row.submittedById).toBe(await idOf('safety_officer'))
@@ -101,7 +118,10 @@ describe('only a safety officer signs off, never their own description', () => {
     const refused = await approve(agents.safety_officer, id)
     expect(refused.status).toBe(403)
     expect(refused.body.message).toMatch(/another safety officer must approve it/)
-    expect((await safety2.get(`/api/laser-setups/${id}`)).body.approval).toMatchObject({ canApprove: true, reason: null })
+    expect((await safety2.get(`/api/laser-setups/${id}`)).body.approval).toMatchObject({
+      canApprove: true,
+      reason: null,
+    })
     expect((await approve(safety2, id)).status).toBe(200)
   })
 
@@ -119,7 +139,9 @@ describe('only a safety officer signs off, never their own description', () => {
   it('when no other safety officer is left, the reason says so and how to fix it', async () => {
     const id = await described(agents.safety_officer)
     const soloId = await idOf('safety_officer')
-    const others = await t.db.select({ id: users.id }).from(users)
+    const others = await t.db
+      .select({ id: users.id })
+      .from(users)
       .where(and(eq(users.active, true), ne(users.id, soloId), sql`JSON_CONTAINS(${users.roles}, '"safety_officer"')`))
     try {
       for (const o of others) await t.db.update(users).set({ active: false }).where(eq(users.id, o.id))
@@ -140,23 +162,35 @@ describe('a draft until its author submits it', () => {
     const queue = (await agents.safety_officer.get('/api/laser-setups/queue')).body
     expect(queue.waiting.map((s: { id: number }) => s.id)).not.toContain(res.body.id)
     expect((await approve(agents.safety_officer, res.body.id)).status).toBe(409)
-    expect((await agents.safety_officer.post(`/api/laser-setups/${res.body.id}/reject`).send({ note: 'x' })).status).toBe(409)
+    expect(
+      (await agents.safety_officer.post(`/api/laser-setups/${res.body.id}/reject`).send({ note: 'x' })).status,
+    ).toBe(409)
   })
 
   it('only its author submits, and only a complete description: every missing field is named at once', async () => {
-    const res = await agents.optics_staff.post('/api/laser-setups')
+    const res = await agents.optics_staff
+      .post('/api/laser-setups')
       .send({ name: `Half-filled ${Date.now()}`, room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [1030] })
     expect(res.status).toBe(201)
     expect((await agents.group_lead.post(`/api/laser-setups/${res.body.id}/submit`).send({})).status).toBe(403)
     const sub = await agents.optics_staff.post(`/api/laser-setups/${res.body.id}/submit`).send({})
     expect(sub.status).toBe(400)
-    expect(Object.keys(sub.body.fields).sort()).toEqual(['beamDiameterMm', 'eyewear', 'interlocks', 'maxAvgPowerMw', 'pulseDurationFs', 'repRateHz'])
+    expect(Object.keys(sub.body.fields).sort()).toEqual([
+      'beamDiameterMm',
+      'eyewear',
+      'interlocks',
+      'maxAvgPowerMw',
+      'pulseDurationFs',
+      'repRateHz',
+    ])
     expect((await agents.optics_staff.get(`/api/laser-setups/${res.body.id}`)).body.signoff.state).toBe('draft')
   })
 
   it('a rejected setup goes back to its author, who submits it again into the queue', async () => {
     const id = await described(agents.optics_staff)
-    const rej = await agents.safety_officer.post(`/api/laser-setups/${id}/reject`).send({ note: 'Name the goggle model' })
+    const rej = await agents.safety_officer
+      .post(`/api/laser-setups/${id}/reject`)
+      .send({ note: 'Name the goggle model' })
     expect(rej.body).toMatchObject({ submittedAt: null, signoff: { state: 'rejected' } })
     const again = await agents.optics_staff.post(`/api/laser-setups/${id}/submit`).send({})
     expect(again.body.signoff.state).toBe('waiting')

@@ -15,19 +15,39 @@ beforeAll(async () => {
   t = await startTestApp()
   safety = await signedInAs(t.app, 'safety_officer')
   optics = await signedInAs(t.app, 'optics_staff')
-  const idOf = async (role: 'optics_staff' | 'safety_officer') => (await t.db.select().from(users).where(eq(users.email, demoEmail(role))))[0].id
+  const idOf = async (role: 'optics_staff' | 'safety_officer') =>
+    (
+      await t.db
+        .select()
+        .from(users)
+        .where(eq(users.email, demoEmail(role)))
+    )[0].id
   opticsId = await idOf('optics_staff')
   safetyId = await idOf('safety_officer')
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
 const unique = (s: string) => `${s} ${Date.now()}-${Math.floor(Math.random() * 1e6)}`
 const day = (n: number) => new Date(Date.now() + n * 86400_000).toISOString().slice(0, 10)
 /** Check case A (docs/laser-safety.md §9): Ti:sapphire 800 nm, 100 fs, 80 MHz, 1 W, 2 mm, 1 mrad, with SH. */
 const exampleA = (extra: Record<string, unknown> = {}) => ({
-  name: unique('Ti:Sa example A'), room: 'C1.03', sourceType: 'mode_locked', wavelengthsNm: [800], notes: 'Worked example A',
-  pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000, beamDiameterMm: 2, divergenceMrad: 1, harmonicOrders: [2], laserClass: '4',
-  eyewear: [{ description: 'NIR goggle', bandsNm: '740–860', od: 5 }], interlocks: 'Door interlock', controlledAreaNotes: 'Warning light',
+  name: unique('Ti:Sa example A'),
+  room: 'C1.03',
+  sourceType: 'mode_locked',
+  wavelengthsNm: [800],
+  notes: 'Worked example A',
+  pulseDurationFs: 100,
+  repRateHz: 80e6,
+  maxAvgPowerMw: 1000,
+  beamDiameterMm: 2,
+  divergenceMrad: 1,
+  harmonicOrders: [2],
+  laserClass: '4',
+  eyewear: [{ description: 'NIR goggle', bandsNm: '740–860', od: 5 }],
+  interlocks: 'Door interlock',
+  controlledAreaNotes: 'Warning light',
   ...extra,
 })
 /** The optics person describes a setup and submits it for sign-off. */
@@ -39,20 +59,34 @@ const create = async (extra: Record<string, unknown> = {}) => {
   expect(sub.status, JSON.stringify(sub.body)).toBe(200)
   return res.body as { id: number; code: string }
 }
-const approve = (id: number, body: object = { expiresOn: day(90), note: 'Checked on site' }) => safety.post(`/api/laser-setups/${id}/approve`).send(body)
+const approve = (id: number, body: object = { expiresOn: day(90), note: 'Checked on site' }) =>
+  safety.post(`/api/laser-setups/${id}/approve`).send(body)
 
 describe('approve / reject / revoke', () => {
   it('a new setup waits; approval records the expiry, person, note, history and an audit row', async () => {
     const s = await create()
-    expect((await safety.get(`/api/laser-setups/${s.id}`)).body.signoff).toMatchObject({ state: 'waiting', isValid: false, history: [] })
+    expect((await safety.get(`/api/laser-setups/${s.id}`)).body.signoff).toMatchObject({
+      state: 'waiting',
+      isValid: false,
+      history: [],
+    })
     const res = await approve(s.id)
     expect(res.status).toBe(200)
-    expect(res.body.signoff).toMatchObject({ state: 'approved', isValid: true, expiresOn: day(90), note: 'Checked on site', by: { id: safetyId } })
+    expect(res.body.signoff).toMatchObject({
+      state: 'approved',
+      isValid: true,
+      expiresOn: day(90),
+      note: 'Checked on site',
+      by: { id: safetyId },
+    })
     expect(res.body.signoff.history[0]).toMatchObject({ decision: 'approved', expiresOn: day(90) })
     expect(res.body.caution).toBe(LASER_CAUTION)
     const [row] = await t.db.select().from(laserSetupSignoffs).where(eq(laserSetupSignoffs.setupId, s.id))
     expect(row.hazardHash).toMatch(/^[0-9a-f]{64}$/)
-    const [audit] = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, s.id), eq(auditLog.action, 'signoff')))
+    const [audit] = await t.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, s.id), eq(auditLog.action, 'signoff')))
     expect(audit.reason).toBe('Checked on site')
   })
 
@@ -64,7 +98,9 @@ describe('approve / reject / revoke', () => {
       expect(res.body.fields.expiresOn).toBeTruthy()
     }
     expect((await safety.post(`/api/laser-setups/${s.id}/reject`).send({})).body.fields.note).toEqual(['Say why'])
-    expect((await safety.post(`/api/laser-setups/${s.id}/revoke`).send({ note: ' ' })).body.fields.note).toEqual(['Say why'])
+    expect((await safety.post(`/api/laser-setups/${s.id}/revoke`).send({ note: ' ' })).body.fields.note).toEqual([
+      'Say why',
+    ])
     expect((await t.db.select().from(laserSetupSignoffs).where(eq(laserSetupSignoffs.setupId, s.id))).length).toBe(0)
   })
 
@@ -78,11 +114,14 @@ describe('approve / reject / revoke', () => {
     const rev = await safety.post(`/api/laser-setups/${b.id}/revoke`).send({ note: 'Interlock broken' })
     expect(rev.body.signoff).toMatchObject({ state: 'revoked', isValid: false })
     expect(rev.body.signoff.history.map((h: { decision: string }) => h.decision)).toEqual(['revoked', 'approved'])
-    const [audit] = await t.db.select().from(auditLog).where(and(eq(auditLog.entityId, b.id), eq(auditLog.entity, 'laser_setup'), eq(auditLog.action, 'revoke')))
+    const [audit] = await t.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, b.id), eq(auditLog.entity, 'laser_setup'), eq(auditLog.action, 'revoke')))
     expect(audit.reason).toBe('Interlock broken')
   })
 
-  it('refuses approval by the author: a safety officer\'s own setup needs another safety officer', async () => {
+  it("refuses approval by the author: a safety officer's own setup needs another safety officer", async () => {
     const own = await safety.post('/api/laser-setups').send(exampleA())
     expect((await safety.post(`/api/laser-setups/${own.body.id}/submit`).send({})).status).toBe(200)
     const res = await approve(own.body.id)
@@ -101,17 +140,30 @@ describe('editing a signed-off setup', () => {
     const res = await safety.patch(`/api/laser-setups/${s.id}`).send({ maxAvgPowerMw: 1500, reason: 'New pump laser' })
     expect(res.status).toBe(200)
     expect(res.body.signoff).toMatchObject({ state: 'voided', isValid: false })
-    const [last] = await t.db.select().from(laserSetupSignoffs).where(eq(laserSetupSignoffs.setupId, s.id)).orderBy(desc(laserSetupSignoffs.id))
+    const [last] = await t.db
+      .select()
+      .from(laserSetupSignoffs)
+      .where(eq(laserSetupSignoffs.setupId, s.id))
+      .orderBy(desc(laserSetupSignoffs.id))
     expect(last).toMatchObject({ decision: 'voided', note: 'New pump laser' })
-    const [audit] = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, s.id), eq(auditLog.action, 'update'))).orderBy(desc(auditLog.id))
-    expect(audit.changes).toMatchObject({ maxAvgPowerMw: { from: 1000, to: 1500 }, signoff: { from: 'approved', to: 'voided' } })
+    const [audit] = await t.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'laser_setup'), eq(auditLog.entityId, s.id), eq(auditLog.action, 'update')))
+      .orderBy(desc(auditLog.id))
+    expect(audit.changes).toMatchObject({
+      maxAvgPowerMw: { from: 1000, to: 1500 },
+      signoff: { from: 'approved', to: 'voided' },
+    })
     expect(audit.reason).toBe('New pump laser')
   })
 
   it('a non-hazard change (name, notes) keeps the approval and needs no reason', async () => {
     const s = await create()
     await approve(s.id)
-    const res = await safety.patch(`/api/laser-setups/${s.id}`).send({ notes: 'Moved the power meter', name: unique('Renamed') })
+    const res = await safety
+      .patch(`/api/laser-setups/${s.id}`)
+      .send({ notes: 'Moved the power meter', name: unique('Renamed') })
     expect(res.status).toBe(200)
     expect(res.body.signoff.state).toBe('approved')
   })
@@ -133,7 +185,10 @@ describe('GET /api/laser-setups/queue', () => {
     await approve(later.id, { expiresOn: day(200) })
     const expired = await create()
     await approve(expired.id, { expiresOn: day(5) })
-    await t.db.update(laserSetupSignoffs).set({ expiresOn: day(-3) }).where(eq(laserSetupSignoffs.setupId, expired.id))
+    await t.db
+      .update(laserSetupSignoffs)
+      .set({ expiresOn: day(-3) })
+      .where(eq(laserSetupSignoffs.setupId, expired.id))
     const q = (await safety.get('/api/laser-setups/queue')).body
     const codes = (k: string) => q[k].map((s: { code: string }) => s.code)
     expect(codes('waiting')).toContain(waiting.code)
@@ -163,7 +218,11 @@ describe('computed figures through the API (check case A, docs/laser-safety.md �
     expect(w800.en207.labels).toEqual(['D 800 LB5', 'M 800 LB4'])
     expect(w800.coverage.isCovered).toBe(true)
     const w400 = c.wavelengths.find((w: { order: number }) => w.order === 2)
-    expect(w400).toMatchObject({ wavelengthNm: 400, isWorstCase: true, coverage: { isCovered: false, message: 'No eyewear covers 400 nm' } })
+    expect(w400).toMatchObject({
+      wavelengthNm: 400,
+      isWorstCase: true,
+      coverage: { isCovered: false, message: 'No eyewear covers 400 nm' },
+    })
     expect(c.warnings).toContain('No eyewear covers 400 nm')
     expect(c.assumptions.some((a: string) => /WORST CASE/.test(a))).toBe(true)
     expect(c.isDeclaredBelowHint).toBe(false)

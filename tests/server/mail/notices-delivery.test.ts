@@ -10,8 +10,13 @@ import { startMailSink } from '../../../server/services/mail/mail-sink'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 const made: number[] = []
-beforeAll(async () => { t = await startTestApp() })
-afterAll(async () => { await retirePeople(t.db, made); await t.stop() })
+beforeAll(async () => {
+  t = await startTestApp()
+})
+afterAll(async () => {
+  await retirePeople(t.db, made)
+  await t.stop()
+})
 
 /** A local port nothing listens on (taken, then released). */
 async function closedPort(): Promise<number> {
@@ -34,7 +39,12 @@ async function tickUntil(worker: MailWorker, ids: number[], done: (m: typeof mai
 describe('mail server down', () => {
   it('a hand-off move and an invitation still succeed; the mail waits with its error and goes out when the server is back', async () => {
     const port = await closedPort()
-    const down = new MailWorker(t.db, `smtp://127.0.0.1:${port}?ignoreTLS=true&connectionTimeout=2000`, t.ctx.env.MAIL_FROM, t.ctx.log)
+    const down = new MailWorker(
+      t.db,
+      `smtp://127.0.0.1:${port}?ignoreTLS=true&connectionTimeout=2000`,
+      t.ctx.env.MAIL_FROM,
+      t.ctx.log,
+    )
     const fab = await signedInAs(t.app, 'fab_technician')
     const admin = await signedInAs(t.app, 'admin')
     const receiver = await makePerson(t.db, ['optics_staff'])
@@ -42,11 +52,15 @@ describe('mail server down', () => {
     const { chip } = await makeChip(fab)
     const { box } = await makeBox(fab)
 
-    const moved = await fab.post('/api/moves').send({ itemCode: chip.code, toLocationId: box.id, handToUserId: receiver.id, note: 'for the SHG run' })
+    const moved = await fab
+      .post('/api/moves')
+      .send({ itemCode: chip.code, toLocationId: box.id, handToUserId: receiver.id, note: 'for the SHG run' })
     expect(moved.status).toBe(201)
     expect(moved.body.handedTo.id).toBe(receiver.id)
     const invitee = uniqueEmail('down-invitee')
-    const invited = await admin.post('/api/users/invite').send({ email: invitee, name: 'Noor Vestergaard', roles: ['fab_technician'] })
+    const invited = await admin
+      .post('/api/users/invite')
+      .send({ email: invitee, name: 'Noor Vestergaard', roles: ['fab_technician'] })
     expect(invited.status).toBe(201)
     const ids = [...(await mailTo(t.db, receiver.email)), ...(await mailTo(t.db, invitee))].map((m) => m.id)
     expect(ids).toHaveLength(2)
@@ -58,14 +72,19 @@ describe('mail server down', () => {
       expect(m.lastError).toMatch(/ECONNREFUSED|connect/i)
       expect(m.nextAttemptAt.getTime()).toBeGreaterThan(Date.now())
     }
-    expect(waiting.find((m) => m.toAddress === receiver.email)!.subject).toBe(`Overtone: ${chip.code} was handed to you`)
+    expect(waiting.find((m) => m.toAddress === receiver.email)!.subject).toBe(
+      `Overtone: ${chip.code} was handed to you`,
+    )
     await down.stop()
 
     // The mail server comes back on the same port and the back-off delay has passed.
     const sink = await startMailSink(t.db, port, t.ctx.log)
     const back = new MailWorker(t.db, `smtp://127.0.0.1:${port}?ignoreTLS=true`, t.ctx.env.MAIL_FROM, t.ctx.log)
     try {
-      await t.db.update(mailQueue).set({ nextAttemptAt: new Date(Date.now() - 1000) }).where(inArray(mailQueue.id, ids))
+      await t.db
+        .update(mailQueue)
+        .set({ nextAttemptAt: new Date(Date.now() - 1000) })
+        .where(inArray(mailQueue.id, ids))
       await tickUntil(back, ids, (m) => m.status === 'sent')
       const sent = await t.db.select().from(mailQueue).where(inArray(mailQueue.id, ids))
       for (const m of sent) {

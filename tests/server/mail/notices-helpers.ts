@@ -11,13 +11,24 @@ import { uniqueEmail } from '../helpers'
  */
 export const NOTICE_PASSWORD = 'a long test passphrase'
 
-export async function makePerson(db: Db, roles: Role[], opts: { name?: string; notifyByMail?: boolean; active?: boolean; password?: boolean } = {}) {
+export async function makePerson(
+  db: Db,
+  roles: Role[],
+  opts: { name?: string; notifyByMail?: boolean; active?: boolean; password?: boolean } = {},
+) {
   const email = uniqueEmail(roles[0].replace('_', '-'))
   const name = opts.name ?? `Test ${roles[0]} ${Math.floor(Math.random() * 1e6)}`
-  const [{ id }] = await db.insert(users).values({
-    email, name, roles, active: opts.active ?? true, notifyByMail: opts.notifyByMail ?? true,
-    passwordHash: opts.password ? await hashPassword(NOTICE_PASSWORD) : null,
-  }).$returningId()
+  const [{ id }] = await db
+    .insert(users)
+    .values({
+      email,
+      name,
+      roles,
+      active: opts.active ?? true,
+      notifyByMail: opts.notifyByMail ?? true,
+      passwordHash: opts.password ? await hashPassword(NOTICE_PASSWORD) : null,
+    })
+    .$returningId()
   return { id, email, name }
 }
 

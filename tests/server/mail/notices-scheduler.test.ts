@@ -1,6 +1,14 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest'
 import { eq } from 'drizzle-orm'
-import { chips, laserSetupSignoffs, measurementSessions, noticeLog, sessionResults, users, wafers } from '../../../server/db/schema/index'
+import {
+  chips,
+  laserSetupSignoffs,
+  measurementSessions,
+  noticeLog,
+  sessionResults,
+  users,
+  wafers,
+} from '../../../server/db/schema/index'
 import { startTestApp, demoEmail, signedInAs } from '../helpers'
 import { makeLaserSetup, makeSample } from '../measurements/fixtures-measurements'
 import { makePerson, mailTo, retirePeople } from './notices-helpers'
@@ -12,20 +20,32 @@ let scheduler: NoticeScheduler
 const made: number[] = []
 /** The JSON lines the scheduler logs (level error and up). */
 const logged: string[] = []
-const log = createLogger('error', { write: (line: string) => { logged.push(line) } })
+const log = createLogger('error', {
+  write: (line: string) => {
+    logged.push(line)
+  },
+})
 const DAY = 24 * 3600 * 1000
 beforeAll(async () => {
   t = await startTestApp()
   scheduler = new NoticeScheduler(t.db, log)
 })
-afterAll(async () => { await retirePeople(t.db, made); await t.stop() })
+afterAll(async () => {
+  await retirePeople(t.db, made)
+  await t.stop()
+})
 
 /** A Monday 08:00 UTC in a random past week nobody has sent a digest for (tests never share a week). */
 async function freeMonday(): Promise<Date> {
   for (;;) {
-    const monday = digestTimeOfWeek(new Date(Date.UTC(2001 + Math.floor(Math.random() * 20), 0, 1) + Math.floor(Math.random() * 360) * DAY))
+    const monday = digestTimeOfWeek(
+      new Date(Date.UTC(2001 + Math.floor(Math.random() * 20), 0, 1) + Math.floor(Math.random() * 360) * DAY),
+    )
     const at = new Date(monday.getTime() + 3600_000)
-    const [used] = await t.db.select().from(noticeLog).where(eq(noticeLog.noticeKey, `digest:${isoWeek(at)}`))
+    const [used] = await t.db
+      .select()
+      .from(noticeLog)
+      .where(eq(noticeLog.noticeKey, `digest:${isoWeek(at)}`))
     if (!used) return at
   }
 }
@@ -44,15 +64,32 @@ describe('expiring sign-offs', () => {
     const officer = await makePerson(t.db, ['safety_officer'])
     const quiet = await makePerson(t.db, ['safety_officer'], { notifyByMail: false })
     made.push(officer.id, quiet.id)
-    const [safety] = await t.db.select().from(users).where(eq(users.email, demoEmail('safety_officer')))
+    const [safety] = await t.db
+      .select()
+      .from(users)
+      .where(eq(users.email, demoEmail('safety_officer')))
     // A Monday 06:00 in the past: before the digest hour, so only the expiry pass acts.
     const now = new Date((await freeMonday()).getTime() - 2 * 3600_000)
     const soon = await makeLaserSetup(t.db)
     const later = await makeLaserSetup(t.db)
     const day = (ms: number) => new Date(now.getTime() + ms).toISOString().slice(0, 10)
     await t.db.insert(laserSetupSignoffs).values([
-      { setupId: soon.id, decision: 'approved', byId: safety.id, at: new Date(now.getTime() - 300 * DAY), expiresOn: day(5 * DAY), hazardHash: 'x'.repeat(64) },
-      { setupId: later.id, decision: 'approved', byId: safety.id, at: new Date(now.getTime() - 300 * DAY), expiresOn: day(40 * DAY), hazardHash: 'x'.repeat(64) },
+      {
+        setupId: soon.id,
+        decision: 'approved',
+        byId: safety.id,
+        at: new Date(now.getTime() - 300 * DAY),
+        expiresOn: day(5 * DAY),
+        hazardHash: 'x'.repeat(64),
+      },
+      {
+        setupId: later.id,
+        decision: 'approved',
+        byId: safety.id,
+        at: new Date(now.getTime() - 300 * DAY),
+        expiresOn: day(40 * DAY),
+        hazardHash: 'x'.repeat(64),
+      },
     ])
     const first = await scheduler.runOnce(now)
     const second = await scheduler.runOnce(new Date(now.getTime() + 10 * 60_000))
@@ -82,13 +119,30 @@ describe('weekly digest', () => {
     await t.db.update(wafers).set({ createdAt: inWeek }).where(eq(wafers.id, sample.waferId))
     await t.db.update(chips).set({ createdAt: inWeek }).where(eq(chips.id, sample.chipId))
     const setup = await makeLaserSetup(t.db)
-    const [optics] = await t.db.select().from(users).where(eq(users.email, demoEmail('optics_staff')))
+    const [optics] = await t.db
+      .select()
+      .from(users)
+      .where(eq(users.email, demoEmail('optics_staff')))
     const code = `S-T${Date.now().toString(36).toUpperCase()}`
-    const [{ id: sessionId }] = await t.db.insert(measurementSessions).values({
-      code, laserSetupId: setup.id, operatorId: optics.id, performedAt: inWeek, wavelengthNm: 1550, avgPowerMw: 10,
-      pump: { type: 'circular', m: 1 } as never, harmonicOrder: 2, geometry: 'reflection', collection: 'normal', createdAt: inWeek,
-    }).$returningId()
-    await t.db.insert(sessionResults).values({ sessionId, arrayId: sample.arrays[0].id, observedNormal: 'co', observedM: [0] })
+    const [{ id: sessionId }] = await t.db
+      .insert(measurementSessions)
+      .values({
+        code,
+        laserSetupId: setup.id,
+        operatorId: optics.id,
+        performedAt: inWeek,
+        wavelengthNm: 1550,
+        avgPowerMw: 10,
+        pump: { type: 'circular', m: 1 } as never,
+        harmonicOrder: 2,
+        geometry: 'reflection',
+        collection: 'normal',
+        createdAt: inWeek,
+      })
+      .$returningId()
+    await t.db
+      .insert(sessionResults)
+      .values({ sessionId, arrayId: sample.arrays[0].id, observedNormal: 'co', observedM: [0] })
     const [wafer] = await t.db.select().from(wafers).where(eq(wafers.id, sample.waferId))
 
     const early = await scheduler.runOnce(new Date(now.getTime() - 2 * 3600_000))
@@ -108,7 +162,9 @@ describe('weekly digest', () => {
       expect(part).toContain('Anomalies (1)')
       expect(part).toContain(sample.arrays[0].code)
     }
-    expect(m.textBody).toMatch(/1 new wafer\(s\), 1 chip\(s\) diced, 1 new measurement session\(s\), 1 with results that contradict/)
+    expect(m.textBody).toMatch(
+      /1 new wafer\(s\), 1 chip\(s\) diced, 1 new measurement session\(s\), 1 with results that contradict/,
+    )
     expect((await mailTo(t.db, quietLead.email)).filter((x) => x.subject.includes('lab digest'))).toHaveLength(0)
   })
 
@@ -125,7 +181,17 @@ describe('weekly digest', () => {
   })
 
   it('a failing pass is logged and never throws', async () => {
-    const broken = new NoticeScheduler({ select: () => { throw new Error('database gone') }, transaction: () => { throw new Error('database gone') } } as never, log)
+    const broken = new NoticeScheduler(
+      {
+        select: () => {
+          throw new Error('database gone')
+        },
+        transaction: () => {
+          throw new Error('database gone')
+        },
+      } as never,
+      log,
+    )
     await expect(broken.runOnce(new Date())).resolves.toEqual({ expiring: 0, digest: null })
     const lines = logged.map((l) => JSON.parse(l) as { level: number; msg: string; err?: { message: string } })
     expect(lines.some((l) => l.level === 50 && l.err?.message === 'database gone' && /notices/.test(l.msg))).toBe(true)

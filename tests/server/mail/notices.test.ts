@@ -4,7 +4,13 @@ import { and, eq } from 'drizzle-orm'
 import { auditLog, users } from '../../../server/db/schema/index'
 import { startTestApp, signedInAs } from '../helpers'
 import { makePerson, mailTo, retirePeople, NOTICE_PASSWORD } from './notices-helpers'
-import { noticeHandOff, noticeSetupChanged, noticeSetupSubmitted, noticeSignoffDecision, setNoticeBaseUrl } from '../../../server/services/mail/notices'
+import {
+  noticeHandOff,
+  noticeSetupChanged,
+  noticeSetupSubmitted,
+  noticeSignoffDecision,
+  setNoticeBaseUrl,
+} from '../../../server/services/mail/notices'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
 const made: number[] = []
@@ -21,9 +27,17 @@ beforeAll(async () => {
   submitter = await makePerson(t.db, ['optics_staff'], { password: true })
   made.push(officer.id, quietOfficer.id, formerOfficer.id, submitter.id)
 })
-afterAll(async () => { await retirePeople(t.db, made); await t.stop() })
+afterAll(async () => {
+  await retirePeople(t.db, made)
+  await t.stop()
+})
 
-const setup = (tag: string) => ({ setupId: 4242, code: `LS-${tag}`, name: '<script>alert(1)</script>', actorName: 'Eve "<i>" Actor' })
+const setup = (tag: string) => ({
+  setupId: 4242,
+  code: `LS-${tag}`,
+  name: '<script>alert(1)</script>',
+  actorName: 'Eve "<i>" Actor',
+})
 const tag = () => Math.random().toString(36).slice(2, 8).toUpperCase()
 
 /** The one mail to `email` whose subject contains `code`. */
@@ -69,7 +83,12 @@ describe('setup notices to safety officers', () => {
 
   it('nothing is queued when the caller’s transaction rolls back', async () => {
     const info = setup(tag())
-    await expect(t.db.transaction(async (tx) => { await noticeSetupSubmitted(tx, info); throw new Error('action failed') })).rejects.toThrow('action failed')
+    await expect(
+      t.db.transaction(async (tx) => {
+        await noticeSetupSubmitted(tx, info)
+        throw new Error('action failed')
+      }),
+    ).rejects.toThrow('action failed')
     expect((await mailTo(t.db, officer.email)).filter((x) => x.subject.includes(info.code))).toHaveLength(0)
   })
 })
@@ -77,7 +96,13 @@ describe('setup notices to safety officers', () => {
 describe('sign-off decisions to the submitter', () => {
   for (const decision of ['approved', 'rejected', 'revoked'] as const) {
     it(`${decision}: the submitter gets text and HTML with the escaped note`, async () => {
-      const info = { ...setup(tag()), decision, note: 'Check the <iframe> interlock', expiresOn: decision === 'approved' ? '2027-03-31' : null, submitterId: submitter.id }
+      const info = {
+        ...setup(tag()),
+        decision,
+        note: 'Check the <iframe> interlock',
+        expiresOn: decision === 'approved' ? '2027-03-31' : null,
+        submitterId: submitter.id,
+      }
       await t.db.transaction((tx) => noticeSignoffDecision(tx, info))
       const m = await only(submitter.email, info.code)
       expect(m.textBody).toContain('Check the <iframe> interlock')
@@ -90,7 +115,13 @@ describe('sign-off decisions to the submitter', () => {
   }
 
   it('a submitter who opted out gets nothing', async () => {
-    const info = { ...setup(tag()), decision: 'approved' as const, note: null, expiresOn: '2027-01-01', submitterId: quietOfficer.id }
+    const info = {
+      ...setup(tag()),
+      decision: 'approved' as const,
+      note: null,
+      expiresOn: '2027-01-01',
+      submitterId: quietOfficer.id,
+    }
     await t.db.transaction((tx) => noticeSignoffDecision(tx, info))
     expect((await mailTo(t.db, quietOfficer.email)).filter((x) => x.subject.includes(info.code))).toHaveLength(0)
   })
@@ -99,7 +130,13 @@ describe('sign-off decisions to the submitter', () => {
 describe('hand-off notices', () => {
   it('queues text and HTML with the item link; nothing for someone who opted out', async () => {
     const code = `C-9${tag()}-01`
-    const info = { itemCode: code, actorName: 'Tomasz <Lindqvist>', path: 'Room › Cabinet › Box', locationCode: 'L-0001', note: '<b>fragile</b>' }
+    const info = {
+      itemCode: code,
+      actorName: 'Tomasz <Lindqvist>',
+      path: 'Room › Cabinet › Box',
+      locationCode: 'L-0001',
+      note: '<b>fragile</b>',
+    }
     await t.db.transaction(async (tx) => {
       await noticeHandOff(tx, { ...info, toUserId: submitter.id }, 'http://lab.test')
       await noticeHandOff(tx, { ...info, toUserId: quietOfficer.id }, 'http://lab.test')
@@ -123,9 +160,14 @@ describe('GET/PATCH /api/auth/preferences', () => {
     expect(off.body).toEqual({ notifyByMail: false })
     const [u] = await t.db.select().from(users).where(eq(users.id, submitter.id))
     expect(u.notifyByMail).toBe(false)
-    const audit = await t.db.select().from(auditLog).where(and(eq(auditLog.entity, 'user'), eq(auditLog.entityId, submitter.id)))
+    const audit = await t.db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entity, 'user'), eq(auditLog.entityId, submitter.id)))
     expect(audit.some((a) => JSON.stringify(a.changes).includes('notifyByMail'))).toBe(true)
-    expect((await agent.patch('/api/auth/preferences').send({ notifyByMail: true })).body).toEqual({ notifyByMail: true })
+    expect((await agent.patch('/api/auth/preferences').send({ notifyByMail: true })).body).toEqual({
+      notifyByMail: true,
+    })
   })
 
   it('rejects a bad body with a field error', async () => {

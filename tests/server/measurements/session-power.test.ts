@@ -18,13 +18,17 @@ beforeAll(async () => {
   setup = await makeLaserSetup(t.db, false, 'approved', { maxAvgPowerMw: 500 })
   arrayId = (await makeSample(t.db)).arrays[0].id
 })
-afterAll(async () => { await t.stop() })
+afterAll(async () => {
+  await t.stop()
+})
 
-describe('pump power and the setup\'s registered maximum', () => {
+describe("pump power and the setup's registered maximum", () => {
   it('refuses a session above the maximum, naming it, and accepts one at the maximum', async () => {
     const over = await optics.post('/api/sessions').send(sessionBody(setup.id, [arrayId], { avgPowerMw: 500.5 }))
     expect(over.status).toBe(400)
-    expect(over.body.fields.avgPowerMw[0]).toMatch(new RegExp(`maximum average power registered for ${setup.code} \\(500 mW\\)`))
+    expect(over.body.fields.avgPowerMw[0]).toMatch(
+      new RegExp(`maximum average power registered for ${setup.code} \\(500 mW\\)`),
+    )
     const at = await optics.post('/api/sessions').send(sessionBody(setup.id, [arrayId], { avgPowerMw: 500 }))
     expect(at.status).toBe(201)
   })

@@ -4,8 +4,12 @@ import { startTestApp, signedInAs, demoEmail, uniqueEmail } from '../helpers'
 import { DEMO_PASSWORD } from '../../../server/db/seed/people'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
-beforeAll(async () => { t = await startTestApp() })
-afterAll(async () => { await t.stop() })
+beforeAll(async () => {
+  t = await startTestApp()
+})
+afterAll(async () => {
+  await t.stop()
+})
 
 describe('sign-in', () => {
   it('rejects a malformed body with field-level messages', async () => {
@@ -16,14 +20,18 @@ describe('sign-in', () => {
   })
 
   it('rejects a wrong password with 401 and no session', async () => {
-    const res = await request(t.app).post('/api/auth/login').send({ email: demoEmail('optics_staff'), password: 'wrong-password' })
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .send({ email: demoEmail('optics_staff'), password: 'wrong-password' })
     expect(res.status).toBe(401)
     expect(res.headers['set-cookie']).toBeUndefined()
   })
 
   it('signs in, keeps the session, signs out', async () => {
     const agent = request.agent(t.app)
-    const login = await agent.post('/api/auth/login').send({ email: demoEmail('fab_technician'), password: DEMO_PASSWORD })
+    const login = await agent
+      .post('/api/auth/login')
+      .send({ email: demoEmail('fab_technician'), password: DEMO_PASSWORD })
     expect(login.status).toBe(200)
     expect(login.body.user).toMatchObject({ email: demoEmail('fab_technician'), roles: ['fab_technician'] })
     expect(login.body.user.passwordHash).toBeUndefined()
@@ -37,19 +45,25 @@ describe('sign-in', () => {
   })
 
   it('stores sessions in MariaDB, so a second app server accepts them', async () => {
-    const login = await request(t.app).post('/api/auth/login').send({ email: demoEmail('safety_officer'), password: DEMO_PASSWORD })
+    const login = await request(t.app)
+      .post('/api/auth/login')
+      .send({ email: demoEmail('safety_officer'), password: DEMO_PASSWORD })
     const sid = String(login.headers['set-cookie']).split(';')[0]
     const other = await startTestApp()
     try {
       const res = await request(other.app).get('/api/auth/me').set('Cookie', sid)
       expect(res.status).toBe(200)
       expect(res.body.user.email).toBe(demoEmail('safety_officer'))
-    } finally { await other.stop() }
+    } finally {
+      await other.stop()
+    }
   })
 
   it('issues a new session id on sign-in (no session fixation)', async () => {
     const planted = 's%3Aattacker-chosen-id.invalidsignature'
-    const res = await request(t.app).post('/api/auth/login').set('Cookie', `sid=${planted}`)
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .set('Cookie', `sid=${planted}`)
       .send({ email: demoEmail('group_lead'), password: DEMO_PASSWORD })
     expect(res.status).toBe(200)
     const set = String(res.headers['set-cookie'])
@@ -60,7 +74,14 @@ describe('sign-in', () => {
   it('throttles repeated failed sign-ins for one e-mail', async () => {
     const email = uniqueEmail('nobody-throttle')
     const statuses: number[] = []
-    for (let i = 0; i < 7; i++) statuses.push((await request(t.app).post('/api/auth/login').send({ email, password: 'guess-' + i })).status)
+    for (let i = 0; i < 7; i++)
+      statuses.push(
+        (
+          await request(t.app)
+            .post('/api/auth/login')
+            .send({ email, password: 'guess-' + i })
+        ).status,
+      )
     expect(statuses.slice(0, 5)).toEqual([401, 401, 401, 401, 401])
     expect(statuses[6]).toBe(429)
   })
@@ -71,33 +92,53 @@ describe('sign-in', () => {
       const email = uniqueEmail('spread-guesses')
       const statuses: number[] = []
       // LOGIN_MAX_FAILURES is 5 in tests: 3 guesses on one server, then 3 on the other.
-      for (let i = 0; i < 6; i++) statuses.push((await request(i < 3 ? t.app : other.app).post('/api/auth/login').send({ email, password: 'guess-' + i })).status)
+      for (let i = 0; i < 6; i++)
+        statuses.push(
+          (
+            await request(i < 3 ? t.app : other.app)
+              .post('/api/auth/login')
+              .send({ email, password: 'guess-' + i })
+          ).status,
+        )
       expect(statuses).toEqual([401, 401, 401, 401, 401, 429])
       // The stored key is a hash: the e-mail address is not kept in the table.
-      const [rows] = (await t.pool.query('SELECT hit_key, hits FROM throttle_hits WHERE hits >= 5')) as unknown as [{ hit_key: string; hits: number }[]]
+      const [rows] = (await t.pool.query('SELECT hit_key, hits FROM throttle_hits WHERE hits >= 5')) as unknown as [
+        { hit_key: string; hits: number }[],
+      ]
       expect(rows.length).toBeGreaterThan(0)
       expect(JSON.stringify(rows)).not.toContain('spread-guesses')
-    } finally { await other.stop() }
+    } finally {
+      await other.stop()
+    }
   })
 
   it('does not sign in a deactivated person', async () => {
-    const res = await request(t.app).post('/api/auth/login').send({ email: 'unknown-person@kestrel-lab.example', password: DEMO_PASSWORD })
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .send({ email: 'unknown-person@kestrel-lab.example', password: DEMO_PASSWORD })
     expect(res.status).toBe(401)
   })
 })
 
 describe('request hygiene', () => {
   it('refuses a cross-site POST by Origin and by Sec-Fetch-Site', async () => {
-    const a = await request(t.app).post('/api/auth/login').set('Origin', 'http://evil.example')
+    const a = await request(t.app)
+      .post('/api/auth/login')
+      .set('Origin', 'http://evil.example')
       .send({ email: demoEmail('admin'), password: DEMO_PASSWORD })
     expect(a.status).toBe(403)
-    const b = await request(t.app).post('/api/auth/login').set('Sec-Fetch-Site', 'cross-site')
+    const b = await request(t.app)
+      .post('/api/auth/login')
+      .set('Sec-Fetch-Site', 'cross-site')
       .send({ email: demoEmail('admin'), password: DEMO_PASSWORD })
     expect(b.status).toBe(403)
   })
 
   it('accepts a same-origin POST', async () => {
-    const res = await request(t.app).post('/api/auth/login').set('Host', 'lab.test').set('Origin', 'http://lab.test')
+    const res = await request(t.app)
+      .post('/api/auth/login')
+      .set('Host', 'lab.test')
+      .set('Origin', 'http://lab.test')
       .send({ email: demoEmail('admin'), password: DEMO_PASSWORD })
     expect(res.status).toBe(200)
   })
@@ -132,7 +173,9 @@ describe('request hygiene', () => {
 describe('my account', () => {
   it('refuses a wrong current password with a field message', async () => {
     const agent = await signedInAs(t.app, 'optics_staff')
-    const res = await agent.post('/api/auth/password').send({ currentPassword: 'not-it-at-all', newPassword: 'a-new-long-password' })
+    const res = await agent
+      .post('/api/auth/password')
+      .send({ currentPassword: 'not-it-at-all', newPassword: 'a-new-long-password' })
     expect(res.status).toBe(400)
     expect(res.body.fields.currentPassword[0]).toMatch(/not right/)
   })

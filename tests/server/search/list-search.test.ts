@@ -15,8 +15,14 @@ import type { Page } from '../../../shared/records'
  */
 let t: Awaited<ReturnType<typeof startTestApp>>
 let fab: TestAgent, optics: TestAgent
-beforeAll(async () => { t = await startTestApp(); fab = await signedInAs(t.app, 'fab_technician'); optics = await signedInAs(t.app, 'optics_staff') })
-afterAll(async () => { await t.stop() })
+beforeAll(async () => {
+  t = await startTestApp()
+  fab = await signedInAs(t.app, 'fab_technician')
+  optics = await signedInAs(t.app, 'optics_staff')
+})
+afterAll(async () => {
+  await t.stop()
+})
 
 const codes = (body: { rows: { code: string }[] }) => body.rows.map((r) => r.code).sort()
 
@@ -71,7 +77,9 @@ describe('list search boxes', () => {
     const a = (await fab.post('/api/arrays').send(disk(chip.id, 'C3'))).body
     const setup = await makeLaserSetup(t.db)
     const tag = uid()
-    const made = await optics.post('/api/sessions').send(sessionBody(setup.id, [a.id], { notes: `alignment drifted ${tag}`, detector: `Cooled CCD ${tag}x` }))
+    const made = await optics
+      .post('/api/sessions')
+      .send(sessionBody(setup.id, [a.id], { notes: `alignment drifted ${tag}`, detector: `Cooled CCD ${tag}x` }))
     expect(made.status).toBe(201)
     const find = async (q: string) => codes((await optics.get(`/api/sessions?q=${encodeURIComponent(q)}`)).body)
     expect(await find(a.code)).toEqual([made.body.code])
@@ -91,7 +99,8 @@ describe('list paging', () => {
   const first = { page: 1, pageSize: 2, dir: 'asc' as const, includeRetired: false }
   /** Every page up to the first empty one: the rows in order and the total each page gave. */
   async function allPages<R>(list: (page: number) => Promise<Page<R>>) {
-    const rows: R[] = [], totals: number[] = []
+    const rows: R[] = [],
+      totals: number[] = []
     for (let page = 1; page <= 10; page++) {
       const p = await list(page)
       totals.push(p.total)
@@ -119,32 +128,60 @@ describe('list paging', () => {
     for (const sort of [undefined, 'code', 'wafer', 'status', 'rotationDeg', 'createdAt'])
       for (const dir of ['asc', 'desc'] as const) {
         const { rows, totals } = await allPages((page) => listChips(t.db, { ...first, page, sort, dir, q: tag }))
-        expect(rows.map((r) => r.code), `${sort} ${dir}`).toEqual(dir === 'asc' ? active : [...active].reverse())
+        expect(
+          rows.map((r) => r.code),
+          `${sort} ${dir}`,
+        ).toEqual(dir === 'asc' ? active : [...active].reverse())
         expect(totals).toEqual([5, 5, 5, 5])
       }
-    const all = await allPages((page) => listChips(t.db, { ...first, page, q: tag, includeRetired: true, sort: 'wafer', dir: 'desc' }))
+    const all = await allPages((page) =>
+      listChips(t.db, { ...first, page, q: tag, includeRetired: true, sort: 'wafer', dir: 'desc' }),
+    )
     expect(all.rows.map((r) => r.code)).toEqual(made.map((c) => c.code).reverse())
     expect(all.totals).toEqual([6, 6, 6, 6])
-    expect((await listChips(t.db, { ...first, q: tag, status: 'retired' })).rows.map((r) => r.code)).toEqual([made[4].code])
+    expect((await listChips(t.db, { ...first, q: tag, status: 'retired' })).rows.map((r) => r.code)).toEqual([
+      made[4].code,
+    ])
     const ofA = await allPages((page) => listChips(t.db, { ...first, page, parentId: waferIds[0], dir: 'desc' }))
-    expect(ofA.rows.map((r) => r.code)).toEqual(made.slice(0, 3).map((c) => c.code).reverse())
+    expect(ofA.rows.map((r) => r.code)).toEqual(
+      made
+        .slice(0, 3)
+        .map((c) => c.code)
+        .reverse(),
+    )
     expect(ofA.totals).toEqual([3, 3, 3])
     for (const row of all.rows) expect(row).toEqual(await getChip(t.db, row.id))
-    expect(all.rows.at(-1)).toMatchObject({ arrayCount: 1, wafer: { id: waferIds[0], cutLabel: '(001)' }, holder: null })
+    expect(all.rows.at(-1)).toMatchObject({
+      arrayCount: 1,
+      wafer: { id: waferIds[0], cutLabel: '(001)' },
+      holder: null,
+    })
   })
 
   it('wafers: ties of the sort column come in id order in both directions, so pages neither overlap nor leave a gap', async () => {
     const { material, wafer } = await makeWafer(fab)
     const ids = [wafer.id]
     for (let i = 0; i < 2; i++) {
-      const res = await fab.post('/api/wafers').send({ materialId: material.id, cutNormal: [0, 0, 1], flatDirection: [1, -1, 0], diameterMm: 50.8, thicknessUm: 350, lot: `LOT-${uid()}` })
+      const res = await fab.post('/api/wafers').send({
+        materialId: material.id,
+        cutNormal: [0, 0, 1],
+        flatDirection: [1, -1, 0],
+        diameterMm: 50.8,
+        thicknessUm: 350,
+        lot: `LOT-${uid()}`,
+      })
       expect(res.status).toBe(201)
       ids.push(res.body.id)
     }
     for (const sort of ['status', 'material', 'diameterMm'])
       for (const dir of ['asc', 'desc'] as const) {
-        const { rows, totals } = await allPages((page) => listWafers(t.db, { ...first, page, sort, dir, materialId: material.id }))
-        expect(rows.map((r) => r.id), `${sort} ${dir}`).toEqual(ids)
+        const { rows, totals } = await allPages((page) =>
+          listWafers(t.db, { ...first, page, sort, dir, materialId: material.id }),
+        )
+        expect(
+          rows.map((r) => r.id),
+          `${sort} ${dir}`,
+        ).toEqual(ids)
         expect(totals).toEqual([3, 3, 3])
       }
     const byCode = await allPages((page) => listWafers(t.db, { ...first, page, dir: 'desc', materialId: material.id }))
@@ -159,7 +196,9 @@ describe('list paging', () => {
     const made: { id: number; code: string }[] = []
     // the second and third share their performedAt: the tie is broken by id
     for (const [i, day] of ['2024-01-01', '2024-01-02', '2024-01-02', '2024-01-03', '2024-01-04'].entries()) {
-      const res = await optics.post('/api/sessions').send(sessionBody(setup.id, i === 2 ? [a1.id, a0.id] : [a0.id], { performedAt: `${day}T10:00:00.000Z` }))
+      const res = await optics
+        .post('/api/sessions')
+        .send(sessionBody(setup.id, i === 2 ? [a1.id, a0.id] : [a0.id], { performedAt: `${day}T10:00:00.000Z` }))
       expect(res.status).toBe(201)
       made.push(res.body)
     }
@@ -169,22 +208,38 @@ describe('list paging', () => {
     expect(newestFirst.totals).toEqual([5, 5, 5, 5])
     for (const sort of ['performedAt', 'code', 'wavelengthNm', 'harmonicOrder', 'createdAt'])
       for (const dir of ['asc', 'desc'] as const) {
-        const { rows, totals } = await allPages((page) => listSessions(t.db, { ...first, page, sort, dir, laserSetupId: setup.id }))
-        expect(rows.map((r) => r.code), `${sort} ${dir}`).toEqual(dir === 'asc' ? codesUp : [...codesUp].reverse())
+        const { rows, totals } = await allPages((page) =>
+          listSessions(t.db, { ...first, page, sort, dir, laserSetupId: setup.id }),
+        )
+        expect(
+          rows.map((r) => r.code),
+          `${sort} ${dir}`,
+        ).toEqual(dir === 'asc' ? codesUp : [...codesUp].reverse())
         expect(totals).toEqual([5, 5, 5, 5])
       }
     const byArray = await allPages((page) => listSessions(t.db, { ...first, page, array: a1.code }))
     expect(byArray.rows.map((r) => r.code)).toEqual([made[2].code])
     expect(byArray.rows[0].arrayCodes).toEqual([a0.code, a1.code].sort())
-    const inDays = await allPages((page) => listSessions(t.db, { ...first, page, laserSetupId: setup.id, from: '2024-01-02', to: '2024-01-03' }))
+    const inDays = await allPages((page) =>
+      listSessions(t.db, { ...first, page, laserSetupId: setup.id, from: '2024-01-02', to: '2024-01-03' }),
+    )
     expect(inDays.rows.map((r) => r.code)).toEqual([made[3].code, made[2].code, made[1].code])
     expect(inDays.totals).toEqual([3, 3, 3])
     for (const row of newestFirst.rows) {
       const s = await getSession(t.db, row.id)
       expect(row).toEqual({
-        id: s.id, code: s.code, laserSetup: s.laserSetup, operator: s.operator, performedAt: s.performedAt, wavelengthNm: s.wavelengthNm,
-        harmonicOrder: s.harmonicOrder, pump: s.pump, avgPowerMw: s.avgPowerMw, createdAt: s.createdAt,
-        arrayCodes: s.results.map((r) => r.arrayCode), isBackdated: s.isBackdated,
+        id: s.id,
+        code: s.code,
+        laserSetup: s.laserSetup,
+        operator: s.operator,
+        performedAt: s.performedAt,
+        wavelengthNm: s.wavelengthNm,
+        harmonicOrder: s.harmonicOrder,
+        pump: s.pump,
+        avgPowerMw: s.avgPowerMw,
+        createdAt: s.createdAt,
+        arrayCodes: s.results.map((r) => r.arrayCode),
+        isBackdated: s.isBackdated,
       })
     }
   })

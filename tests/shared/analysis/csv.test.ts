@@ -20,7 +20,9 @@ describe('hostile tables give clear messages', () => {
 
   it('text only', () => {
     expect(codeOf(() => readSweepText('hello world\nthis is not data\nat all\n'))).toBe('NO_NUMBERS')
-    expect(() => readSweepText('<html><body>oops</body></html>\n<p>x</p>')).toThrow(/no row of the file could be read as numbers/)
+    expect(() => readSweepText('<html><body>oops</body></html>\n<p>x</p>')).toThrow(
+      /no row of the file could be read as numbers/,
+    )
   })
 
   it('a single column', () => {
@@ -38,7 +40,9 @@ describe('hostile tables give clear messages', () => {
     }
     expect(error).toBeInstanceOf(AnalysisError)
     expect((error as AnalysisError).code).toBe('TOO_LARGE')
-    expect((error as AnalysisError).message).toMatch(new RegExp(`too large: 300001 rows, the limit is ${MAX_TABLE_ROWS} rows`))
+    expect((error as AnalysisError).message).toMatch(
+      new RegExp(`too large: 300001 rows, the limit is ${MAX_TABLE_ROWS} rows`),
+    )
   })
 
   it('more than 20 MB of text: "too large" before splitting', () => {
@@ -54,13 +58,22 @@ describe('hostile tables give clear messages', () => {
   it('decimal commas in a whitespace-separated file are read as decimals, not as separators', () => {
     const t = parseTable('0 1,5\n10 2,5\n20 3,5\n')
     expect(t.separator).toBe('whitespace')
-    expect(t.rows).toEqual([[0, 1.5], [10, 2.5], [20, 3.5]])
+    expect(t.rows).toEqual([
+      [0, 1.5],
+      [10, 2.5],
+      [20, 3.5],
+    ])
   })
 
   it('mixed decimal commas in a comma-separated file: those rows are reported with line numbers', () => {
     const sweep = readSweepText('angle,intensity\n0,1.5\n10,2,5\n20,3.5\n30,4.5\n')
     expect(sweep.anglesDeg).toEqual([0, 20, 30])
-    expect(sweep.skipped).toEqual([{ line: 3, reason: expect.stringMatching(/has 3 fields, expected 2 \(a decimal comma in a comma-separated file/) }])
+    expect(sweep.skipped).toEqual([
+      {
+        line: 3,
+        reason: expect.stringMatching(/has 3 fields, expected 2 \(a decimal comma in a comma-separated file/),
+      },
+    ])
   })
 
   it('NaN, Inf and text cells: the row is skipped and named', () => {
@@ -92,7 +105,10 @@ describe('sweep columns and angle units', () => {
   it('finds the columns by their names, in any order', () => {
     const s = readSweepText('I_perp (counts),theta (deg),I_par (counts)\n1,0,5\n2,10,6\n3,20,7\n')
     expect(s.angleColumn).toBe('theta (deg)')
-    expect(s.channels.map((c) => [c.column, c.analyser])).toEqual([['I_par (counts)', 'parallel'], ['I_perp (counts)', 'perpendicular']])
+    expect(s.channels.map((c) => [c.column, c.analyser])).toEqual([
+      ['I_par (counts)', 'parallel'],
+      ['I_perp (counts)', 'perpendicular'],
+    ])
   })
 
   it('without names, assumes angle, parallel, perpendicular and says so', () => {
@@ -102,6 +118,8 @@ describe('sweep columns and angle units', () => {
   })
 
   it('an unknown column override names the columns that exist', () => {
-    expect(() => readSweepText('angle,I\n0,1\n1,2\n2,3\n', { angleColumn: 'phi' })).toThrow(/no column "phi"; the file has "angle", "I"/)
+    expect(() => readSweepText('angle,I\n0,1\n1,2\n2,3\n', { angleColumn: 'phi' })).toThrow(
+      /no column "phi"; the file has "angle", "I"/,
+    )
   })
 })

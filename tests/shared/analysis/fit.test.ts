@@ -4,12 +4,22 @@ import { fitPolarSweep, AnalysisError } from '../../../shared/analysis'
 import { seededNormal, sweepAngles } from './seeded'
 
 const rad = (d: number) => (d * Math.PI) / 180
-const wrap = (d: number, period: number) => ((d % period) + period + period / 2) % period - period / 2
+const wrap = (d: number, period: number) => (((d % period) + period + period / 2) % period) - period / 2
 
-function synthetic(angles: number[], channels: { analyser: 'parallel' | 'perpendicular'; law: (th: number) => number }[], seed: number, noise = 0.03): PolarSweep {
+function synthetic(
+  angles: number[],
+  channels: { analyser: 'parallel' | 'perpendicular'; law: (th: number) => number }[],
+  seed: number,
+  noise = 0.03,
+): PolarSweep {
   const gauss = seededNormal(seed)
   return {
-    anglesDeg: angles, angleColumn: 'angle', angleUnit: 'deg', angleUnitReason: 'test', skipped: [], notes: [],
+    anglesDeg: angles,
+    angleColumn: 'angle',
+    angleUnit: 'deg',
+    angleUnitReason: 'test',
+    skipped: [],
+    notes: [],
     channels: channels.map((c) => {
       const clean = angles.map((a) => c.law(rad(a)))
       const peak = Math.max(...clean)
@@ -23,10 +33,14 @@ function synthetic(angles: number[], channels: { analyser: 'parallel' | 'perpend
 describe('fit recovers the crystal azimuth of a D3h monolayer (law of Li et al., Nano Lett. 13, 3329 (2013))', () => {
   const model: PatternModel = { pointGroup: '-6m2', normal: [0, 0, 1], reference: [0, 1, 0], order: 2 }
   const truePhi = 17.3
-  const sweep = synthetic(sweepAngles(2), [
-    { analyser: 'parallel', law: (t) => 1000 * Math.cos(3 * (t - rad(truePhi))) ** 2 + 40 },
-    { analyser: 'perpendicular', law: (t) => 1000 * Math.sin(3 * (t - rad(truePhi))) ** 2 + 40 },
-  ], 20130612)
+  const sweep = synthetic(
+    sweepAngles(2),
+    [
+      { analyser: 'parallel', law: (t) => 1000 * Math.cos(3 * (t - rad(truePhi))) ** 2 + 40 },
+      { analyser: 'perpendicular', law: (t) => 1000 * Math.sin(3 * (t - rad(truePhi))) ** 2 + 40 },
+    ],
+    20130612,
+  )
   const fit = fitPolarSweep(sweep, model)
 
   it('azimuth within 3σ of the truth, σ < 1°, modulo the 60° period', () => {
@@ -41,14 +55,21 @@ describe('fit recovers the crystal azimuth of a D3h monolayer (law of Li et al.,
     expect(Math.abs(fit.scale.value - 1000)).toBeLessThan(3 * fit.scale.sigma)
     for (const b of fit.backgrounds) expect(Math.abs(b.value - 40)).toBeLessThan(3 * b.sigma + 1e-9)
     expect(fit.rSquared).toBeGreaterThan(0.98)
-    expect(fit.symmetry.map((s) => [s.dataFold, s.modelFold])).toEqual([[6, 6], [6, 6]])
+    expect(fit.symmetry.map((s) => [s.dataFold, s.modelFold])).toEqual([
+      [6, 6],
+      [6, 6],
+    ])
     expect(fit.isSymmetryMatch).toBe(true)
     expect(fit.residuals).toHaveLength(2 * 180)
     expect(fit.assumptions.length).toBeGreaterThan(0)
   })
 
   it('can fail: four-fold data are flagged as not matching the D3h model', () => {
-    const fourFold = synthetic(sweepAngles(2), [{ analyser: 'parallel', law: (t) => 500 * Math.sin(2 * t) ** 2 + 10 }], 7)
+    const fourFold = synthetic(
+      sweepAngles(2),
+      [{ analyser: 'parallel', law: (t) => 500 * Math.sin(2 * t) ** 2 + 10 }],
+      7,
+    )
     const bad = fitPolarSweep(fourFold, model)
     expect(bad.symmetry[0].dataFold).toBe(4)
     expect(bad.isSymmetryMatch).toBe(false)
@@ -64,10 +85,14 @@ describe('fit recovers azimuth and tensor ratios of an a-plane wurtzite film (cl
   const [d15, d31, d33, phi] = [1, -0.5, 2, 17.3]
   const par = (t: number) => Math.cos(t) * ((2 * d15 + d31) * Math.sin(t) ** 2 + d33 * Math.cos(t) ** 2)
   const perp = (t: number) => Math.sin(t) * ((2 * d15 - d33) * Math.cos(t) ** 2 - d31 * Math.sin(t) ** 2)
-  const sweep = synthetic(sweepAngles(1), [
-    { analyser: 'parallel', law: (t) => 300 * par(t - rad(phi)) ** 2 + 20 },
-    { analyser: 'perpendicular', law: (t) => 300 * perp(t - rad(phi)) ** 2 + 20 },
-  ], 42)
+  const sweep = synthetic(
+    sweepAngles(1),
+    [
+      { analyser: 'parallel', law: (t) => 300 * par(t - rad(phi)) ** 2 + 20 },
+      { analyser: 'perpendicular', law: (t) => 300 * perp(t - rad(phi)) ** 2 + 20 },
+    ],
+    42,
+  )
   const fit = fitPolarSweep(sweep, model)
 
   it('azimuth (modulo 180°) and the ratios d31/d15, d33/d15 within 3σ', () => {

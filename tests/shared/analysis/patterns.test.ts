@@ -1,7 +1,13 @@
 import { describe, it, expect } from 'vitest'
 import { predictPolarPattern, labFrame, rotateToSample, solveTensorForm, flatIndex } from '../../../shared/engine'
 import type { PatternModel } from '../../../shared/analysis'
-import { predictPattern, buildLabTensor, describePatternBasis, findDominantHarmonic, PATTERN_ASSUMPTIONS } from '../../../shared/analysis'
+import {
+  predictPattern,
+  buildLabTensor,
+  describePatternBasis,
+  findDominantHarmonic,
+  PATTERN_ASSUMPTIONS,
+} from '../../../shared/analysis'
 import { sweepAngles } from './seeded'
 
 const rad = (d: number) => (d * Math.PI) / 180
@@ -36,7 +42,7 @@ describe('D3h monolayer rotational anisotropy (Li et al., Nano Lett. 13, 3329 (2
     expect(p[0].parallel).toBeCloseTo(0, 12)
   })
 
-  it('order 2 agrees with the engine\'s predictPolarPattern on the same lab tensor', () => {
+  it("order 2 agrees with the engine's predictPolarPattern on the same lab tensor", () => {
     const [t] = solveTensorForm('-6m2', 2).tensors
     const lab = rotateToSample(t, 3, labFrame({ normal: [0, 0, 1], reference: [0, 1, 0], azimuthDeg: -40 }))
     const engine = predictPolarPattern(lab, angles)
@@ -65,8 +71,18 @@ describe('(111) zinc-blende six-fold pattern (closed form from the SHAARP d-matr
   })
 
   it('has six lobes with the parallel analyser, none without analyser', () => {
-    expect(findDominantHarmonic(angles, p.map((x) => x.parallel)).fold).toBe(6)
-    expect(findDominantHarmonic(angles, p.map((x) => x.none)).fold).toBe(0)
+    expect(
+      findDominantHarmonic(
+        angles,
+        p.map((x) => x.parallel),
+      ).fold,
+    ).toBe(6)
+    expect(
+      findDominantHarmonic(
+        angles,
+        p.map((x) => x.none),
+      ).fold,
+    ).toBe(0)
   })
 })
 
@@ -77,7 +93,12 @@ describe('(111) zinc-blende six-fold pattern (closed form from the SHAARP d-matr
 // only off the normal (oblique incidence or high-NA collection). Consistent with docs/physics.md §4:
 // a (001) disk emits no SH along the normal.
 describe('(001) zinc blende at normal incidence (common practice; docs/physics.md §4)', () => {
-  const p = predictPattern({ pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0], order: 2 }, undefined, 0, angles)
+  const p = predictPattern(
+    { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0], order: 2 },
+    undefined,
+    0,
+    angles,
+  )
 
   it('radiates nothing along the normal for any analyser', () => {
     for (const x of p) expect(Math.max(x.parallel, x.perpendicular, x.none)).toBeLessThan(1e-24)
@@ -85,7 +106,12 @@ describe('(001) zinc blende at normal incidence (common practice; docs/physics.m
 
   it('its out-of-plane source P_z² ∝ sin²(2θ) is four-fold', () => {
     for (const x of p) expect(x.normal).toBeCloseTo(Math.sin(2 * rad(x.angleDeg)) ** 2, 12)
-    expect(findDominantHarmonic(angles, p.map((x) => x.normal)).fold).toBe(4)
+    expect(
+      findDominantHarmonic(
+        angles,
+        p.map((x) => x.normal),
+      ).fold,
+    ).toBe(4)
   })
 })
 
@@ -96,7 +122,7 @@ describe('(001) zinc blende at normal incidence (common practice; docs/physics.m
 describe('order 3: cubic (001) THG closed form (derived here; isotropic limit from Boyd §1.5)', () => {
   const model: PatternModel = { pointGroup: 'm-3m', normal: [0, 0, 1], reference: [1, 0, 0], order: 3 }
 
-  it('matches the closed form with the tensor\'s own a and b', () => {
+  it("matches the closed form with the tensor's own a and b", () => {
     const t = buildLabTensor(model, [1, 0.2])
     const [a, b] = [t[flatIndex('xxxx')], t[flatIndex('xxyy')]]
     expect(b).toBeCloseTo(0.2, 12)
@@ -116,8 +142,10 @@ describe('order 3: cubic (001) THG closed form (derived here; isotropic limit fr
 })
 
 describe('model inputs', () => {
-  it('labels the independent components in the engine\'s standard setting', () => {
-    expect(describePatternBasis({ pointGroup: '6mm', normal: [1, 0, 0], reference: [0, 0, 1], order: 2 }).labels).toEqual(['d15', 'd31', 'd33'])
+  it("labels the independent components in the engine's standard setting", () => {
+    expect(
+      describePatternBasis({ pointGroup: '6mm', normal: [1, 0, 0], reference: [0, 0, 1], order: 2 }).labels,
+    ).toEqual(['d15', 'd31', 'd33'])
   })
 
   it('rejects the wrong number of ratios and unsupported orders', () => {
@@ -126,7 +154,7 @@ describe('model inputs', () => {
     expect(() => predictPattern({ ...model, order: 4 }, undefined, 0, [0])).toThrow(/orders 2 and 3/)
   })
 
-  it('states the model\'s assumptions for the UI', () => {
+  it("states the model's assumptions for the UI", () => {
     expect(PATTERN_ASSUMPTIONS.join(' ')).toMatch(/normal incidence.*bulk.*Fresnel.*NA/s)
   })
 })

@@ -48,8 +48,12 @@ describe('harmonic peak in a spectrum (Gaussian on a sloped background, analytic
   })
 
   it('no data near λ/N: clear message', () => {
-    expect(() => findHarmonicPeak(readSpectrumText(spectrumCsv(0, 1)), { pumpWavelengthNm: 1550, order: 2 })).toThrow(AnalysisError)
-    expect(() => findHarmonicPeak(readSpectrumText(spectrumCsv(0, 1)), { pumpWavelengthNm: 1550, order: 2 })).toThrow(/no point near λ\/N = 775.0 nm/)
+    expect(() => findHarmonicPeak(readSpectrumText(spectrumCsv(0, 1)), { pumpWavelengthNm: 1550, order: 2 })).toThrow(
+      AnalysisError,
+    )
+    expect(() => findHarmonicPeak(readSpectrumText(spectrumCsv(0, 1)), { pumpWavelengthNm: 1550, order: 2 })).toThrow(
+      /no point near λ\/N = 775.0 nm/,
+    )
   })
 })
 
@@ -57,7 +61,10 @@ describe('harmonic peak in a spectrum (Gaussian on a sloped background, analytic
 // m ∈ {−4, −2, 0, 2, 4}: no emission along the normal. On (111) (Q = {0, ±3}) it is allowed.
 describe('flag: a harmonic peak where the engine forbids emission along the normal', () => {
   const request = (normal: number[], reference: number[]) => ({
-    crystal: { pointGroup: '-43m', normal, reference }, structure: { rotationOrder: 0 }, pump: { type: 'linear', angle: 0 }, order: 2,
+    crystal: { pointGroup: '-43m', normal, reference },
+    structure: { rotationOrder: 0 },
+    pump: { type: 'linear', angle: 0 },
+    order: 2,
   })
   const peak = findHarmonicPeak(readSpectrumText(spectrumCsv(2, 5)), { pumpWavelengthNm: 800, order: 2 })
 

@@ -1,8 +1,15 @@
 import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
 import {
-  clearEngineCaches, computeChannels, evaluateChannels, parseChannelRequest, findAllowedHarmonics, sumProjections,
-  getPointGroup, solveTensorForm, prepareSampleTensor,
+  clearEngineCaches,
+  computeChannels,
+  evaluateChannels,
+  parseChannelRequest,
+  findAllowedHarmonics,
+  sumProjections,
+  getPointGroup,
+  solveTensorForm,
+  prepareSampleTensor,
 } from '../../../shared/engine'
 import type { ChannelResponse } from '../../../shared/engine'
 import { BoundedCache } from '../../../shared/engine/bounded-cache'
@@ -31,16 +38,31 @@ const CUTS = [
   { pointGroup: ' C3v ', normal: 'Z', reference: 'X' },
 ]
 const PUMPS = [
-  { type: 'circular', m: 1 }, { type: 'circular', m: -1 }, { type: 'linear', angle: 0 }, { type: 'linear', angle: 30 },
-  { type: 'linear', angle: 135 }, { type: 'radial' }, { type: 'azimuthal' }, { type: 'vortex', spin: 1, charge: 2 },
-  { type: 'vortex', spin: -1, charge: -3 }, { type: 'elliptical' }, { type: 'explicit', m: [2, 0, 2, -1] },
+  { type: 'circular', m: 1 },
+  { type: 'circular', m: -1 },
+  { type: 'linear', angle: 0 },
+  { type: 'linear', angle: 30 },
+  { type: 'linear', angle: 135 },
+  { type: 'radial' },
+  { type: 'azimuthal' },
+  { type: 'vortex', spin: 1, charge: 2 },
+  { type: 'vortex', spin: -1, charge: -3 },
+  { type: 'elliptical' },
+  { type: 'explicit', m: [2, 0, 2, -1] },
   { type: 'explicit', m: [1, -1], parity: { mirror: 30, sign: -1 } },
   { type: 'explicit', m: Array.from({ length: 70 }, (_, i) => (i % 5) - 2) }, // longer than the memoised lists
 ]
 const STRUCTURES = [
-  { rotationOrder: 0, mirrors: [0, 90] }, { rotationOrder: 4, mirrors: [0, 45, 90, 135] }, { rotationOrder: 3, mirrors: [30, 90, 150] },
-  { rotationOrder: 6, mirrors: [] }, { rotationOrder: 2, mirrors: [0, 90] }, { rotationOrder: 1 }, { rotationOrder: 1, mirrors: [45, 225, 45] },
-  { rotationOrder: 5, mirrors: [0, 36, 180, -36] }, { rotationOrder: 2, mirrors: [0, 90, 30] }, { rotationOrder: 12, mirrors: [15.5] },
+  { rotationOrder: 0, mirrors: [0, 90] },
+  { rotationOrder: 4, mirrors: [0, 45, 90, 135] },
+  { rotationOrder: 3, mirrors: [30, 90, 150] },
+  { rotationOrder: 6, mirrors: [] },
+  { rotationOrder: 2, mirrors: [0, 90] },
+  { rotationOrder: 1 },
+  { rotationOrder: 1, mirrors: [45, 225, 45] },
+  { rotationOrder: 5, mirrors: [0, 36, 180, -36] },
+  { rotationOrder: 2, mirrors: [0, 90, 30] },
+  { rotationOrder: 12, mirrors: [15.5] },
   { rotationOrder: 2, mirrors: Array.from({ length: 100 }, (_, i) => (i * 45) % 360) },
 ]
 
@@ -61,7 +83,12 @@ function requests(): Record<string, unknown>[] {
   const pick = <T>(list: readonly T[]): T => list[Math.floor(next() * list.length)]
   const out: Record<string, unknown>[] = []
   for (let i = 0; i < 200; i++) {
-    const req: Record<string, unknown> = { crystal: pick(CUTS), pump: pick(PUMPS), structure: pick(STRUCTURES), order: pick([2, 2, 3, 3, 4]) }
+    const req: Record<string, unknown> = {
+      crystal: pick(CUTS),
+      pump: pick(PUMPS),
+      structure: pick(STRUCTURES),
+      order: pick([2, 2, 3, 3, 4]),
+    }
     if (next() < 0.3) req.lmax = pick([1, 2, 3, 8])
     if (next() < 0.4) req.window = pick([1, 3, 8, 12, 64])
     if (next() < 0.1) req.surface = true
@@ -71,9 +98,18 @@ function requests(): Record<string, unknown>[] {
   const structure = { rotationOrder: 0, mirrors: [0, 90] }
   for (let k = 0; k < 270; k++)
     out.push({ crystal: { ...CUTS[1], azimuth: k * 0.6 }, pump: { type: 'linear', angle: 0 }, structure, order: 2 })
-  const nested = [1, 2, 3, 4, 5].map((k) => [5, 20, 35, 50, 65].slice(0, k)).concat([0, 1, 2, 3, 4, 5].map((j) => [5, 20, 35, 50, 70 + 10 * j]))
+  const nested = [1, 2, 3, 4, 5]
+    .map((k) => [5, 20, 35, 50, 65].slice(0, k))
+    .concat([0, 1, 2, 3, 4, 5].map((j) => [5, 20, 35, 50, 70 + 10 * j]))
   for (let n = 0; n < 24; n++)
-    for (const mirrors of nested) out.push({ crystal: CUTS[0], pump: { type: 'linear', angle: 5 }, structure: { rotationOrder: n, mirrors }, order: 2, window: 12 })
+    for (const mirrors of nested)
+      out.push({
+        crystal: CUTS[0],
+        pump: { type: 'linear', angle: 5 },
+        structure: { rotationOrder: n, mirrors },
+        order: 2,
+        window: 12,
+      })
   return out
 }
 
@@ -166,8 +202,11 @@ describe('rule 4 fast path (seeded)', () => {
   it('equals the term-by-term rule for integer inputs, and repeated calls agree', () => {
     fc.assert(
       fc.property(
-        fc.array(fc.integer({ min: -6, max: 6 }), { minLength: 1, maxLength: 4 }), fc.integer({ min: 1, max: 4 }),
-        fc.uniqueArray(fc.integer({ min: -6, max: 6 }), { maxLength: 6 }), fc.integer({ min: 0, max: 12 }), fc.integer({ min: 1, max: 20 }),
+        fc.array(fc.integer({ min: -6, max: 6 }), { minLength: 1, maxLength: 4 }),
+        fc.integer({ min: 1, max: 4 }),
+        fc.uniqueArray(fc.integer({ min: -6, max: 6 }), { maxLength: 6 }),
+        fc.integer({ min: 0, max: 12 }),
+        fc.integer({ min: 1, max: 20 }),
         (pump, order, q, n, window) => {
           const input = { pumpProjections: pump, order, q, rotationOrder: n, window }
           const expected = reference(pump, order, q, n, window)
@@ -204,11 +243,13 @@ describe('BoundedCache', () => {
   })
 })
 
-describe('what the engine hands out is the caller\'s own', () => {
+describe("what the engine hands out is the caller's own", () => {
   it('point groups are frozen', () => {
     const g = getPointGroup('-43m')
     expect(Object.isFrozen(g) && Object.isFrozen(g.elements) && Object.isFrozen(g.elements[0])).toBe(true)
-    expect(() => { (g.elements[1] as number[])[0] = 5 }).toThrow(TypeError)
+    expect(() => {
+      ;(g.elements[1] as number[])[0] = 5
+    }).toThrow(TypeError)
     expect(getPointGroup('Td').elements[1]).toEqual(getPointGroup('-43m').elements[1])
   })
 
@@ -221,12 +262,19 @@ describe('what the engine hands out is the caller\'s own', () => {
     form.tensors[0].fill(7)
     form.space.parameterOf.fill(0)
     expect(solveTensorForm('-43m', 2).tensors[0]).toEqual(original)
-    const input = { pointGroup: CUTS[0].pointGroup, normal: CUTS[0].normal as [number, number, number], reference: CUTS[0].reference as [number, number, number], order: 2 }
+    const input = {
+      pointGroup: CUTS[0].pointGroup,
+      normal: CUTS[0].normal as [number, number, number],
+      reference: CUTS[0].reference as [number, number, number],
+      order: 2,
+    }
     const sample = prepareSampleTensor(input)
     const rotated = sample.tensors[0].slice()
     sample.tensors[0].fill(3)
     expect(prepareSampleTensor(input).tensors[0]).toEqual(rotated)
-    expect(() => { (sample.content.q as number[]).push(9) }).toThrow(TypeError)
+    expect(() => {
+      ;(sample.content.q as number[]).push(9)
+    }).toThrow(TypeError)
     expect(text(computeChannels(req))).toBe(before)
   })
 })

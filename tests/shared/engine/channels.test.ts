@@ -1,6 +1,13 @@
 import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
-import { computeChannels, deriveArraySymmetry, getPointGroup, POINT_GROUP_SYMBOLS, EngineError, ENGINE_VERSION } from '../../../shared/engine'
+import {
+  computeChannels,
+  deriveArraySymmetry,
+  getPointGroup,
+  POINT_GROUP_SYMBOLS,
+  EngineError,
+  ENGINE_VERSION,
+} from '../../../shared/engine'
 
 const zb001 = { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0] }
 const revolution = { rotationOrder: 0, mirrors: [0, 90] }
@@ -21,9 +28,16 @@ describe('zinc-blende (001) channels (common practice)', () => {
   })
 
   it('no SH along the normal from a (001) nanodisk or a C4 array of disks', () => {
-    for (const pump of [{ type: 'circular', m: 1 }, { type: 'linear', angle: 0 }, { type: 'linear', angle: 45 }])
+    for (const pump of [
+      { type: 'circular', m: 1 },
+      { type: 'linear', angle: 0 },
+      { type: 'linear', angle: 45 },
+    ])
       for (const structure of [revolution, { rotationOrder: 4, mirrors: [0, 45, 90, 135] }])
-        expect(computeChannels({ crystal: zb001, structure, pump, order: 2 }).normalEmission).toMatchObject({ allowed: false, m: [] })
+        expect(computeChannels({ crystal: zb001, structure, pump, order: 2 }).normalEmission).toMatchObject({
+          allowed: false,
+          m: [],
+        })
   })
 
   it('sphere under linear pump: electric dipole forbidden, magnetic dipole along z allowed', () => {
@@ -33,7 +47,12 @@ describe('zinc-blende (001) channels (common practice)', () => {
   })
 
   it('(111) cut with a linear pump does emit along the normal; the non-crystal mirror gives no parity entry', () => {
-    const r = computeChannels({ crystal: { pointGroup: '-43m', normal: [1, 1, 1], reference: [1, -1, 0] }, structure: revolution, pump: { type: 'linear', angle: 0 }, order: 2 })
+    const r = computeChannels({
+      crystal: { pointGroup: '-43m', normal: [1, 1, 1], reference: [1, -1, 0] },
+      structure: revolution,
+      pump: { type: 'linear', angle: 0 },
+      order: 2,
+    })
     expect(r.q).toEqual([-3, 0, 3])
     expect(r.normalEmission.allowed).toBe(true)
     expect(r.parity.map((p) => p.mirror)).toEqual([90])
@@ -43,8 +62,17 @@ describe('zinc-blende (001) channels (common practice)', () => {
 
 describe('response shape (CLI contract)', () => {
   it('has the contract fields, sorted m within the window, multipoles with |m| ≤ l ≤ lmax', () => {
-    const r = computeChannels({ crystal: { pointGroup: '3m', normal: 'Z', reference: 'X' }, structure: { rotationOrder: 1 }, pump: { type: 'elliptical' }, order: 3, window: 5, lmax: 2 })
-    expect(Object.keys(r)).toEqual(expect.arrayContaining(['q', 'm', 'parity', 'normalEmission', 'multipoles', 'explain']))
+    const r = computeChannels({
+      crystal: { pointGroup: '3m', normal: 'Z', reference: 'X' },
+      structure: { rotationOrder: 1 },
+      pump: { type: 'elliptical' },
+      order: 3,
+      window: 5,
+      lmax: 2,
+    })
+    expect(Object.keys(r)).toEqual(
+      expect.arrayContaining(['q', 'm', 'parity', 'normalEmission', 'multipoles', 'explain']),
+    )
     expect(r.m).toEqual([-5, -4, -3, -2, -1, 0, 1, 2, 3, 4, 5])
     expect(r.multipoles.every((p) => Math.abs(p.m) <= p.l && p.l <= 2)).toBe(true)
     expect(r.engineVersion).toBe(ENGINE_VERSION)
@@ -58,13 +86,22 @@ describe('response shape (CLI contract)', () => {
   })
 
   it('radial pump: parity at every given mirror; azimuthal flips odd orders', () => {
-    const base = { crystal: { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 1, 0] }, structure: { rotationOrder: 0, mirrors: [0, 90] }, order: 3 }
+    const base = {
+      crystal: { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 1, 0] },
+      structure: { rotationOrder: 0, mirrors: [0, 90] },
+      order: 3,
+    }
     expect(computeChannels({ ...base, pump: { type: 'radial' } }).parity.map((p) => p.sign)).toEqual([1, 1])
     expect(computeChannels({ ...base, pump: { type: 'azimuthal' } }).parity.map((p) => p.sign)).toEqual([-1, -1])
   })
 
   it('vortex pump m = s + ℓ shifts the harmonic m', () => {
-    const r = computeChannels({ crystal: zb001, structure: revolution, pump: { type: 'vortex', spin: 1, charge: 2 }, order: 2 })
+    const r = computeChannels({
+      crystal: zb001,
+      structure: revolution,
+      pump: { type: 'vortex', spin: 1, charge: 2 },
+      order: 2,
+    })
     expect(r.m).toEqual([4, 8])
   })
 })
@@ -81,13 +118,25 @@ describe('properties (seeded)', () => {
 
   it('centrosymmetric bulk gives no χ(2) (or χ(4)) channel at all', () => {
     fc.assert(
-      fc.property(fc.constantFrom(...CENTRO), dir, pump, fc.integer({ min: 0, max: 6 }), fc.constantFrom(2, 4), (pg, normal, p, n, order) => {
-        const r = computeChannels({ crystal: { pointGroup: pg, normal, reference: [normal[2], 0, -normal[0] || 1] }, structure: { rotationOrder: n, mirrors: [0, 90] }, pump: p, order })
-        expect(r.q).toEqual([])
-        expect(r.m).toEqual([])
-        expect(r.normalEmission.allowed).toBe(false)
-        expect(r.multipoles).toEqual([])
-      }),
+      fc.property(
+        fc.constantFrom(...CENTRO),
+        dir,
+        pump,
+        fc.integer({ min: 0, max: 6 }),
+        fc.constantFrom(2, 4),
+        (pg, normal, p, n, order) => {
+          const r = computeChannels({
+            crystal: { pointGroup: pg, normal, reference: [normal[2], 0, -normal[0] || 1] },
+            structure: { rotationOrder: n, mirrors: [0, 90] },
+            pump: p,
+            order,
+          })
+          expect(r.q).toEqual([])
+          expect(r.m).toEqual([])
+          expect(r.normalEmission.allowed).toBe(false)
+          expect(r.multipoles).toEqual([])
+        },
+      ),
       { seed: 42, numRuns: 80 },
     )
   })
@@ -97,20 +146,46 @@ describe('properties (seeded)', () => {
     const b = deriveArraySymmetry({ kind: 'square' }, { kind: 'square' })
     const mirrors = (s: typeof a) => (s.mirrors === 'all' ? [] : s.mirrors)
     fc.assert(
-      fc.property(fc.constantFrom(...POINT_GROUP_SYMBOLS), dir, pump, fc.integer({ min: 2, max: 3 }), (pg, normal, p, order) => {
-        const crystal = { pointGroup: pg, normal, reference: [normal[2], 0, -normal[0] || 1] }
-        const ra = computeChannels({ crystal, structure: { rotationOrder: a.rotationOrder, mirrors: mirrors(a) }, pump: p, order })
-        const rb = computeChannels({ crystal, structure: { rotationOrder: b.rotationOrder, mirrors: mirrors(b) }, pump: p, order })
-        expect(ra).toEqual(rb)
-      }),
+      fc.property(
+        fc.constantFrom(...POINT_GROUP_SYMBOLS),
+        dir,
+        pump,
+        fc.integer({ min: 2, max: 3 }),
+        (pg, normal, p, order) => {
+          const crystal = { pointGroup: pg, normal, reference: [normal[2], 0, -normal[0] || 1] }
+          const ra = computeChannels({
+            crystal,
+            structure: { rotationOrder: a.rotationOrder, mirrors: mirrors(a) },
+            pump: p,
+            order,
+          })
+          const rb = computeChannels({
+            crystal,
+            structure: { rotationOrder: b.rotationOrder, mirrors: mirrors(b) },
+            pump: p,
+            order,
+          })
+          expect(ra).toEqual(rb)
+        },
+      ),
       { seed: 42, numRuns: 60 },
     )
   })
 
   it('an explicit pump with the same m and parity gives the same channels as a linear pump', () => {
     const crystal = { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 1, 0] }
-    const lin = computeChannels({ crystal, structure: { rotationOrder: 0, mirrors: [0] }, pump: { type: 'linear', angle: 0 }, order: 2 })
-    const exp = computeChannels({ crystal, structure: { rotationOrder: 0, mirrors: [0] }, pump: { type: 'explicit', m: [-1, 1], parity: { mirror: 0, sign: 1 } }, order: 2 })
+    const lin = computeChannels({
+      crystal,
+      structure: { rotationOrder: 0, mirrors: [0] },
+      pump: { type: 'linear', angle: 0 },
+      order: 2,
+    })
+    const exp = computeChannels({
+      crystal,
+      structure: { rotationOrder: 0, mirrors: [0] },
+      pump: { type: 'explicit', m: [-1, 1], parity: { mirror: 0, sign: 1 } },
+      order: 2,
+    })
     expect([exp.m, exp.parity, exp.multipoles]).toEqual([lin.m, lin.parity, lin.multipoles])
   })
 })
@@ -119,16 +194,58 @@ describe('request errors carry code, field and a readable message', () => {
   const good = { crystal: zb001, structure: revolution, pump: { type: 'circular', m: 1 }, order: 2 }
   const cases: [string, unknown, string, string, RegExp][] = [
     ['not an object', 42, 'INVALID_TYPE', '', /^request: must be an object, got 42$/],
-    ['missing crystal', { ...good, crystal: undefined }, 'MISSING_FIELD', 'crystal', /^crystal: this field is required$/],
-    ['unknown point group', { ...good, crystal: { ...zb001, pointGroup: '5m' } }, 'UNKNOWN_POINT_GROUP', 'crystal.pointGroup', /unknown point group "5m"/],
-    ['zero normal', { ...good, crystal: { ...zb001, normal: [0, 0, 0] } }, 'ZERO_VECTOR', 'crystal.normal', /zero vector/],
-    ['reference ∥ normal', { ...good, crystal: { ...zb001, reference: [0, 0, 5] } }, 'REFERENCE_PARALLEL_TO_NORMAL', 'crystal.reference', /parallel to the normal/],
+    [
+      'missing crystal',
+      { ...good, crystal: undefined },
+      'MISSING_FIELD',
+      'crystal',
+      /^crystal: this field is required$/,
+    ],
+    [
+      'unknown point group',
+      { ...good, crystal: { ...zb001, pointGroup: '5m' } },
+      'UNKNOWN_POINT_GROUP',
+      'crystal.pointGroup',
+      /unknown point group "5m"/,
+    ],
+    [
+      'zero normal',
+      { ...good, crystal: { ...zb001, normal: [0, 0, 0] } },
+      'ZERO_VECTOR',
+      'crystal.normal',
+      /zero vector/,
+    ],
+    [
+      'reference ∥ normal',
+      { ...good, crystal: { ...zb001, reference: [0, 0, 5] } },
+      'REFERENCE_PARALLEL_TO_NORMAL',
+      'crystal.reference',
+      /parallel to the normal/,
+    ],
     ['order 6', { ...good, order: 6 }, 'OUT_OF_RANGE', 'order', /order must be an integer from 2 to 5.*got 6/],
     ['order missing', { ...good, order: undefined }, 'MISSING_FIELD', 'order', /required/],
     ['order as text', { ...good, order: '2' }, 'INVALID_TYPE', 'order', /must be a finite number/],
-    ['pump angle missing', { ...good, pump: { type: 'linear' } }, 'MISSING_FIELD', 'pump.angle', /^pump\.angle: this number is required$/],
-    ['bad mirror', { ...good, structure: { rotationOrder: 0, mirrors: [0, 'x'] } }, 'INVALID_TYPE', 'structure.mirrors.1', /must be a finite number/],
-    ['negative rotation order', { ...good, structure: { rotationOrder: -2 } }, 'OUT_OF_RANGE', 'structure.rotationOrder', /from 0 to 360/],
+    [
+      'pump angle missing',
+      { ...good, pump: { type: 'linear' } },
+      'MISSING_FIELD',
+      'pump.angle',
+      /^pump\.angle: this number is required$/,
+    ],
+    [
+      'bad mirror',
+      { ...good, structure: { rotationOrder: 0, mirrors: [0, 'x'] } },
+      'INVALID_TYPE',
+      'structure.mirrors.1',
+      /must be a finite number/,
+    ],
+    [
+      'negative rotation order',
+      { ...good, structure: { rotationOrder: -2 } },
+      'OUT_OF_RANGE',
+      'structure.rotationOrder',
+      /from 0 to 360/,
+    ],
     ['window 0', { ...good, window: 0 }, 'OUT_OF_RANGE', 'window', /from 1 to 64/],
     ['surface as text', { ...good, surface: 'yes' }, 'INVALID_TYPE', 'surface', /true or false/],
   ]

@@ -13,7 +13,8 @@ describe('cut rotation', () => {
     expect(d[2][2]).toBeCloseTo(2 / s3, 12)
     for (const v of [d[2][0], d[2][1], d[0][4], d[1][3]]) expect(v).toBeCloseTo(-1 / s3, 12)
     for (const v of [d[0][5], d[1][0], -d[1][1]]) expect(v).toBeCloseTo(Math.sqrt(2 / 3), 12)
-    for (const v of [d[0][0], d[0][1], d[0][2], d[0][3], d[1][2], d[1][4], d[2][3], d[2][4], d[2][5]]) expect(v).toBeCloseTo(0, 12)
+    for (const v of [d[0][0], d[0][1], d[0][2], d[0][3], d[1][2], d[1][4], d[2][3], d[2][4], d[2][5]])
+      expect(v).toBeCloseTo(0, 12)
   })
 
   it('lab frame is right-handed and orthonormal, z along the normal, x along the projected reference', () => {
@@ -28,7 +29,9 @@ describe('cut rotation', () => {
   })
 
   it('zero normal → ZERO_VECTOR at crystal.normal', () => {
-    expect(() => labFrame({ normal: [0, 0, 0], reference: [1, 0, 0] })).toThrow(expect.objectContaining({ code: 'ZERO_VECTOR', field: 'crystal.normal' }))
+    expect(() => labFrame({ normal: [0, 0, 0], reference: [1, 0, 0] })).toThrow(
+      expect.objectContaining({ code: 'ZERO_VECTOR', field: 'crystal.normal' }),
+    )
   })
 
   it('reference parallel to the normal → REFERENCE_PARALLEL_TO_NORMAL with a readable message', () => {
@@ -38,7 +41,9 @@ describe('cut rotation', () => {
     } catch (e) {
       expect(e).toBeInstanceOf(EngineError)
       expect((e as EngineError).code).toBe('REFERENCE_PARALLEL_TO_NORMAL')
-      expect((e as EngineError).message).toMatch(/^crystal\.reference: the reference \[0,0,-3\] is parallel to the normal/)
+      expect((e as EngineError).message).toMatch(
+        /^crystal\.reference: the reference \[0,0,-3\] is parallel to the normal/,
+      )
     }
   })
 
@@ -48,6 +53,8 @@ describe('cut rotation', () => {
     expect(parseDirection('[1-10]', 'n', true)).toEqual([1, -1, 0])
     expect(parseDirection('(111)', 'n', true)).toEqual([1, 1, 1])
     expect(() => parseDirection('(001)', 'crystal.normal', false)).toThrow(/only accepted for cubic/)
-    expect(() => parseDirection([1, 2], 'crystal.normal', true)).toThrow(expect.objectContaining({ code: 'INVALID_DIRECTION' }))
+    expect(() => parseDirection([1, 2], 'crystal.normal', true)).toThrow(
+      expect.objectContaining({ code: 'INVALID_DIRECTION' }),
+    )
   })
 })

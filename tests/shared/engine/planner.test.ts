@@ -3,7 +3,10 @@ import { planFabrication, EngineError } from '../../../shared/engine'
 
 const base = {
   pointGroup: '-43m',
-  cuts: [{ normal: [0, 0, 1], reference: [1, 0, 0] }, { normal: [1, 1, 1], reference: [1, -1, 0] }],
+  cuts: [
+    { normal: [0, 0, 1], reference: [1, 0, 0] },
+    { normal: [1, 1, 1], reference: [1, -1, 0] },
+  ],
   shapes: [{ kind: 'disk' }, { kind: 'square' }, { kind: 'triangle' }, { kind: 'gammadion' }],
   lattices: [{ kind: 'single' }, { kind: 'square' }, { kind: 'hexagonal' }],
   pump: { type: 'circular', m: 1 },
@@ -30,13 +33,19 @@ describe('fabrication planner', () => {
 
   it('(111) triangles on a hexagonal lattice (C3v) give counter-rotating SH (Q ∋ ±3 and n = 3)', () => {
     const plan = planFabrication({ ...base, want: 'counter' })
-    expect(plan.some((o) => o.cutIndex === 1 && o.shape.kind === 'triangle' && o.lattice.kind === 'hexagonal')).toBe(true)
+    expect(plan.some((o) => o.cutIndex === 1 && o.shape.kind === 'triangle' && o.lattice.kind === 'hexagonal')).toBe(
+      true,
+    )
   })
 
   it('co/counter need a circular pump; bad lists are refused with field paths', () => {
-    expect(() => planFabrication({ ...base, pump: { type: 'linear', angle: 0 }, want: 'co' })).toThrow(expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'want' }))
+    expect(() => planFabrication({ ...base, pump: { type: 'linear', angle: 0 }, want: 'co' })).toThrow(
+      expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'want' }),
+    )
     expect(() => planFabrication({ ...base, shapes: [] })).toThrow(expect.objectContaining({ field: 'shapes' }))
     expect(() => planFabrication({ ...base, shapes: [{ kind: 'blob' }] })).toThrow(EngineError)
-    expect(() => planFabrication({ ...base, shapes: [{ kind: 'blob' }] })).toThrow(/^shapes\.0\.kind: unknown shape "blob"$/)
+    expect(() => planFabrication({ ...base, shapes: [{ kind: 'blob' }] })).toThrow(
+      /^shapes\.0\.kind: unknown shape "blob"$/,
+    )
   })
 })

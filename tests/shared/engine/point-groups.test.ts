@@ -5,11 +5,38 @@ import { det3, mulMat3 } from '../../../shared/engine/linalg'
 // Orders of the 32 crystallographic point groups — textbook values (e.g. Nye, Physical Properties
 // of Crystals, Appendix B; International Tables for Crystallography Vol. A, Table 10.1.2.2).
 const ORDERS: Record<string, number> = {
-  '1': 1, '-1': 2, '2': 2, m: 2, '2/m': 4, '222': 4, mm2: 4, mmm: 8,
-  '4': 4, '-4': 4, '4/m': 8, '422': 8, '4mm': 8, '-42m': 8, '4/mmm': 16,
-  '3': 3, '-3': 6, '32': 6, '3m': 6, '-3m': 12,
-  '6': 6, '-6': 6, '6/m': 12, '622': 12, '6mm': 12, '-6m2': 12, '6/mmm': 24,
-  '23': 12, 'm-3': 24, '432': 24, '-43m': 24, 'm-3m': 48,
+  '1': 1,
+  '-1': 2,
+  '2': 2,
+  m: 2,
+  '2/m': 4,
+  '222': 4,
+  mm2: 4,
+  mmm: 8,
+  '4': 4,
+  '-4': 4,
+  '4/m': 8,
+  '422': 8,
+  '4mm': 8,
+  '-42m': 8,
+  '4/mmm': 16,
+  '3': 3,
+  '-3': 6,
+  '32': 6,
+  '3m': 6,
+  '-3m': 12,
+  '6': 6,
+  '-6': 6,
+  '6/m': 12,
+  '622': 12,
+  '6mm': 12,
+  '-6m2': 12,
+  '6/mmm': 24,
+  '23': 12,
+  'm-3': 24,
+  '432': 24,
+  '-43m': 24,
+  'm-3m': 48,
 }
 // The 11 centrosymmetric (Laue) classes — textbook.
 const CENTRO = ['-1', '2/m', 'mmm', '4/m', '4/mmm', '-3', '-3m', '6/m', '6/mmm', 'm-3', 'm-3m']
@@ -58,7 +85,9 @@ describe('point groups (generators → closure)', () => {
   })
 
   it('closeGroup refuses an infinite group', () => {
-    expect(() => closeGroup([[Math.cos(1), -Math.sin(1), 0, Math.sin(1), Math.cos(1), 0, 0, 0, 1]])).toThrow(/not finite/)
+    expect(() => closeGroup([[Math.cos(1), -Math.sin(1), 0, Math.sin(1), Math.cos(1), 0, 0, 0, 1]])).toThrow(
+      /not finite/,
+    )
   })
 
   it('unknown symbol → UNKNOWN_POINT_GROUP with field and message', () => {

@@ -42,11 +42,21 @@ describe('pump projections and parity', () => {
   })
 
   it('parsePump rejects bad input with field paths', () => {
-    expect(() => parsePump({ type: 'circular', m: 2 })).toThrow(expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'pump.m' }))
-    expect(() => parsePump({ type: 'linear' })).toThrow(expect.objectContaining({ code: 'MISSING_FIELD', field: 'pump.angle' }))
-    expect(() => parsePump({ type: 'laser' })).toThrow(expect.objectContaining({ code: 'UNKNOWN_PUMP_TYPE', field: 'pump.type' }))
-    expect(() => parsePump({ type: 'explicit', m: [] })).toThrow(expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'pump.m' }))
-    expect(() => parsePump({ type: 'explicit', m: [1], parity: { mirror: 0, sign: 0 } })).toThrow(expect.objectContaining({ field: 'pump.parity.sign' }))
+    expect(() => parsePump({ type: 'circular', m: 2 })).toThrow(
+      expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'pump.m' }),
+    )
+    expect(() => parsePump({ type: 'linear' })).toThrow(
+      expect.objectContaining({ code: 'MISSING_FIELD', field: 'pump.angle' }),
+    )
+    expect(() => parsePump({ type: 'laser' })).toThrow(
+      expect.objectContaining({ code: 'UNKNOWN_PUMP_TYPE', field: 'pump.type' }),
+    )
+    expect(() => parsePump({ type: 'explicit', m: [] })).toThrow(
+      expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'pump.m' }),
+    )
+    expect(() => parsePump({ type: 'explicit', m: [1], parity: { mirror: 0, sign: 0 } })).toThrow(
+      expect.objectContaining({ field: 'pump.parity.sign' }),
+    )
     expect(() => parsePump({ type: 'vortex', spin: 1, charge: 1.5 })).toThrow(EngineError)
     expect(() => parsePump({ type: 'circular', m: 2 })).toThrow(/^pump\.m: must be 1 or -1, got 2$/)
   })

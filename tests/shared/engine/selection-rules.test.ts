@@ -1,12 +1,25 @@
 import { describe, it, expect } from 'vitest'
-import { findAllowedHarmonics, harmonicParity, findNormalEmission, findAllowedMultipoles, sumProjections, computeChannels } from '../../../shared/engine'
+import {
+  findAllowedHarmonics,
+  harmonicParity,
+  findNormalEmission,
+  findAllowedMultipoles,
+  sumProjections,
+  computeChannels,
+} from '../../../shared/engine'
 
 describe('rules 4–7', () => {
   it('rule 4: sums of pump projections, q and k·n within the window', () => {
     expect(sumProjections([-1, 1], 2)).toEqual([-2, 0, 2])
-    expect(findAllowedHarmonics({ pumpProjections: [1], order: 2, q: [-2, 2], rotationOrder: 0, window: 8 })).toEqual([0, 4])
-    expect(findAllowedHarmonics({ pumpProjections: [1], order: 2, q: [0], rotationOrder: 3, window: 5 })).toEqual([-4, -1, 2, 5])
-    expect(findAllowedHarmonics({ pumpProjections: [1], order: 2, q: [0], rotationOrder: 1, window: 2 })).toEqual([-2, -1, 0, 1, 2])
+    expect(findAllowedHarmonics({ pumpProjections: [1], order: 2, q: [-2, 2], rotationOrder: 0, window: 8 })).toEqual([
+      0, 4,
+    ])
+    expect(findAllowedHarmonics({ pumpProjections: [1], order: 2, q: [0], rotationOrder: 3, window: 5 })).toEqual([
+      -4, -1, 2, 5,
+    ])
+    expect(findAllowedHarmonics({ pumpProjections: [1], order: 2, q: [0], rotationOrder: 1, window: 2 })).toEqual([
+      -2, -1, 0, 1, 2,
+    ])
     expect(findAllowedHarmonics({ pumpProjections: [1], order: 2, q: [], rotationOrder: 1, window: 2 })).toEqual([])
   })
 
@@ -27,7 +40,10 @@ describe('rules 4–7', () => {
     expect(findAllowedMultipoles([0], [-1], 1)).toEqual([{ type: 'M', l: 1, m: 0 }])
     expect(findAllowedMultipoles([0], [1], 1)).toEqual([{ type: 'E', l: 1, m: 0 }])
     expect(findAllowedMultipoles([0], [1, -1], 2)).toEqual([])
-    expect(findAllowedMultipoles([2], [], 2)).toEqual([{ type: 'E', l: 2, m: 2 }, { type: 'M', l: 2, m: 2 }])
+    expect(findAllowedMultipoles([2], [], 2)).toEqual([
+      { type: 'E', l: 2, m: 2 },
+      { type: 'M', l: 2, m: 2 },
+    ])
   })
 
   // Bhagavantam & Chandrasekhar 1972; Alon, Averbukh & Moiseyev, PRL 80, 3743 (1998): circularly
@@ -40,18 +56,36 @@ describe('rules 4–7', () => {
         const co = (N - 1) % n === 0
         const counter = (N + 1) % n === 0
         it(`n = ${n}, N = ${N}: ${co ? 'co-rotating' : ''}${co && counter ? ' and ' : ''}${counter ? 'counter-rotating' : ''}${!co && !counter ? 'forbidden' : ''}`, () => {
-          const r = computeChannels({ crystal: { pointGroup: 'm-3m', normal: [0, 0, 1], reference: [1, 0, 0] }, surface: true, structure: { rotationOrder: n, mirrors: [] }, pump: { type: 'circular', m: 1 }, order: N })
+          const r = computeChannels({
+            crystal: { pointGroup: 'm-3m', normal: [0, 0, 1], reference: [1, 0, 0] },
+            surface: true,
+            structure: { rotationOrder: n, mirrors: [] },
+            pump: { type: 'circular', m: 1 },
+            order: N,
+          })
           expect(r.normalEmission.allowed).toBe(co || counter)
           expect(r.normalEmission.m.includes(1)).toBe(co)
           expect(r.normalEmission.m.includes(-1)).toBe(counter)
-          if (r.normalEmission.allowed) expect(r.normalEmission.handedness).toEqual(r.normalEmission.m.map((m) => (m === 1 ? 'co-rotating' : 'counter-rotating')))
+          if (r.normalEmission.allowed)
+            expect(r.normalEmission.handedness).toEqual(
+              r.normalEmission.m.map((m) => (m === 1 ? 'co-rotating' : 'counter-rotating')),
+            )
         })
       }
 
     const surfaceCase = (n: number, N: number) =>
-      computeChannels({ crystal: { pointGroup: 'm-3m', normal: [0, 0, 1], reference: [1, 0, 0] }, surface: true, structure: { rotationOrder: n, mirrors: [] }, pump: { type: 'circular', m: 1 }, order: N }).normalEmission
-    it('SHG from C3 meta-atoms is counter-rotating (Alon et al. 1998)', () => expect(surfaceCase(3, 2).handedness).toEqual(['counter-rotating']))
-    it('THG from C4 meta-atoms is counter-rotating (Alon et al. 1998)', () => expect(surfaceCase(4, 3).handedness).toEqual(['counter-rotating']))
-    it('SHG from C4 meta-atoms is forbidden at normal incidence (Alon et al. 1998)', () => expect(surfaceCase(4, 2).allowed).toBe(false))
+      computeChannels({
+        crystal: { pointGroup: 'm-3m', normal: [0, 0, 1], reference: [1, 0, 0] },
+        surface: true,
+        structure: { rotationOrder: n, mirrors: [] },
+        pump: { type: 'circular', m: 1 },
+        order: N,
+      }).normalEmission
+    it('SHG from C3 meta-atoms is counter-rotating (Alon et al. 1998)', () =>
+      expect(surfaceCase(3, 2).handedness).toEqual(['counter-rotating']))
+    it('THG from C4 meta-atoms is counter-rotating (Alon et al. 1998)', () =>
+      expect(surfaceCase(4, 3).handedness).toEqual(['counter-rotating']))
+    it('SHG from C4 meta-atoms is forbidden at normal incidence (Alon et al. 1998)', () =>
+      expect(surfaceCase(4, 2).allowed).toBe(false))
   })
 })

@@ -1,12 +1,28 @@
 import { describe, it, expect } from 'vitest'
-import { shapeSymmetry, latticeSymmetry, deriveArraySymmetry, closeStructure, structureGroupName, EngineError } from '../../../shared/engine'
+import {
+  shapeSymmetry,
+  latticeSymmetry,
+  deriveArraySymmetry,
+  closeStructure,
+  structureGroupName,
+  EngineError,
+} from '../../../shared/engine'
 
 // Shape and lattice symmetries: elementary plane geometry (common practice).
 describe('structure symmetry from shape and lattice', () => {
   it.each([
-    ['disk', 0, 'all'], ['ring', 0, 'all'], ['ellipse', 2, [0, 90]], ['rectangle', 2, [0, 90]], ['dimer', 2, [0, 90]],
-    ['square', 4, [0, 45, 90, 135]], ['cross', 4, [0, 45, 90, 135]], ['triangle', 3, [30, 90, 150]],
-    ['hexagon', 6, [0, 30, 60, 90, 120, 150]], ['l-shape', 1, [45]], ['split-ring', 1, [90]], ['gammadion', 4, []],
+    ['disk', 0, 'all'],
+    ['ring', 0, 'all'],
+    ['ellipse', 2, [0, 90]],
+    ['rectangle', 2, [0, 90]],
+    ['dimer', 2, [0, 90]],
+    ['square', 4, [0, 45, 90, 135]],
+    ['cross', 4, [0, 45, 90, 135]],
+    ['triangle', 3, [30, 90, 150]],
+    ['hexagon', 6, [0, 30, 60, 90, 120, 150]],
+    ['l-shape', 1, [45]],
+    ['split-ring', 1, [90]],
+    ['gammadion', 4, []],
   ] as const)('%s → n = %i, mirrors %j', (kind, n, mirrors) => {
     expect(shapeSymmetry({ kind })).toEqual({ rotationOrder: n, mirrors })
   })
@@ -20,21 +36,36 @@ describe('structure symmetry from shape and lattice', () => {
 
   it('array = common subgroup (docs/physics.md §3 rule 3): triangles on a square lattice keep only the mirror at 90°', () => {
     expect(deriveArraySymmetry({ kind: 'triangle' }, { kind: 'square' })).toEqual({ rotationOrder: 1, mirrors: [90] })
-    expect(deriveArraySymmetry({ kind: 'triangle' }, { kind: 'hexagonal' })).toEqual({ rotationOrder: 3, mirrors: [30, 90, 150] })
-    expect(deriveArraySymmetry({ kind: 'disk' }, { kind: 'square' })).toEqual(deriveArraySymmetry({ kind: 'square' }, { kind: 'square' }))
-    expect(deriveArraySymmetry({ kind: 'square', azimuthDeg: 30 }, { kind: 'square' })).toEqual({ rotationOrder: 4, mirrors: [] })
+    expect(deriveArraySymmetry({ kind: 'triangle' }, { kind: 'hexagonal' })).toEqual({
+      rotationOrder: 3,
+      mirrors: [30, 90, 150],
+    })
+    expect(deriveArraySymmetry({ kind: 'disk' }, { kind: 'square' })).toEqual(
+      deriveArraySymmetry({ kind: 'square' }, { kind: 'square' }),
+    )
+    expect(deriveArraySymmetry({ kind: 'square', azimuthDeg: 30 }, { kind: 'square' })).toEqual({
+      rotationOrder: 4,
+      mirrors: [],
+    })
     expect(deriveArraySymmetry({ kind: 'gammadion' }, { kind: 'single' })).toEqual({ rotationOrder: 4, mirrors: [] })
   })
 
   it('custom groups are closed: n = 3 with one mirror at 90° has mirrors 30, 90, 150', () => {
     expect(closeStructure(3, [90])).toEqual({ rotationOrder: 3, mirrors: [30, 90, 150] })
-    expect(shapeSymmetry({ kind: 'custom', rotationOrder: 2, mirrors: [10] })).toEqual({ rotationOrder: 2, mirrors: [10, 100] })
+    expect(shapeSymmetry({ kind: 'custom', rotationOrder: 2, mirrors: [10] })).toEqual({
+      rotationOrder: 2,
+      mirrors: [10, 100],
+    })
   })
 
   it('unknown shape → UNKNOWN_SHAPE; negative n → OUT_OF_RANGE', () => {
     expect(() => shapeSymmetry({ kind: 'blob' as never })).toThrow(EngineError)
     expect(() => shapeSymmetry({ kind: 'blob' as never })).toThrow(/shape\.kind: unknown shape "blob"/)
-    expect(() => closeStructure(-1, [])).toThrow(expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'structure.rotationOrder' }))
-    expect(() => latticeSymmetry({ kind: 'kagome' as never })).toThrow(expect.objectContaining({ code: 'UNKNOWN_LATTICE' }))
+    expect(() => closeStructure(-1, [])).toThrow(
+      expect.objectContaining({ code: 'OUT_OF_RANGE', field: 'structure.rotationOrder' }),
+    )
+    expect(() => latticeSymmetry({ kind: 'kagome' as never })).toThrow(
+      expect.objectContaining({ code: 'UNKNOWN_LATTICE' }),
+    )
   })
 })

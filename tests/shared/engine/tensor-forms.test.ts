@@ -1,24 +1,87 @@
 import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
-import { POINT_GROUP_SYMBOLS, getPointGroup, solveTensorForm, transformTensor, flatIndex, EngineError } from '../../../shared/engine'
+import {
+  POINT_GROUP_SYMBOLS,
+  getPointGroup,
+  solveTensorForm,
+  transformTensor,
+  flatIndex,
+  EngineError,
+} from '../../../shared/engine'
 
 // Independent χ(2) components with intrinsic permutation symmetry = independent piezoelectric
 // moduli (Nye, Physical Properties of Crystals, ch. VII; IEEE Std 176-1987); centrosymmetric 0.
 const CHI2_COUNTS: Record<string, number> = {
-  '1': 18, '2': 8, m: 10, '222': 3, mm2: 5, '4': 4, '-4': 4, '422': 1, '4mm': 3, '-42m': 2,
-  '3': 6, '32': 2, '3m': 4, '6': 4, '-6': 2, '622': 1, '6mm': 3, '-6m2': 1, '23': 1, '-43m': 1, '432': 0,
-  '-1': 0, '2/m': 0, mmm: 0, '4/m': 0, '4/mmm': 0, '-3': 0, '-3m': 0, '6/m': 0, '6/mmm': 0, 'm-3': 0, 'm-3m': 0,
+  '1': 18,
+  '2': 8,
+  m: 10,
+  '222': 3,
+  mm2: 5,
+  '4': 4,
+  '-4': 4,
+  '422': 1,
+  '4mm': 3,
+  '-42m': 2,
+  '3': 6,
+  '32': 2,
+  '3m': 4,
+  '6': 4,
+  '-6': 2,
+  '622': 1,
+  '6mm': 3,
+  '-6m2': 1,
+  '23': 1,
+  '-43m': 1,
+  '432': 0,
+  '-1': 0,
+  '2/m': 0,
+  mmm: 0,
+  '4/m': 0,
+  '4/mmm': 0,
+  '-3': 0,
+  '-3m': 0,
+  '6/m': 0,
+  '6/mmm': 0,
+  'm-3': 0,
+  'm-3m': 0,
 }
 
 // χ(3) without any permutation symmetry: [non-zero elements, independent elements].
 // Cubic rows: Boyd, Nonlinear Optics, §1.5. Other rows: Boyd §1.5 table,
 // reproduced from memory.
 const CHI3_GENERAL: Record<string, [number, number]> = {
-  '432': [21, 4], '-43m': [21, 4], 'm-3m': [21, 4], '23': [21, 7], 'm-3': [21, 7],
-  '1': [81, 81], '-1': [81, 81], '2': [41, 41], m: [41, 41], '2/m': [41, 41], '222': [21, 21], mm2: [21, 21], mmm: [21, 21],
-  '4': [41, 21], '-4': [41, 21], '4/m': [41, 21], '422': [21, 11], '4mm': [21, 11], '-42m': [21, 11], '4/mmm': [21, 11],
-  '3': [73, 27], '-3': [73, 27], '32': [37, 14], '3m': [37, 14], '-3m': [37, 14],
-  '6': [41, 19], '-6': [41, 19], '6/m': [41, 19], '622': [21, 10], '6mm': [21, 10], '-6m2': [21, 10], '6/mmm': [21, 10],
+  '432': [21, 4],
+  '-43m': [21, 4],
+  'm-3m': [21, 4],
+  '23': [21, 7],
+  'm-3': [21, 7],
+  '1': [81, 81],
+  '-1': [81, 81],
+  '2': [41, 41],
+  m: [41, 41],
+  '2/m': [41, 41],
+  '222': [21, 21],
+  mm2: [21, 21],
+  mmm: [21, 21],
+  '4': [41, 21],
+  '-4': [41, 21],
+  '4/m': [41, 21],
+  '422': [21, 11],
+  '4mm': [21, 11],
+  '-42m': [21, 11],
+  '4/mmm': [21, 11],
+  '3': [73, 27],
+  '-3': [73, 27],
+  '32': [37, 14],
+  '3m': [37, 14],
+  '-3m': [37, 14],
+  '6': [41, 19],
+  '-6': [41, 19],
+  '6/m': [41, 19],
+  '622': [21, 10],
+  '6mm': [21, 10],
+  '-6m2': [21, 10],
+  '6/mmm': [21, 10],
 }
 
 function isInvariant(t: Float64Array, rank: number, symbol: string): boolean {
@@ -65,7 +128,9 @@ describe('solved forms are invariant (property, seeded)', () => {
   it('every element of every group leaves a random member of the solved subspace unchanged', () => {
     fc.assert(
       fc.property(
-        fc.constantFrom(...POINT_GROUP_SYMBOLS), fc.integer({ min: 2, max: 4 }), fc.constantFrom('intrinsic', 'kleinman', 'none' as const),
+        fc.constantFrom(...POINT_GROUP_SYMBOLS),
+        fc.integer({ min: 2, max: 4 }),
+        fc.constantFrom('intrinsic', 'kleinman', 'none' as const),
         fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: 81, maxLength: 81 }),
         (symbol, order, symmetry, coeffs) => {
           if (symmetry === 'none' && order > 3) return

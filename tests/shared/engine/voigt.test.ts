@@ -1,5 +1,12 @@
 import { describe, it, expect } from 'vitest'
-import { solveTensorForm, describeDMatrixEqualities, formDMatrix, toVoigt, rotateToSample, countNonZeroVoigt } from '../../../shared/engine'
+import {
+  solveTensorForm,
+  describeDMatrixEqualities,
+  formDMatrix,
+  toVoigt,
+  rotateToSample,
+  countNonZeroVoigt,
+} from '../../../shared/engine'
 import { rotationAboutAxis } from '../../../shared/engine/linalg'
 
 // d-matrix forms as printed in handbooks (Boyd, Nonlinear Optics, §1.5 table of d-matrix forms;
@@ -10,7 +17,12 @@ describe('d-matrix equalities (handbook forms)', () => {
   })
 
   it('3m: d15 = d24, d16 = d21 = −d22, d31 = d32, d33 (Boyd §1.5; LiNbO3 has d22, not d11)', () => {
-    expect(describeDMatrixEqualities(solveTensorForm('3m', 2))).toEqual(['d15 = d24', 'd16 = d21 = −d22', 'd31 = d32', 'd33'])
+    expect(describeDMatrixEqualities(solveTensorForm('3m', 2))).toEqual([
+      'd15 = d24',
+      'd16 = d21 = −d22',
+      'd31 = d32',
+      'd33',
+    ])
     const d = formDMatrix(solveTensorForm('3m', 2))
     expect(d[0][0]).toHaveLength(0) // d11 = 0 in the standard setting
   })

@@ -4,7 +4,8 @@ import { correctionC4, correctionC7, groupingWindow } from '../../../shared/lase
 // Directive 2006/25/EC Annex II Table 2.5 (regulation text).
 describe('C4 (C_A)', () => {
   it('is 1 below 700 nm', () => expect(correctionC4(633).value).toBe(1))
-  it('is 1.585 at 800 nm (arithmetic of the Table 2.5 formula)', () => expect(correctionC4(800).value).toBeCloseTo(1.585, 3))
+  it('is 1.585 at 800 nm (arithmetic of the Table 2.5 formula)', () =>
+    expect(correctionC4(800).value).toBeCloseTo(1.585, 3))
   it('is 5 at 1064 nm (arithmetic of the Table 2.5 formula)', () => expect(correctionC4(1064).value).toBe(5))
   it('shows its formula and source', () => {
     const c = correctionC4(800)
@@ -33,8 +34,11 @@ describe('C7 (C_C)', () => {
 // T_i (IEC 60825-1:2014, secondary source); T_min (Directive Annex II Table 2.6, regulation text).
 describe('pulse-grouping window', () => {
   it.each([
-    [800, 'IEC-60825-1:2014', 5e-6], [800, 'EU-2006/25/EC', 18e-6],
-    [1064, 'IEC-60825-1:2014', 13e-6], [1064, 'EU-2006/25/EC', 50e-6],
-    [1550, 'IEC-60825-1:2014', 10], [1550, 'EU-2006/25/EC', 10],
+    [800, 'IEC-60825-1:2014', 5e-6],
+    [800, 'EU-2006/25/EC', 18e-6],
+    [1064, 'IEC-60825-1:2014', 13e-6],
+    [1064, 'EU-2006/25/EC', 50e-6],
+    [1550, 'IEC-60825-1:2014', 10],
+    [1550, 'EU-2006/25/EC', 10],
   ] as const)('%s nm, %s → %s s', (nm, edition, s) => expect(groupingWindow(nm, edition).value).toBe(s))
 })

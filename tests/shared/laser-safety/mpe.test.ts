@@ -1,5 +1,12 @@
 import { describe, it, expect } from 'vitest'
-import { circleAreaM2, limitingApertureMm, ocularMpe, ocularMpeIrradiance, aelCw, SafetyInputError } from '../../../shared/laser-safety'
+import {
+  circleAreaM2,
+  limitingApertureMm,
+  ocularMpe,
+  ocularMpeIrradiance,
+  aelCw,
+  SafetyInputError,
+} from '../../../shared/laser-safety'
 
 const IEC = 'IEC-60825-1:2014' as const
 const EU = 'EU-2006/25/EC' as const
@@ -62,22 +69,37 @@ describe('consistency checks built into the standard (IEC 60825-1:2014: Class AE
       expect(Math.abs(fromMpe / aelCw('1', nm).value! - 1)).toBeLessThan(0.02)
     }
     // 1500–1800 nm: 1000 W/m² over the 3.5 mm aperture ≈ 9.6 mW vs the 10 mW Class 1 AEL.
-    const at1550 = ocularMpeIrradiance({ edition: IEC, wavelengthNm: 1550, durationS: 100 }).value * circleAreaM2(limitingApertureMm(1550, 100).value)
+    const at1550 =
+      ocularMpeIrradiance({ edition: IEC, wavelengthNm: 1550, durationS: 100 }).value *
+      circleAreaM2(limitingApertureMm(1550, 100).value)
     expect(Math.abs(at1550 / aelCw('1', 1550).value! - 1)).toBeLessThan(0.05)
   })
 
-  it('Class 1 AEL at 800 nm is 0.618 mW (IEC 60825-1:2014 Tables 3–8, secondary source)', () => expect(aelCw('1', 800).value).toBeCloseTo(0.618e-3, 5))
-  it('Class 3R AEL at 800 nm is 3.17 mW (IEC 60825-1:2014 Tables 3–8, secondary source)', () => expect(aelCw('3R', 800).value).toBeCloseTo(3.17e-3, 5))
+  it('Class 1 AEL at 800 nm is 0.618 mW (IEC 60825-1:2014 Tables 3–8, secondary source)', () =>
+    expect(aelCw('1', 800).value).toBeCloseTo(0.618e-3, 5))
+  it('Class 3R AEL at 800 nm is 3.17 mW (IEC 60825-1:2014 Tables 3–8, secondary source)', () =>
+    expect(aelCw('3R', 800).value).toBeCloseTo(3.17e-3, 5))
 })
 
 describe('limiting aperture (IEC 60825-1:2014 Annex A via public excerpts)', () => {
-  it.each([[800, 1, 7], [1550, 0.1, 1], [1550, 10, 3.5], [1550, 100, 3.5]])('%s nm, %s s → %s mm', (nm, t, d) =>
-    expect(limitingApertureMm(nm, t).value).toBe(d))
+  it.each([
+    [800, 1, 7],
+    [1550, 0.1, 1],
+    [1550, 10, 3.5],
+    [1550, 100, 3.5],
+  ])('%s nm, %s s → %s mm', (nm, t, d) => expect(limitingApertureMm(nm, t).value).toBe(d))
   it('1.5·t^0.375 mm between 0.3 and 10 s', () => expect(limitingApertureMm(1550, 1).value).toBe(1.5))
 })
 
 describe('outside the table', () => {
-  it.each([[350, 1], [1900, 1], [800, 1e-14], [800, 1e5], [450, 100], [1450, 100]])('%s nm, %s s → OUTSIDE_TABLE, ask the LSO', (nm, t) => {
+  it.each([
+    [350, 1],
+    [1900, 1],
+    [800, 1e-14],
+    [800, 1e5],
+    [450, 100],
+    [1450, 100],
+  ])('%s nm, %s s → OUTSIDE_TABLE, ask the LSO', (nm, t) => {
     try {
       ocularMpe({ edition: IEC, wavelengthNm: nm, durationS: t })
       expect.unreachable()

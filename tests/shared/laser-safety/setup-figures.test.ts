@@ -11,10 +11,21 @@ import { formatSi } from '../../../shared/format'
 
 const A7 = circleAreaM2(7)
 const setup = (over: Partial<HazardInput>): HazardInput => ({
-  sourceType: 'cw', wavelengthsNm: [532], pulseDurationFs: null, repRateHz: null, maxAvgPowerMw: null, pulseEnergyUj: null,
-  beamDiameterMm: 2, divergenceMrad: 1, harmonicOrders: [], laserClass: null, eyewear: [], ...over,
+  sourceType: 'cw',
+  wavelengthsNm: [532],
+  pulseDurationFs: null,
+  repRateHz: null,
+  maxAvgPowerMw: null,
+  pulseEnergyUj: null,
+  beamDiameterMm: 2,
+  divergenceMrad: 1,
+  harmonicOrders: [],
+  laserClass: null,
+  eyewear: [],
+  ...over,
 })
-const line = (f: ReturnType<typeof setupFigures>, nm: number) => f.wavelengths.find((w) => Math.abs(w.wavelengthNm - nm) < 0.5)!
+const line = (f: ReturnType<typeof setupFigures>, nm: number) =>
+  f.wavelengths.find((w) => Math.abs(w.wavelengthNm - nm) < 0.5)!
 
 describe('evaluation time per assessment', () => {
   // Health Physics Society list, "RE: Laser calculations" (23 June 2000, health.phys.iit.edu archive
@@ -48,7 +59,9 @@ describe('evaluation time per assessment', () => {
     const f = setupFigures(setup({ wavelengthsNm: [1064, 532], maxAvgPowerMw: 50 }), { exposureDurationS: 0.25 })
     expect(line(f, 1064).exposureDurationS).toBe(10)
     expect(line(f, 532).exposureDurationS).toBe(0.25)
-    expect(f.exposureNotes.join(' ')).toMatch(/1064 nm is not visible: the 0\.25 s aversion-response time applies to 400–700 nm only/)
+    expect(f.exposureNotes.join(' ')).toMatch(
+      /1064 nm is not visible: the 0\.25 s aversion-response time applies to 400–700 nm only/,
+    )
   })
 
   it('the default stays 10 s and the page is told what it stands for', () => {
@@ -69,9 +82,15 @@ describe('single pulses', () => {
     const mpe = ocularMpe({ edition: 'EU-2006/25/EC', wavelengthNm: 1064, durationS: 1e-9 }).value * 1e-4
     expect(mpe).toBeGreaterThanOrEqual(4.8e-6)
     expect(mpe).toBeLessThanOrEqual(5e-6)
-    expect(ocularMpe({ edition: 'EU-2006/25/EC', wavelengthNm: 1064, durationS: 2e-9 }).value * 1e-4).toBeCloseTo(5e-6, 12)
+    expect(ocularMpe({ edition: 'EU-2006/25/EC', wavelengthNm: 1064, durationS: 2e-9 }).value * 1e-4).toBeCloseTo(
+      5e-6,
+      12,
+    )
     const energyJ = 12.5e4 * A7 // 12.5 J/cm² over the 7 mm aperture
-    const f = setupFigures(setup({ sourceType: 'pulsed', wavelengthsNm: [1064], pulseDurationFs: 1e6, pulseEnergyUj: energyJ * 1e6 }), { edition: 'EU-2006/25/EC' })
+    const f = setupFigures(
+      setup({ sourceType: 'pulsed', wavelengthsNm: [1064], pulseDurationFs: 1e6, pulseEnergyUj: energyJ * 1e6 }),
+      { edition: 'EU-2006/25/EC' },
+    )
     const w = line(f, 1064)
     expect(f.isSinglePulse).toBe(true)
     expect(f.missing).toEqual([])
@@ -82,14 +101,18 @@ describe('single pulses', () => {
   })
 
   it('pulse energy only (no rate) is no longer "missing: repetition rate"', () => {
-    const f = setupFigures(setup({ sourceType: 'pulsed', wavelengthsNm: [532], pulseDurationFs: 10e6, pulseEnergyUj: 1 }))
+    const f = setupFigures(
+      setup({ sourceType: 'pulsed', wavelengthsNm: [532], pulseDurationFs: 10e6, pulseEnergyUj: 1 }),
+    )
     expect(f.missing.join()).not.toMatch(/repetition rate/)
     expect(line(f, 532).od).not.toBeNull()
     expect(f.classHint).not.toBeNull()
   })
 
   it('a single-pulse source without its energy asks for it', () =>
-    expect(setupFigures(setup({ sourceType: 'pulsed', pulseDurationFs: 10e6 })).missing.join()).toMatch(/pulse energy \(a single-pulse source needs it/))
+    expect(setupFigures(setup({ sourceType: 'pulsed', pulseDurationFs: 10e6 })).missing.join()).toMatch(
+      /pulse energy \(a single-pulse source needs it/,
+    ))
 })
 
 describe('the limiting rule is the headline MPE', () => {
@@ -97,7 +120,16 @@ describe('the limiting rule is the headline MPE', () => {
   // C5 = 5·N^−0.25 (≥ 0.4). 800 nm, 1 kHz, 100 fs, 4 W, 8 mm, T = 10 s: N = 10⁴, C5 = 0.5; the
   // pulse-train rule has the largest exposure/limit ratio.
   it('kHz amplifier: pulse train limits, with its value; average and single pulse beneath', () => {
-    const f = setupFigures(setup({ sourceType: 'pulsed', wavelengthsNm: [800], pulseDurationFs: 100, repRateHz: 1e3, maxAvgPowerMw: 4000, beamDiameterMm: 8 }))
+    const f = setupFigures(
+      setup({
+        sourceType: 'pulsed',
+        wavelengthsNm: [800],
+        pulseDurationFs: 100,
+        repRateHz: 1e3,
+        maxAvgPowerMw: 4000,
+        beamDiameterMm: 8,
+      }),
+    )
     const w = line(f, 800)
     expect(w.limitingRule).toBe('pulseTrain')
     expect(w.mpeRules.map((r) => r.rule)).toEqual(['pulseTrain', 'average', 'singlePulse'])
@@ -108,7 +140,20 @@ describe('the limiting rule is the headline MPE', () => {
   // Rule 2 governs fs oscillators: for MHz trains the grouped pulse limit equals the average limit or
   // exceeds it (IEC 60825-1:2014 Annex A; C5 floor 0.4).
   it('80 MHz oscillator: the average rule limits', () =>
-    expect(line(setupFigures(setup({ sourceType: 'mode_locked', wavelengthsNm: [800], pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000 })), 800).limitingRule).toBe('average'))
+    expect(
+      line(
+        setupFigures(
+          setup({
+            sourceType: 'mode_locked',
+            wavelengthsNm: [800],
+            pulseDurationFs: 100,
+            repRateHz: 80e6,
+            maxAvgPowerMw: 1000,
+          }),
+        ),
+        800,
+      ).limitingRule,
+    ).toBe('average'))
 })
 
 describe('EN 207 / EN 208', () => {
@@ -117,7 +162,18 @@ describe('EN 207 / EN 208', () => {
   // 1560 nm, 100 mW, 100 fs, 100 MHz, 2 mm: E = 3.18×10⁴ W/m² → 1.50 → LB2; P_pk = H/τ =
   // 3.18×10⁹ W/m² → −1.50 ≤ 0: no M requirement (not LB1).
   it('1560 nm, 100 mW, 100 fs, 100 MHz, 2 mm: D LB2, M none needed', () => {
-    const w = line(setupFigures(setup({ sourceType: 'mode_locked', wavelengthsNm: [1560], pulseDurationFs: 100, repRateHz: 100e6, maxAvgPowerMw: 100 })), 1560)
+    const w = line(
+      setupFigures(
+        setup({
+          sourceType: 'mode_locked',
+          wavelengthsNm: [1560],
+          pulseDurationFs: 100,
+          repRateHz: 100e6,
+          maxAvgPowerMw: 100,
+        }),
+      ),
+      1560,
+    )
     expect(w.en207!.labels).toEqual(['D 1560 LB2'])
     expect(w.en207!.scale.map((s) => s.value)).toEqual([2, 0])
     expect(w.en207!.scale[1]!.formula).toMatch(/none needed/)
@@ -130,7 +186,10 @@ describe('EN 207 / EN 208', () => {
     expect(line(f, 532).en208).toMatchObject({ labels: ['RB2'], scale: [{ value: 2, unit: 'RB' }] })
     expect(line(f, 1064).en208).toBeNull()
     // Below the Class 2 level (1 mW, EN 208:2009 scope) no alignment filter is needed.
-    expect(line(setupFigures(setup({ maxAvgPowerMw: 0.5 })), 532).en208).toMatchObject({ labels: [], scale: [{ value: 0 }] })
+    expect(line(setupFigures(setup({ maxAvgPowerMw: 0.5 })), 532).en208).toMatchObject({
+      labels: [],
+      scale: [{ value: 0 }],
+    })
   })
 })
 
@@ -138,7 +197,15 @@ describe('apertures named are the apertures used', () => {
   // Directive 2006/25/EC Annex II Table 2.2 (aperture column) and IEC 60825-1:2014 Annex A: beyond
   // 1400 nm 1 mm for t ≤ 0.3 s, 3.5 mm for t ≥ 10 s; 7 mm for 400–1400 nm.
   it('1550 nm at 10 s: 3.5 mm (1 mm per fs pulse); 775 nm: 7 mm', () => {
-    const f = setupFigures(setup({ sourceType: 'mode_locked', wavelengthsNm: [1550, 775], pulseDurationFs: 100, repRateHz: 100e6, maxAvgPowerMw: 100 }))
+    const f = setupFigures(
+      setup({
+        sourceType: 'mode_locked',
+        wavelengthsNm: [1550, 775],
+        pulseDurationFs: 100,
+        repRateHz: 100e6,
+        maxAvgPowerMw: 100,
+      }),
+    )
     expect(line(f, 1550).apertureMm).toBe(3.5)
     expect(line(f, 775).apertureMm).toBe(7)
     const text = f.assumptions.join(' ')
@@ -152,14 +219,32 @@ describe('harmonics', () => {
   // harmonic does not generate harmonics of its own.
   it('1550/775/517 nm with orders 2 and 3: three lines, no 258 or 172 nm', () => {
     const lines = setupLines([1550, 775, 517], [2, 3])
-    expect(lines.map((l) => [l.wavelengthNm, l.order, l.isListed])).toEqual([[1550, 1, true], [775, 2, true], [517, 3, true]])
-    const f = setupFigures(setup({ sourceType: 'mode_locked', wavelengthsNm: [1550, 775, 517], harmonicOrders: [2, 3], pulseDurationFs: 100, repRateHz: 100e6, maxAvgPowerMw: 100 }))
+    expect(lines.map((l) => [l.wavelengthNm, l.order, l.isListed])).toEqual([
+      [1550, 1, true],
+      [775, 2, true],
+      [517, 3, true],
+    ])
+    const f = setupFigures(
+      setup({
+        sourceType: 'mode_locked',
+        wavelengthsNm: [1550, 775, 517],
+        harmonicOrders: [2, 3],
+        pulseDurationFs: 100,
+        repRateHz: 100e6,
+        maxAvgPowerMw: 100,
+      }),
+    )
     expect(f.wavelengths.map((w) => Math.round(w.wavelengthNm))).toEqual([1550, 775, 517])
   })
 
   it('every listed fundamental is evaluated, each with its harmonics', () => {
     const lines = setupLines([1064, 800], [2])
-    expect(lines.map((l) => [Math.round(l.wavelengthNm), l.order])).toEqual([[1064, 1], [532, 2], [800, 1], [400, 2]])
+    expect(lines.map((l) => [Math.round(l.wavelengthNm), l.order])).toEqual([
+      [1064, 1],
+      [532, 2],
+      [800, 1],
+      [400, 2],
+    ])
   })
 })
 
@@ -167,16 +252,34 @@ describe('units with SI prefixes (one formatter)', () => {
   // E = P/f = 1 W / 80 MHz = 12.5 nJ; P_pk = 0.94·E/τ = 117.5 kW for 100 fs (Gaussian factor 0.94).
   it('12.5 nJ, 117.5 kW, 25.98 kW/m²', () => {
     expect(formatSi(1 / 80e6, 'J')).toBe('12.5 nJ')
-    expect(formatSi(0.94 * 12.5e-9 / 100e-15, 'W')).toBe('117.5 kW')
+    expect(formatSi((0.94 * 12.5e-9) / 100e-15, 'W')).toBe('117.5 kW')
     expect(formatSi(25980, 'W/m²')).toBe('25.98 kW/m²')
-    const f = setupFigures(setup({ sourceType: 'mode_locked', wavelengthsNm: [800], pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000 }))
+    const f = setupFigures(
+      setup({
+        sourceType: 'mode_locked',
+        wavelengthsNm: [800],
+        pulseDurationFs: 100,
+        repRateHz: 80e6,
+        maxAvgPowerMw: 1000,
+      }),
+    )
     expect(f.pulseEnergy!.formula).toContain('1 W / 80 MHz')
   })
 })
 
 describe('sources a user can read', () => {
   it('no figure cites a repository file or a memory note', () => {
-    const f = setupFigures(setup({ sourceType: 'mode_locked', wavelengthsNm: [800, 1550], harmonicOrders: [2], pulseDurationFs: 100, repRateHz: 80e6, maxAvgPowerMw: 1000, eyewear: [] }))
+    const f = setupFigures(
+      setup({
+        sourceType: 'mode_locked',
+        wavelengthsNm: [800, 1550],
+        harmonicOrders: [2],
+        pulseDurationFs: 100,
+        repRateHz: 80e6,
+        maxAvgPowerMw: 1000,
+        eyewear: [],
+      }),
+    )
     const text = JSON.stringify(f)
     expect(text).not.toMatch(/FACTS|\.md|from memory|unverified|\[[VSM]\]/)
     expect(text).toContain('IEC 60825-1:2014 Table A.1')
@@ -199,26 +302,52 @@ describe('invariants (fast-check, seeded)', () => {
 
   // Required OD = log10(exposure/MPE) (EN 207:2017 Annex B): the exposure grows with the power.
   it('OD never decreases when the power increases (every line, every evaluation time)', () => {
-    fc.assert(fc.property(input, fc.double({ min: 1e-3, max: 1e5, noNaN: true }), fc.double({ min: 1, max: 1000, noNaN: true }), T, (i, mw, k, t) => {
-      const base = { ...i, divergenceMrad: 1, laserClass: null, eyewear: [] }
-      const a = setupFigures({ ...base, maxAvgPowerMw: mw, pulseEnergyUj: i.repRateHz ? null : i.pulseEnergyUj }, { exposureDurationS: t })
-      const b = setupFigures({ ...base, maxAvgPowerMw: mw * k, pulseEnergyUj: i.repRateHz ? null : i.pulseEnergyUj && i.pulseEnergyUj * k }, { exposureDurationS: t })
-      a.wavelengths.forEach((w, n) => {
-        if (w.od && b.wavelengths[n]!.od) expect(b.wavelengths[n]!.od!.value).toBeGreaterThanOrEqual(w.od.value - 1e-9)
-      })
-    }), opts)
+    fc.assert(
+      fc.property(
+        input,
+        fc.double({ min: 1e-3, max: 1e5, noNaN: true }),
+        fc.double({ min: 1, max: 1000, noNaN: true }),
+        T,
+        (i, mw, k, t) => {
+          const base = { ...i, divergenceMrad: 1, laserClass: null, eyewear: [] }
+          const a = setupFigures(
+            { ...base, maxAvgPowerMw: mw, pulseEnergyUj: i.repRateHz ? null : i.pulseEnergyUj },
+            { exposureDurationS: t },
+          )
+          const b = setupFigures(
+            {
+              ...base,
+              maxAvgPowerMw: mw * k,
+              pulseEnergyUj: i.repRateHz ? null : i.pulseEnergyUj && i.pulseEnergyUj * k,
+            },
+            { exposureDurationS: t },
+          )
+          a.wavelengths.forEach((w, n) => {
+            if (w.od && b.wavelengths[n]!.od)
+              expect(b.wavelengths[n]!.od!.value).toBeGreaterThanOrEqual(w.od.value - 1e-9)
+          })
+        },
+      ),
+      opts,
+    )
   })
 
   // IEC 60825-1:2014 4.3 e: the 0.25 s (aversion) time is for 400–700 nm only.
   it('the 0.25 s figure is never used outside 400–700 nm', () => {
-    fc.assert(fc.property(input, T, (i, t) => {
-      const f = setupFigures({ ...i, maxAvgPowerMw: 10, divergenceMrad: 1, laserClass: null, eyewear: [] }, { exposureDurationS: t })
-      for (const w of f.wavelengths) {
-        if (w.wavelengthNm < 400 || w.wavelengthNm > 700) {
-          expect(w.exposureDurationS).toBeGreaterThanOrEqual(10)
-          for (const r of w.mpeRules) if (r.rule === 'average') expect(r.limit.formula).not.toMatch(/t = 250 ms/)
+    fc.assert(
+      fc.property(input, T, (i, t) => {
+        const f = setupFigures(
+          { ...i, maxAvgPowerMw: 10, divergenceMrad: 1, laserClass: null, eyewear: [] },
+          { exposureDurationS: t },
+        )
+        for (const w of f.wavelengths) {
+          if (w.wavelengthNm < 400 || w.wavelengthNm > 700) {
+            expect(w.exposureDurationS).toBeGreaterThanOrEqual(10)
+            for (const r of w.mpeRules) if (r.rule === 'average') expect(r.limit.formula).not.toMatch(/t = 250 ms/)
+          }
         }
-      }
-    }), opts)
+      }),
+      opts,
+    )
   })
 })

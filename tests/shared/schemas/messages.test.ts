@@ -1,7 +1,14 @@
 import { describe, it, expect } from 'vitest'
 import { z } from 'zod'
 import { groupDigits, unitOfPath } from '../../../shared/schemas/messages'
-import { arraySchema, coefficientSchema, diceSchema, laserSetupSchema, locationSchema, waferSchema } from '../../../shared/schemas/records'
+import {
+  arraySchema,
+  coefficientSchema,
+  diceSchema,
+  laserSetupSchema,
+  locationSchema,
+  waferSchema,
+} from '../../../shared/schemas/records'
 
 /** The message of each field path after a failed parse (the first one per path). */
 function messages(schema: z.ZodType, input: unknown): Record<string, string> {
@@ -14,7 +21,13 @@ function messages(schema: z.ZodType, input: unknown): Record<string, string> {
 
 describe('plain zod messages (shared/schemas/messages.ts)', () => {
   it('a number over its limit names the limit with digit groups and the unit of the field', () => {
-    const m = messages(arraySchema, { chipId: 1, position: 'B2', shape: 'disk', lattice: 'single', dimensionsNm: { diameterNm: 2e6 } })
+    const m = messages(arraySchema, {
+      chipId: 1,
+      position: 'B2',
+      shape: 'disk',
+      lattice: 'single',
+      dimensionsNm: { diameterNm: 2e6 },
+    })
     expect(m['dimensionsNm.diameterNm']).toBe('At most 1\u00a0000\u00a0000 nm')
     expect(messages(z.object({ count: z.number().max(1e6) }), { count: 2e6 }).count).toBe('At most 1\u00a0000\u00a0000')
     expect(messages(z.object({ spinRpm: z.number().min(-5).max(9) }), { spinRpm: -6 }).spinRpm).toBe('At least −5')
@@ -30,7 +43,16 @@ describe('plain zod messages (shared/schemas/messages.ts)', () => {
   })
 
   it('missing fields are "Required", all of them at once', () => {
-    const m = messages(z.object({ name: z.string(), kind: z.enum(['a', 'b']), n: z.number(), tags: z.array(z.string()), empty: z.string().min(1) }), { empty: '' })
+    const m = messages(
+      z.object({
+        name: z.string(),
+        kind: z.enum(['a', 'b']),
+        n: z.number(),
+        tags: z.array(z.string()),
+        empty: z.string().min(1),
+      }),
+      { empty: '' },
+    )
     expect(m).toEqual({ name: 'Required', kind: 'Required', n: 'Required', tags: 'Required', empty: 'Required' })
     expect(messages(locationSchema, {})).toMatchObject({ kind: 'Required', name: 'Required' })
   })
@@ -38,7 +60,9 @@ describe('plain zod messages (shared/schemas/messages.ts)', () => {
   it('too long text and lists say their limit', () => {
     expect(messages(z.object({ lot: z.string().max(60) }), { lot: 'x'.repeat(61) }).lot).toBe('At most 60 characters')
     expect(messages(z.object({ lot: z.string().min(3) }), { lot: 'x' }).lot).toBe('At least 3 characters')
-    expect(messages(z.object({ items: z.array(z.number()).max(2) }), { items: [1, 2, 3] }).items).toBe('At most 2 items')
+    expect(messages(z.object({ items: z.array(z.number()).max(2) }), { items: [1, 2, 3] }).items).toBe(
+      'At most 2 items',
+    )
     expect(messages(waferSchema, { lot: 'x'.repeat(61) }).lot).toBe('At most 60 characters')
   })
 
@@ -48,8 +72,9 @@ describe('plain zod messages (shared/schemas/messages.ts)', () => {
   })
 
   it('messages a schema states itself are kept', () => {
-    expect(messages(coefficientSchema, { component: 'q', order: 2, valuePmV: 1, wavelengthNm: 10, source: 'x' }))
-      .toMatchObject({ component: 'Use d11…d36 for χ(2) or e.g. xxxx for χ(3)', wavelengthNm: 'At least 100 nm' })
+    expect(
+      messages(coefficientSchema, { component: 'q', order: 2, valuePmV: 1, wavelengthNm: 10, source: 'x' }),
+    ).toMatchObject({ component: 'Use d11…d36 for χ(2) or e.g. xxxx for χ(3)', wavelengthNm: 'At least 100 nm' })
     expect(laserSetupSchema).toBeDefined()
     // A schema's catch-all wording for "not a number" does not hide the limit.
     const coef = { component: 'd14', order: 2, wavelengthNm: 1064, source: 'x' }

@@ -20,7 +20,12 @@ async function openChannels(): Promise<Router> {
 }
 
 /** Let a navigation, if one was started, run to its end. */
-const settle = async () => { for (let i = 0; i < 5; i++) { await nextTick(); await new Promise((r) => setTimeout(r, 0)) } }
+const settle = async () => {
+  for (let i = 0; i < 5; i++) {
+    await nextTick()
+    await new Promise((r) => setTimeout(r, 0))
+  }
+}
 
 const cut111 = { pg: '-43m', n: '(111)', ref: '[1-10]', shape: 'disk' }
 const triangle = { ...cut111, shape: 'triangle' }
@@ -36,7 +41,9 @@ describe('mirrorQuery (a form mirrored into the URL)', () => {
   it('is not a navigation: no guards, and what watches the route (Quasar closes its open menus on it) sees no change', async () => {
     const router = await openChannels()
     const guards = vi.fn()
-    router.beforeEach(() => { guards() })
+    router.beforeEach(() => {
+      guards()
+    })
     const routeChanged = vi.fn()
     watch(() => router.currentRoute.value.fullPath, routeChanged, { flush: 'sync' })
 
