@@ -120,7 +120,7 @@ export function structureOf(f: ChannelForm): StructureSymmetry {
   return deriveArraySymmetry({ kind: f.shape, azimuthDeg: Number(f.shapeAzimuthDeg) || 0 }, { kind: f.lattice })
 }
 
-/** The `POST /api/channels` body for the form. */
+/** The engine request for the form (the body of `POST /api/channels` too). */
 export function toChannelRequest(f: ChannelForm) {
   const s = structureOf(f)
   return {
