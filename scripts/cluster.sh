@@ -143,6 +143,12 @@ if [ -d "$CL" ]; then
   rm -rf "$CL"
 fi
 mkdir -p "$CL"
+# The nodes run as $NODE_USER, who must be able to reach their data dirs: `npm test` puts them in its
+# run directory, a 0700 temp dir of root's. Let others traverse (not read) the directories above.
+if [ "$NODE_USER" != "$(id -un)" ]; then
+  p="$CL"
+  while [ "$p" != "/" ]; do chmod o+x "$p" 2>/dev/null || true; p=$(dirname "$p"); done
+fi
 trap cluster_cleanup EXIT INT TERM
 
 declare -A PORT_OF GPORT IPORT SPORT
