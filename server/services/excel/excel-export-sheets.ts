@@ -14,6 +14,7 @@ import { cutLabel } from '../inventory/cut-label'
 import { locationRefs } from '../inventory/locations'
 import { loadArrayContexts, rememberingCompare } from '../measurements/session-compare'
 import { withSignoffs } from '../laser-safety/laser-setups'
+import { describeFabParams } from '../../../shared/fab-params'
 
 /**
  * The sheets of the inventory export. Each reads its table in keyset-paged batches (BATCH rows by
@@ -279,7 +280,7 @@ export async function writeFabSteps({ db, book, tick }: SheetContext) {
   await eachBatch(ws, (after) => db.select({ f: fabSteps, chip: chips.code, operator: users.name }).from(fabSteps).innerJoin(chips, eq(chips.id, fabSteps.chipId))
     .innerJoin(users, eq(users.id, fabSteps.operatorId)).where(gt(fabSteps.id, after)).orderBy(asc(fabSteps.id)).limit(BATCH), (r) => r.f.id, (rows) => {
     for (const { f, chip, operator } of rows) {
-      addSafeRow(ws, { chip, kind: f.kind.replace('_', '-'), params: Object.entries(f.params).map(([k, v]) => `${k}=${v}`).join('; '), operator, performedAt: f.performedAt, notes: f.notes, createdAt: f.createdAt })
+      addSafeRow(ws, { chip, kind: f.kind.replace('_', '-'), params: describeFabParams(f.kind, f.params).map((d) => `${d.label}: ${d.value}`).join('; '), operator, performedAt: f.performedAt, notes: f.notes, createdAt: f.createdAt })
     }
     tick(rows.length)
   })
