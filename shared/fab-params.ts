@@ -24,6 +24,7 @@ export interface FabParamDef {
   unit?: string
   min?: number
   max?: number
+  /** An example (the dialog shows "e.g. …"; for text parameters the whole hint). */
   placeholder?: string
 }
 
