@@ -17,6 +17,11 @@ export default tseslint.config(
   },
   prettier,
   {
+    // Tests mount small throwaway components beside the one under test.
+    files: ['tests/**'],
+    rules: { 'vue/one-component-per-file': 'off' },
+  },
+  {
     rules: {
       // TypeScript checks names (vue-tsc); ESLint's own check does not know the DOM or Node globals.
       'no-undef': 'off',

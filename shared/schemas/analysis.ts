@@ -68,6 +68,8 @@ export const spectrumRequestSchema = z
     /** Detector counts × nm → harmonic power in W (needed to record a power). */
     wattsPerCount: z.number().finite().positive('The calibration factor must be positive').optional(),
     record: z.boolean().default(false),
+    /** Replace a different harmonic power already recorded for the array (else 409). */
+    confirmOverwrite: z.boolean().default(false),
   })
   .refine((r) => !r.record || r.arrayId !== undefined, {
     path: ['arrayId'],

@@ -18,8 +18,14 @@ const dateParam = z
   .refine((s) => !Number.isNaN(Date.parse(s)), 'Enter a date (YYYY-MM-DD) or date and time')
   .optional()
 
-/** A session edit: any subset of the session fields, plus a reason (required for entries older than 24 h). */
-export const sessionUpdateSchema = sessionSchema.partial().extend({ reason: optReason })
+/**
+ * A session edit: any subset of the session fields, plus a reason (required for entries older than
+ * 24 h). An edit that changes, clears or removes a harmonic power already recorded is a 409 unless
+ * `confirmOverwrite` is true (the person was asked).
+ */
+export const sessionUpdateSchema = sessionSchema
+  .partial()
+  .extend({ reason: optReason, confirmOverwrite: z.boolean().optional() })
 export type SessionUpdateInput = z.infer<typeof sessionUpdateSchema>
 
 /** Preview of predicted vs observed for a session that is not saved yet (the form's live view). */

@@ -1,6 +1,7 @@
 import { z } from 'zod'
 import { POINT_GROUP_SYMBOLS } from '../engine'
 import { arraySenseIssues } from '../array-sense'
+import { FAB_STEP_KINDS, checkFabParams } from '../fab-params'
 import { idValue, safeString } from './common'
 import { limitText } from './messages'
 
@@ -165,20 +166,26 @@ export const chipUpdateSchema = z.object({
 })
 
 // ---------- fabrication steps ----------
-export const FAB_STEP_KINDS = ['resist', 'exposure', 'etch', 'deposition', 'lift_off', 'inspection', 'other'] as const
-export const fabStepSchema = z.object({
-  chipId: id,
-  kind: z.enum(FAB_STEP_KINDS),
-  /** Free parameters, e.g. { resist: 'ZEP-like', spinRpm: 4000, doseUcPerCm2: 220 }. */
-  params: z
-    .record(
-      z.string().regex(/^[A-Za-z][\w ]{0,39}$/, 'Parameter names: letters, digits, spaces'),
-      z.union([text(200), z.number()]),
-    )
-    .default({}),
-  performedAt: dateTimeString,
-  notes: optText(2000),
-})
+export { FAB_STEP_KINDS, FAB_STEP_PARAMS } from '../fab-params'
+/**
+ * A step's parameters are those of its kind (`FAB_STEP_PARAMS` in shared/fab-params.ts: spin speed
+ * in rpm, bake temperature in °C, dose in µC/cm² …), each within its physical range; a nameless or
+ * unknown parameter is refused on `params.<name>`, never dropped. Numbers typed as text are stored as numbers.
+ */
+export const fabStepSchema = z
+  .object({
+    chipId: id,
+    kind: z.enum(FAB_STEP_KINDS),
+    params: z.record(z.string().max(60, 'At most 60 characters'), z.unknown()).default({}),
+    performedAt: dateTimeString,
+    notes: optText(2000),
+  })
+  .transform((s, ctx) => {
+    const { params, issues } = checkFabParams(s.kind, s.params)
+    for (const i of issues)
+      ctx.issues.push({ code: 'custom', path: ['params', i.key], message: i.message, input: s.params[i.key] })
+    return { ...s, params }
+  })
 export type FabStepInput = z.infer<typeof fabStepSchema>
 
 // ---------- arrays ----------

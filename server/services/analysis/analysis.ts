@@ -9,7 +9,9 @@ import { compareResult, loadArrayContexts } from '../measurements/session-compar
 import { computePattern, crystalPattern, loadArrayCrystal, loadChipCrystal, type PatternAnswer } from './analysis-model'
 import { runFit, type FitAnswer } from './analysis-fit'
 import { runSpectrum, type SpectrumAnswer } from './analysis-spectrum'
-import { NotFoundError, fieldError } from '../../errors'
+import { ConflictError, NotFoundError, fieldError } from '../../errors'
+import { formatSi } from '../../../shared/format'
+import { recordedPowerText } from '../measurements/sessions'
 
 /**
  * Measurement analysis (issue 6): predicted polar patterns of arrays, chips and bare crystals,
@@ -203,6 +205,21 @@ export async function spectrumSession(
       wattsPerCount: input.wattsPerCount ?? null,
     }
     savedId = await db.transaction(async (tx) => {
+      // A different power already recorded is replaced only when the person confirmed (checked under the row lock).
+      const [before] = await tx
+        .select()
+        .from(sessionResults)
+        .where(and(eq(sessionResults.sessionId, sessionId), eq(sessionResults.arrayId, arrayId)))
+        .for('update')
+      if (
+        answer.harmonicPowerW !== null &&
+        before?.harmonicPowerW != null &&
+        before.harmonicPowerW !== answer.harmonicPowerW &&
+        !input.confirmOverwrite
+      ) {
+        const msg = `${recordedPowerText(channel!.arrayCode, before.harmonicPowerW)}; this spectrum gives ${formatSi(answer.harmonicPowerW, 'W')}. Confirm to replace it.`
+        throw new ConflictError(msg, { harmonicPowerW: [msg] })
+      }
       const id = await saveAnalysis(tx, actor, {
         sessionId,
         arrayId,
@@ -212,11 +229,6 @@ export async function spectrumSession(
         result: answer as unknown as Record<string, unknown>,
       })
       if (answer.harmonicPowerW !== null) {
-        const [before] = await tx
-          .select()
-          .from(sessionResults)
-          .where(and(eq(sessionResults.sessionId, sessionId), eq(sessionResults.arrayId, arrayId)))
-          .for('update')
         await tx
           .update(sessionResults)
           .set({ harmonicPowerW: answer.harmonicPowerW })

@@ -42,6 +42,7 @@ import { cutLabel } from '../inventory/cut-label'
 import { locationRefs } from '../inventory/locations'
 import { loadArrayContexts, rememberingCompare } from '../measurements/session-compare'
 import { withSignoffs } from '../laser-safety/laser-setups'
+import { describeFabParams } from '../../../shared/fab-params'
 
 /**
  * The sheets of the inventory export. Each reads its table in keyset-paged batches (BATCH rows by
@@ -554,8 +555,8 @@ export async function writeFabSteps({ db, book, tick }: SheetContext) {
         addSafeRow(ws, {
           chip,
           kind: f.kind.replace('_', '-'),
-          params: Object.entries(f.params)
-            .map(([k, v]) => `${k}=${v}`)
+          params: describeFabParams(f.kind, f.params)
+            .map((d) => `${d.label}: ${d.value}`)
             .join('; '),
           operator,
           performedAt: f.performedAt,

@@ -9,7 +9,8 @@ import { diffFields, writeAudit } from '../audit/audit'
 import { requireValidSignoff } from '../laser-safety/signoffs'
 import { nextCode, withCodeRetry } from '../laser-safety/laser-setups'
 import { compareResult, deriveEfficiency, loadArrayContexts, type Reader } from './session-compare'
-import { NotFoundError, fieldError } from '../../errors'
+import { ConflictError, NotFoundError, fieldError } from '../../errors'
+import { formatSi } from '../../../shared/format'
 import { codePrefixes, idCondition, prefixPattern, textHitIds, type TextTarget } from '../search/text-search'
 import { likePattern } from '../inventory/codes'
 import { plainRows } from '../../db/plain-rows'
@@ -73,6 +74,37 @@ async function checkArrays(tx: Reader, results: ResultInput[]) {
 
 const resultRows = (sessionId: number, results: ResultInput[]) => results.map((r) => ({ sessionId, ...r }))
 
+/** "A-…-B2 already has a harmonic power of 2 nW recorded": the words of every refused overwrite. */
+export const recordedPowerText = (arrayCode: string, watts: number) =>
+  `${arrayCode} already has a harmonic power of ${formatSi(watts, 'W')} recorded`
+
+/**
+ * A measured harmonic power is never replaced silently: the results of an edit that change, clear
+ * or drop a power already recorded are a 409 on that row unless the person confirmed.
+ */
+function refuseSilentOverwrite(
+  prev: { arrayId: number; harmonicPowerW: number | null }[],
+  next: ResultInput[],
+  codes: Map<number, string>,
+): void {
+  const fields: Record<string, string[]> = {}
+  for (const old of prev) {
+    if (old.harmonicPowerW === null) continue
+    const code = codes.get(old.arrayId) ?? `Array #${old.arrayId}`
+    const i = next.findIndex((r) => r.arrayId === old.arrayId)
+    if (i < 0)
+      (fields.results ??= []).push(
+        `${recordedPowerText(code, old.harmonicPowerW)}; removing it from the session drops that value. Confirm to remove it.`,
+      )
+    else if (next[i]!.harmonicPowerW !== old.harmonicPowerW) {
+      const to =
+        next[i]!.harmonicPowerW === null ? 'clear it' : `replace it with ${formatSi(next[i]!.harmonicPowerW, 'W')}`
+      fields[`results.${i}.harmonicPowerW`] = [`${recordedPowerText(code, old.harmonicPowerW)}; confirm to ${to}.`]
+    }
+  }
+  if (Object.keys(fields).length) throw new ConflictError(Object.values(fields).flat().join(' '), fields)
+}
+
 export async function createSession(db: Db, actor: User, input: SessionInput): Promise<MeasurementSession> {
   const performedAt = checkPerformedAt(input.performedAt)
   const { results, safetyNotesRead, ...fields } = input
@@ -103,7 +135,7 @@ export async function updateSession(
   id: number,
   input: SessionUpdateInput,
 ): Promise<MeasurementSession> {
-  const { reason, results, performedAt, safetyNotesRead: _read, ...fields } = input
+  const { reason, results, performedAt, safetyNotesRead: _read, confirmOverwrite, ...fields } = input
   await db.transaction(async (tx) => {
     const [before] = await tx.select().from(ms).where(eq(ms.id, id)).for('update')
     if (!before) throw new NotFoundError('No such session')
@@ -123,13 +155,20 @@ export async function updateSession(
     }
     const changes = diffFields(before as unknown as Record<string, unknown>, next)
     if (results) {
-      await checkArrays(tx, results)
+      const ctx = await checkArrays(tx, results)
       const old = await tx
         .select()
         .from(sessionResults)
         .where(eq(sessionResults.sessionId, id))
         .orderBy(asc(sessionResults.arrayId))
+        .for('update')
       const prev = old.map(({ sessionId: _s, ...r }) => r)
+      if (!confirmOverwrite) {
+        const gone = prev.filter((r) => r.harmonicPowerW !== null && !ctx.has(r.arrayId)).map((r) => r.arrayId)
+        const codes = new Map([...ctx.values()].map((a) => [a.id, a.code]))
+        if (gone.length) for (const a of (await loadArrayContexts(tx, gone)).values()) codes.set(a.id, a.code)
+        refuseSilentOverwrite(prev, results, codes)
+      }
       const now = [...results].sort((a, b) => a.arrayId - b.arrayId)
       if (JSON.stringify(prev) !== JSON.stringify(now)) {
         changes.results = { from: prev, to: now }

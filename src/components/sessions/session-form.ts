@@ -139,3 +139,37 @@ export function toSessionInput(f: SessionForm, results: ResultForm[]): Omit<Sess
 
 /** Server field paths → form field names (the form enters MHz where the API takes Hz). */
 export const serverFieldName = (path: string) => (path === 'repRateHz' ? 'repRateMhz' : path)
+
+/** What "Log a session" last filled in from a laser setup (so a value typed by hand is never replaced). */
+export interface FilledFromSetup {
+  pulseDurationFs: number | null
+  repRateMhz: number | null
+}
+
+/**
+ * Picking a laser setup fills the session's pulse duration and repetition rate from the setup's
+ * register (both stay editable: the laser may have run differently that day). A field is filled
+ * only while it is blank or still holds what the previous setup filled in; a value the person typed stays.
+ * Returns what was filled, for the next change.
+ */
+export function fillFromSetup(
+  form: SessionForm,
+  setup: { pulseDurationFs: number | null; repRateHz: number | null },
+  last: FilledFromSetup,
+): FilledFromSetup {
+  const untouched = (v: number | null | string, before: number | null) => v === null || v === '' || v === before
+  const next: FilledFromSetup = {
+    pulseDurationFs: setup.pulseDurationFs,
+    repRateMhz: setup.repRateHz === null ? null : setup.repRateHz / 1e6,
+  }
+  const filled: FilledFromSetup = { ...last }
+  if (untouched(form.pulseDurationFs, last.pulseDurationFs)) {
+    form.pulseDurationFs = next.pulseDurationFs
+    filled.pulseDurationFs = next.pulseDurationFs
+  }
+  if (untouched(form.repRateMhz, last.repRateMhz)) {
+    form.repRateMhz = next.repRateMhz
+    filled.repRateMhz = next.repRateMhz
+  }
+  return filled
+}

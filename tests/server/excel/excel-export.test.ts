@@ -25,6 +25,13 @@ describe('inventory export', () => {
     const { chip, wafer } = await makeChip(fab, {}, { receivedOn: '2024-03-14' })
     const arr = await fab.post(`/api/chips/${chip.id}/arrays`).send(disk(chip.id, 'B2'))
     expect(arr.status).toBe(201)
+    expect(
+      (
+        await fab
+          .post(`/api/chips/${chip.id}/fab-steps`)
+          .send({ kind: 'resist', params: { spinRpm: 4000, bakeTempC: 180 }, performedAt: '2025-06-01T10:00:00Z' })
+      ).status,
+    ).toBe(201)
     const { job, book } = await runExport(lead)
     expect(job.fileName).toMatch(/^overtone-inventory-\d{8}-\d{4}\.xlsx$/)
     expect(job.done).toBe(job.total)
@@ -56,6 +63,16 @@ describe('inventory export', () => {
     expect(setups.rowCount).toBeGreaterThan(1)
     expect(String(setups.getRow(2).getCell(sHeader.indexOf('Sign-off') + 1).value)).toMatch(
       /^(draft|waiting|approved|approval expired|rejected|revoked|voided)/,
+    )
+    // fabrication steps: each parameter with its label and unit
+    const steps = book.getWorksheet('Fabrication')!
+    const fHeader = (steps.getRow(1).values as unknown[]).slice(1)
+    let frow: ExcelJS.Row | undefined
+    steps.eachRow((row) => {
+      if (row.getCell(1).value === chip.code) frow = row
+    })
+    expect(frow!.getCell(fHeader.indexOf('Parameters') + 1).value).toBe(
+      'Spin speed: 4000 rpm; Bake temperature: 180 °C',
     )
     expect((book.getWorksheet('Files')!.getRow(1).values as unknown[]).slice(1)).toEqual(
       expect.arrayContaining(['File name', 'SHA-256', 'Attached to']),
