@@ -11,11 +11,11 @@ export type Analyser = keyof typeof NAMES
 
 export interface PolarSeries { name: string; points: [number, number][]; kind: 'line' | 'scatter'; color: string }
 
-export function polarOption(series: PolarSeries[], title?: string): Record<string, unknown> {
+export function polarOption(series: PolarSeries[], title?: string, angleName = 'θ'): Record<string, unknown> {
   return {
     title: title ? { text: title, left: 'center', textStyle: { fontSize: 14 } } : undefined,
     legend: { bottom: 0, type: 'scroll' },
-    tooltip: { trigger: 'item', formatter: (p: { seriesName: string; value: [number, number] }) => `${p.seriesName}<br>θ = ${p.value[1].toFixed(0)}°: ${p.value[0].toPrecision(3)}` },
+    tooltip: { trigger: 'item', formatter: (p: { seriesName: string; value: [number, number] }) => `${p.seriesName}<br>${angleName} = ${p.value[1].toFixed(0)}°: ${p.value[0].toPrecision(3)}` },
     polar: { center: ['50%', '48%'], radius: '68%' },
     angleAxis: { type: 'value', min: 0, max: 360, interval: 30, startAngle: 0, clockwise: false, axisLabel: { formatter: '{value}°' } },
     radiusAxis: { type: 'value', min: 0, axisLabel: { fontSize: 10 }, splitNumber: 3 },
