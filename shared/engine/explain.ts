@@ -121,12 +121,12 @@ export function explainRuleSteps(x: ChannelExplainInput, texts: RuleStepTexts): 
     else steps.push(`no parity rule at the mirror ${r.mirror}°: the pump has no definite parity under it`)
   }
   const ne = x.normalEmission
-  if (!ne.allowed) steps.push(`rule 6: neither m = +1 nor m = −1 is allowed, so no harmonic is emitted along the normal (zeroth order)`)
+  if (ne.suppressedByParity) steps.push(`rule 6: rule 4 alone would allow emission along the normal (m = ${signedList(ne.m)}), but the parity rules demand different polarisations of that field, so it cancels by symmetry: no harmonic along the normal (zeroth order)`)
+  else if (!ne.allowed) steps.push(`rule 6: neither m = +1 nor m = −1 is allowed, so no harmonic is emitted along the normal (zeroth order)`)
   else {
     const hand = ne.handedness ? ne.m.map((v, i) => `m = ${signed(v)} ${ne.handedness![i]}`).join(', ') : `m = ${signedList(ne.m)}`
     const pol = ne.polarizationDeg !== undefined ? `; the parity rule fixes its polarisation at ${ne.polarizationDeg}°` : ''
-    const sup = ne.suppressedByParity ? '; however the parity rules demand different polarisations, so this emission cancels by symmetry' : ''
-    steps.push(`rule 6: emission along the normal is allowed (${hand}${pol}${sup})`)
+    steps.push(`rule 6: emission along the normal is allowed (${hand}${pol})`)
   }
   const zero = !x.allowedM.includes(0) ? '' : hasEven && hasOdd ? '; m = 0 is excluded by conflicting parity rules' : hasOdd ? '; at m = 0 only magnetic multipoles (odd)' : hasEven ? '; at m = 0 only electric multipoles (even)' : ''
   steps.push(`rule 7: ${x.multipoles.length} multipoles (E/M, 1 ≤ l ≤ ${x.lmax}, |m| ≤ l) are allowed${zero}`)

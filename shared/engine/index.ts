@@ -31,7 +31,7 @@ export type { SampleTensor, SampleTensorInput } from './sample-tensor'
 
 export {
   shapeSymmetry, latticeSymmetry, deriveArraySymmetry, intersectStructures, rotateStructure, closeStructure,
-  structureGroupName, normalizeMirror, SHAPE_KINDS, LATTICE_KINDS,
+  structureGroupName, normalizeMirror, generatedRotationOrder, checkStructureSymmetry, SHAPE_KINDS, LATTICE_KINDS,
 } from './structure'
 export type { StructureSymmetry, ShapeSpec, ShapeKind, LatticeSpec, LatticeKind } from './structure'
 export { pumpProjections, pumpParity, describePump, describeCircularHandedness, isSameMirror, PUMP_TYPES } from './pump'

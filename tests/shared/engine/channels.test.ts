@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
-import { computeChannels, deriveArraySymmetry, getPointGroup, POINT_GROUP_SYMBOLS, EngineError, ENGINE_VERSION } from '../../../shared/engine'
+import { computeChannels, evaluateChannels, parseChannelRequest, deriveArraySymmetry, getPointGroup, POINT_GROUP_SYMBOLS, EngineError, ENGINE_VERSION } from '../../../shared/engine'
 
 const zb001 = { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0] }
 const revolution = { rotationOrder: 0, mirrors: [0, 90] }
@@ -82,7 +82,7 @@ describe('properties (seeded)', () => {
   it('centrosymmetric bulk gives no χ(2) (or χ(4)) channel at all', () => {
     fc.assert(
       fc.property(fc.constantFrom(...CENTRO), dir, pump, fc.integer({ min: 0, max: 6 }), fc.constantFrom(2, 4), (pg, normal, p, n, order) => {
-        const r = computeChannels({ crystal: { pointGroup: pg, normal, reference: [normal[2], 0, -normal[0] || 1] }, structure: { rotationOrder: n, mirrors: [0, 90] }, pump: p, order })
+        const r = computeChannels({ crystal: { pointGroup: pg, normal, reference: [normal[2], 0, -normal[0] || 1] }, structure: { rotationOrder: n, mirrors: n % 2 === 0 ? [0, 90] : [0] }, pump: p, order })
         expect(r.q).toEqual([])
         expect(r.m).toEqual([])
         expect(r.normalEmission.allowed).toBe(false)
@@ -143,5 +143,19 @@ describe('request errors carry code, field and a readable message', () => {
       expect((e as EngineError).message).toMatch(message)
       expect((e as EngineError).message).not.toMatch(/\n/)
     }
+  })
+})
+
+describe('rule 6 with conflicting parities', () => {
+  // A field along the normal that must be even under the mirror at 0° and odd under the one at 90°
+  // is polarised along one line; if the parities ask for two different lines it vanishes (the
+  // parity selection rule of docs/physics.md §3, rule 5; plain symmetry). Such a structure (C1 with
+  // two perpendicular mirrors) is refused on input, so the request is built past the parser here.
+  it('normalEmission.allowed is false whenever the parity rule suppresses it', () => {
+    const req = parseChannelRequest({ crystal: zb001, structure: { rotationOrder: 2, mirrors: [0, 90] }, pump: { type: 'linear', angle: 0 }, order: 2 })
+    const r = evaluateChannels({ ...req, structure: { rotationOrder: 1, mirrors: [0, 90] } })
+    expect(r.normalEmission.suppressedByParity).toBe(true)
+    expect(r.normalEmission.allowed).toBe(false)
+    expect(r.explain.find((s) => s.startsWith('rule 6'))).toMatch(/cancels by symmetry: no harmonic along the normal/)
   })
 })
