@@ -14,7 +14,8 @@
  * the harmonic; complex, Im ≥ 0 absorbing): the pump field inside is t_s ŝ + t_p (cos θ_t, 0, sin θ_t)
  * with the air→medium transmission coefficients, and the detected harmonic is the part of P along
  * the inside p or s vector of the outgoing wave (angle θ₂, sin θ₂ = sin θ / N) times the
- * medium→air coefficient (Born & Wolf, Principles of Optics, §1.5.2; Hecht, Optics, §4.6). Factors
+ * medium→air coefficient, at the front face in reflection and at a parallel back face in transmission
+ * (Born & Wolf, Principles of Optics, §1.5.2; Hecht, Optics, §4.6). Factors
  * common to both output polarisations (phase mismatch, depth) are left out; the surface term is
  * evaluated with the same inside fields.
  */
