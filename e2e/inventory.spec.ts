@@ -95,7 +95,10 @@ test('a fab technician registers a wafer, dices it, adds an array and reads its 
   await expect(shgCircular.getByTestId('allowed-m')).toContainText('+4')
   await expect(shgCircular.getByTestId('allowed-m')).not.toContainText('+1')
   await expect(shgCircular.getByTestId('normal-emission')).toContainText('No emission along the normal')
-  await expect(shgCircular).toContainText('counter-clockwise seen from +z')
+  // The handedness words are a legend under the table, once per pump, not in every row.
+  await expect(shgCircular).not.toContainText('seen from +z')
+  await expect(page.getByTestId('handedness-legend')).toContainText('Circular, m = +1: counter-clockwise seen from +z')
+  await expect(page.getByTestId('handedness-legend').getByRole('listitem')).toHaveCount(2)
   await shgCircular.getByRole('button', { name: 'Why' }).click()
   await expect(page.getByText(/rule 6/).first()).toBeVisible()
   await screen(page, 'inventory-array-channels')

@@ -21,6 +21,7 @@ import { mailRoutes } from './routes/mail'
 import { searchRoutes } from './routes/search'
 import { healthRoutes } from './routes/health'
 import { channelRoutes } from './routes/channels'
+import { polarRoutes } from './routes/polar'
 import { recordRoutes } from './routes/records/index'
 import { labelRoutes } from './routes/labels'
 import { excelRoutes } from './routes/excel'
@@ -99,6 +100,7 @@ export function createApp(ctx: AppContext): { app: Express; close: () => Promise
   app.use('/api/mail', mailRoutes(ctx))
   app.use('/api/search', searchRoutes(ctx))
   app.use('/api/channels', channelRoutes())
+  app.use('/api/polar', polarRoutes())
   app.use('/api/labels', labelRoutes(ctx))
   app.use('/api/excel', excelRoutes(ctx))
   app.use('/api/audit', auditRoutes(ctx))

@@ -243,7 +243,12 @@ export function evaluateChannels(req: ChannelRequest): ChannelResponse {
   if (normalEmission.m.length === 2 && parity.length > 0) {
     const lines = new Set(parity.map((p) => normalizeMirror(p.sign === 1 ? p.mirror : p.mirror + 90)))
     if (lines.size === 1) normalEmission.polarizationDeg = [...lines][0]
-    else normalEmission.suppressedByParity = true
+    else {
+      // The mirror parities demand two different polarisations of one field: it vanishes, so the
+      // zeroth order is not allowed after all (m keeps what rule 4 alone would allow).
+      normalEmission.allowed = false
+      normalEmission.suppressedByParity = true
+    }
   }
   const multipoles = findAllowedMultipoles(
     m,

@@ -5,7 +5,7 @@
  * T'_{ab…} = R_ai R_bj … T_{ij…} where the rows of R are the lab axes in crystal coordinates.
  */
 import type { Mat3, Vec3 } from './linalg'
-import { cross, scale } from './linalg'
+import { cross, maxAbs, scale } from './linalg'
 import { transformTensor } from './tensor-space'
 import { EngineError } from './errors'
 
@@ -48,28 +48,32 @@ export function checkCut(cut: CutOrientation, field = 'crystal'): void {
  * the in-plane part (3–5).
  */
 function cutPlane(cut: CutOrientation, field: string, out?: number[]): number {
-  const nv = cut.normal
-  const n = Math.sqrt(nv[0] * nv[0] + nv[1] * nv[1] + nv[2] * nv[2])
-  if (!(n > 1e-12))
+  // Both vectors are scaled by their largest component first: a direction has no size, so
+  // [0, 0, 1e200] and [0, 0, 1e-200] are the z axis (their squares would overflow or underflow).
+  const nm = maxAbs(cut.normal)
+  if (!(nm > 0) || !Number.isFinite(nm))
     throw new EngineError({
       code: 'ZERO_VECTOR',
       field: `${field}.normal`,
       value: cut.normal,
       message: 'the normal is the zero vector',
     })
+  const nv = [cut.normal[0] / nm, cut.normal[1] / nm, cut.normal[2] / nm]
+  const n = Math.sqrt(nv[0] * nv[0] + nv[1] * nv[1] + nv[2] * nv[2])
   const inv = 1 / n
   const z0 = nv[0] * inv
   const z1 = nv[1] * inv
   const z2 = nv[2] * inv
-  const rv = cut.reference
-  const r = Math.sqrt(rv[0] * rv[0] + rv[1] * rv[1] + rv[2] * rv[2])
-  if (!(r > 1e-12))
+  const rm = maxAbs(cut.reference)
+  if (!(rm > 0) || !Number.isFinite(rm))
     throw new EngineError({
       code: 'ZERO_VECTOR',
       field: `${field}.reference`,
       value: cut.reference,
       message: 'the reference is the zero vector',
     })
+  const rv = [cut.reference[0] / rm, cut.reference[1] / rm, cut.reference[2] / rm]
+  const r = Math.sqrt(rv[0] * rv[0] + rv[1] * rv[1] + rv[2] * rv[2])
   const along = rv[0] * z0 + rv[1] * z1 + rv[2] * z2
   const i0 = rv[0] - along * z0
   const i1 = rv[1] - along * z1

@@ -4,7 +4,7 @@
  * direction, `(111)` plane normal; in a cubic crystal both are the Cartesian vector [h k l]).
  */
 import type { Vec3 } from './linalg'
-import { norm } from './linalg'
+import { maxAbs } from './linalg'
 import { EngineError } from './errors'
 
 /** A direction as accepted from users: a 3-vector, an axis name, or (cubic) Miller notation. */
@@ -67,7 +67,8 @@ export function parseDirection(input: unknown, field: string, isCubic: boolean):
           ? 'a direction is required'
           : `a direction must be an array of 3 numbers or an axis name, got ${JSON.stringify(input)}`,
     })
-  if (norm(v) < 1e-12)
+  // A direction has no scale: only the exact zero vector is refused ([0, 0, 1e-200] is the z axis).
+  if (maxAbs(v) === 0)
     throw new EngineError({ code: 'ZERO_VECTOR', field, value: input, message: 'the direction is the zero vector' })
   return v
 }

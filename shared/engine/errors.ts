@@ -19,6 +19,7 @@ export type EngineErrorCode =
   | 'ZERO_VECTOR'
   | 'REFERENCE_PARALLEL_TO_NORMAL'
   | 'INVALID_DIRECTION'
+  | 'INCONSISTENT_SYMMETRY'
   | 'UNSUPPORTED'
 
 /** Constructor fields of an {@link EngineError}. */

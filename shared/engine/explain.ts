@@ -136,7 +136,23 @@ export interface RuleStepTexts {
 /** The structure step: group name, rotation order and the (distinct) mirrors, in degrees, as given. */
 export function describeStructureStep(rotationOrder: number, mirrorCount: number, mirrors: readonly number[]): string {
   const n = rotationOrder
-  return `structure: ${structureGroupName({ rotationOrder: n, mirrors: mirrorCount > 0 ? [0] : [] })}, rotation order ${n === 0 ? '∞ (body of revolution)' : n}${mirrors.length ? `, mirrors at ${mirrors.map((m) => `${m}°`).join(', ')}` : ', no mirrors given'}`
+  const group = structureGroupName({ rotationOrder: n, mirrors: mirrorCount > 0 ? [0] : [] })
+  // A body of revolution with mirrors has every vertical mirror: one phrase, not one per sampled line.
+  const list =
+    n === 0 && mirrors.length > 1
+      ? `, every vertical mirror (the ${mirrors.length} lines given, ${mirrors[0]}° … ${mirrors[mirrors.length - 1]}°, stand for them)`
+      : mirrors.length
+        ? `, mirrors at ${mirrors.map((m) => `${m}°`).join(', ')}`
+        : ', no mirrors given'
+  return `structure: ${group}, rotation order ${n === 0 ? '∞ (body of revolution)' : n}${list}`
+}
+
+/** "15°" or "the mirrors 15°, 30° and 60°". */
+function mirrorPhrase(mirrors: readonly number[]): string {
+  const deg = mirrors.map((m) => `${m}°`)
+  return deg.length === 1
+    ? `the mirror ${deg[0]}`
+    : `the mirrors ${deg.slice(0, -1).join(', ')} and ${deg[deg.length - 1]}`
 }
 
 /** Steps of rules 4–7 with the per-part texts already formed (see {@link RuleStepTexts}). */
@@ -148,6 +164,9 @@ export function explainRuleSteps(x: ChannelExplainInput, texts: RuleStepTexts): 
   )
   let hasEven = false
   let hasOdd = false
+  // Mirrors without a parity rule are named in one line per reason, so a long list reads as one fact.
+  const noTensor: number[] = []
+  const noPump: number[] = []
   for (const r of x.mirrors) {
     if (r.result !== 0) {
       steps.push(
@@ -155,14 +174,24 @@ export function explainRuleSteps(x: ChannelExplainInput, texts: RuleStepTexts): 
       )
       if (r.result === 1) hasEven = true
       else if (r.result === -1) hasOdd = true
-    } else if (r.tensor === 0)
-      steps.push(
-        `no parity rule at the mirror ${r.mirror}°: the rotated tensor is neither even nor odd under it (it is not a mirror of the cut crystal), so nothing is assumed`,
-      )
-    else steps.push(`no parity rule at the mirror ${r.mirror}°: the pump has no definite parity under it`)
+    } else if (r.tensor === 0) noTensor.push(r.mirror)
+    else noPump.push(r.mirror)
   }
+  const one = (list: number[]) => list.length === 1
+  if (noTensor.length)
+    steps.push(
+      `no parity rule at ${mirrorPhrase(noTensor)}: the rotated tensor is neither even nor odd under ${one(noTensor) ? 'it (it is not a mirror' : 'them (they are not mirrors'} of the cut crystal), so nothing is assumed`,
+    )
+  if (noPump.length)
+    steps.push(
+      `no parity rule at ${mirrorPhrase(noPump)}: the pump has no definite parity under ${one(noPump) ? 'it' : 'them'}`,
+    )
   const ne = x.normalEmission
-  if (!ne.allowed)
+  if (ne.suppressedByParity)
+    steps.push(
+      `rule 6: rule 4 alone would allow emission along the normal (m = ${signedList(ne.m)}), but the parity rules demand different polarisations of that field, so it cancels by symmetry: no harmonic along the normal (zeroth order)`,
+    )
+  else if (!ne.allowed)
     steps.push(
       `rule 6: neither m = +1 nor m = −1 is allowed, so no harmonic is emitted along the normal (zeroth order)`,
     )
@@ -172,10 +201,7 @@ export function explainRuleSteps(x: ChannelExplainInput, texts: RuleStepTexts): 
       : `m = ${signedList(ne.m)}`
     const pol =
       ne.polarizationDeg !== undefined ? `; the parity rule fixes its polarisation at ${ne.polarizationDeg}°` : ''
-    const sup = ne.suppressedByParity
-      ? '; however the parity rules demand different polarisations, so this emission cancels by symmetry'
-      : ''
-    steps.push(`rule 6: emission along the normal is allowed (${hand}${pol}${sup})`)
+    steps.push(`rule 6: emission along the normal is allowed (${hand}${pol})`)
   }
   const zero = !x.allowedM.includes(0)
     ? ''

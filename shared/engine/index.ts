@@ -38,6 +38,8 @@ export {
   closeStructure,
   structureGroupName,
   normalizeMirror,
+  generatedRotationOrder,
+  checkStructureSymmetry,
   SHAPE_KINDS,
   LATTICE_KINDS,
 } from './structure'
@@ -64,3 +66,21 @@ export type { PlanOption, WantedEmission } from './planner'
 export { predictPolarPattern } from './polar-pattern'
 export { clearEngineCaches } from './caches'
 export type { PolarPoint } from './polar-pattern'
+export {
+  predictObliquePattern,
+  obliqueFields,
+  fresnelCrossing,
+  fourierAmplitudes,
+  significantOrders,
+  FOURIER_SAMPLES,
+} from './oblique-pattern'
+export type { Complex, Detection, ObliqueGeometry, ObliqueFields, FresnelCrossing } from './oblique-pattern'
+export {
+  computePolar,
+  evaluatePolar,
+  parsePolarRequest,
+  polarSampleTensor,
+  polarAzimuths,
+  POLAR_DEFAULTS,
+} from './polar'
+export type { PolarRequest, PolarResponse, PolarPatternPoint } from './polar'

@@ -46,9 +46,33 @@ export function cross(a: Vec3, b: Vec3): Vec3 {
   return [a[1] * b[2] - a[2] * b[1], a[2] * b[0] - a[0] * b[2], a[0] * b[1] - a[1] * b[0]]
 }
 
-/** Euclidean length. */
+/** Largest |component| (0 only for the zero vector). */
+export function maxAbs(a: Vec3): number {
+  return Math.max(Math.abs(a[0]), Math.abs(a[1]), Math.abs(a[2]))
+}
+
+/**
+ * Euclidean length, scaled by the largest component first, so that neither 1e200 (whose square
+ * overflows) nor 1e-200 (whose square underflows to 0) loses the answer.
+ */
 export function norm(a: Vec3): number {
-  return Math.sqrt(dot(a, a))
+  const m = maxAbs(a)
+  if (m === 0 || !Number.isFinite(m)) return m
+  const x = a[0] / m,
+    y = a[1] / m,
+    z = a[2] / m
+  return m * Math.sqrt(x * x + y * y + z * z)
+}
+
+/** a / |a| computed without overflow or underflow (see {@link norm}); the zero vector stays zero. */
+export function unitVector(a: Vec3): Vec3 {
+  const m = maxAbs(a)
+  if (m === 0) return [0, 0, 0]
+  const x = a[0] / m,
+    y = a[1] / m,
+    z = a[2] / m
+  const l = Math.sqrt(x * x + y * y + z * z)
+  return [x / l, y / l, z / l]
 }
 
 /** a·s. */
@@ -58,7 +82,7 @@ export function scale(a: Vec3, s: number): Vec3 {
 
 /** Proper rotation by `angleRad` about the unit `axis` (right-hand rule), Rodrigues' formula. */
 export function rotationAboutAxis(axis: Vec3, angleRad: number): Mat3 {
-  const [x, y, z] = scale(axis, 1 / norm(axis))
+  const [x, y, z] = unitVector(axis)
   const c = Math.cos(angleRad)
   const s = Math.sin(angleRad)
   const t = 1 - c
@@ -77,7 +101,7 @@ export function rotationAboutAxis(axis: Vec3, angleRad: number): Mat3 {
 
 /** Reflection through the plane with unit normal `n`: I − 2 n nᵀ. */
 export function reflectionMatrix(n: Vec3): Mat3 {
-  const [x, y, z] = scale(n, 1 / norm(n))
+  const [x, y, z] = unitVector(n)
   return [
     1 - 2 * x * x,
     -2 * x * y,

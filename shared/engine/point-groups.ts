@@ -2,7 +2,13 @@
  * The 32 crystallographic point groups (standard settings, see `data/generators.ts`) and two
  * limiting groups, built from their generators by closure. Frame: crystal Cartesian frame.
  */
-import { SYMMETRY_OPERATIONS, POINT_GROUP_TABLE, LIMIT_GROUP_TABLE } from './data/generators'
+import {
+  SYMMETRY_OPERATIONS,
+  POINT_GROUP_TABLE,
+  LIMIT_GROUP_TABLE,
+  SETTING_TABLE,
+  settingText,
+} from './data/generators'
 import type { CrystalSystem } from './data/generators'
 import type { Mat3 } from './linalg'
 import { IDENTITY3, mulMat3, det3 } from './linalg'
@@ -22,6 +28,8 @@ export interface PointGroup {
   readonly order: number
   readonly isCentrosymmetric: boolean
   readonly isCubic: boolean
+  /** The setting in words (e.g. `triad ∥ z, mirror ⟂ x`), to show beside every matrix. */
+  readonly setting: string
 }
 
 /** Hermann–Mauguin symbols of the 32 crystallographic classes, in the table's order. */
@@ -34,7 +42,6 @@ const ALIASES: Record<string, string> = {
   '-3m1': '-3m',
   '3m1': '3m',
   '321': '32',
-  '-62m': '-6m2',
   '∞mm': '∞m',
   infm: '∞m',
   'inf-m': '∞m',
@@ -72,7 +79,7 @@ const MAX_SPELLING = 32
 const frozenMatrices = (ms: readonly Mat3[]): readonly Mat3[] => Object.freeze(ms.map((m) => Object.freeze(m.slice())))
 
 function build(symbol: string): PointGroup {
-  const entry = POINT_GROUP_TABLE.find((e) => e.symbol === symbol)
+  const entry = POINT_GROUP_TABLE.find((e) => e.symbol === symbol) ?? SETTING_TABLE.find((e) => e.symbol === symbol)
   if (entry) {
     const generators = entry.generators.map((name) => SYMMETRY_OPERATIONS[name])
     const elements = closeGroup(generators)
@@ -86,6 +93,7 @@ function build(symbol: string): PointGroup {
       order: elements.length,
       isCentrosymmetric: elements.some((g) => matrixKey(g) === inv),
       isCubic: entry.system === 'cubic',
+      setting: settingText(entry),
     })
   }
   const limit = LIMIT_GROUP_TABLE.find((e) => e.symbol === symbol)!
@@ -98,13 +106,19 @@ function build(symbol: string): PointGroup {
     order: Infinity,
     isCentrosymmetric: limit.generators.some((g) => det3(g) < 0 && matrixKey(g) === matrixKey(SYMMETRY_OPERATIONS.I)),
     isCubic: false,
+    setting: limit.description,
   })
 }
 
 /** Canonical symbol for a user-supplied symbol or alias (`m3m` → `m-3m`, `Td` → `-43m`), or undefined. */
 export function normalizePointGroupSymbol(input: string): string | undefined {
   const s = input.trim().replace(/\s+/g, '').replace(/̄/g, '')
-  if (POINT_GROUP_SYMBOLS.includes(s) || LIMIT_GROUP_TABLE.some((e) => e.symbol === s)) return s
+  if (
+    POINT_GROUP_SYMBOLS.includes(s) ||
+    SETTING_TABLE.some((e) => e.symbol === s) ||
+    LIMIT_GROUP_TABLE.some((e) => e.symbol === s)
+  )
+    return s
   if (ALIASES[s]) return ALIASES[s]
   const bySchoenflies = POINT_GROUP_TABLE.find((e) => e.schoenflies.toLowerCase() === s.toLowerCase())
   return bySchoenflies?.symbol

@@ -5,7 +5,8 @@
  * `crystal.azimuth` 0°, `structure.mirrors` [], `lmax` 4, `window` 8. Required: crystal
  * (pointGroup, normal, reference), structure.rotationOrder, pump, order. `surface: true` replaces
  * the bulk tensor by the isotropic-interface χ(N) (class ∞m, Q = {0}); the point group is still validated.
- * Structure mirrors are used as given (not closed under the rotation order).
+ * Structure mirrors are used as given (not closed under the rotation order), but mirrors that
+ * imply a higher rotation order than `structure.rotationOrder` are refused (INCONSISTENT_SYMMETRY).
  */
 import type { Vec3 } from './linalg'
 import type { PumpSpec } from './pump'
@@ -14,6 +15,7 @@ import { parseDirection } from './directions'
 import { checkCut } from './cut-rotation'
 import { parsePump } from './pump-request'
 import { assertOrder } from './tensor-forms'
+import { checkStructureSymmetry } from './structure'
 import { readArray, readBoolean, readInteger, readNumber, readObject, readString } from './validate'
 
 /** A validated channel request with defaults applied. Vectors: crystal Cartesian frame. */
@@ -53,6 +55,7 @@ export function parseChannelRequest(input: unknown): ChannelRequest {
     rotationOrder: readInteger(s.rotationOrder, 'structure.rotationOrder', 0, 360),
     mirrors: readArray(s.mirrors, 'structure.mirrors', (v, f) => readNumber(v, f), [...CHANNEL_DEFAULTS.mirrors]),
   }
+  checkStructureSymmetry(structure.rotationOrder, structure.mirrors)
   const pump = parsePump(r.pump)
   readNumber(r.order, 'order')
   assertOrder(r.order, 'order')

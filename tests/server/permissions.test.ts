@@ -14,6 +14,7 @@ const MATRIX: MatrixRoute[] = [
   { method: 'get', path: '/api/mail/999999', allowed: ['admin'] },
   { method: 'get', path: '/api/search?q=lab', allowed: EVERYONE },
   { method: 'post', path: '/api/channels', body: {}, allowed: EVERYONE },
+  { method: 'post', path: '/api/polar', body: {}, allowed: EVERYONE },
   { method: 'get', path: '/api/auth/me', allowed: EVERYONE },
   { method: 'post', path: '/api/auth/password', body: {}, allowed: EVERYONE },
 ]

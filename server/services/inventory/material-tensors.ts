@@ -14,26 +14,6 @@ import { BadRequestError } from '../../errors'
  * standard settings, d = χ(2)/2, no factors of 2), and the checks a save makes against it.
  */
 
-/** Axis conventions of the standard settings (see shared/engine/data/generators.ts). */
-function settingOf(symbol: string, system: string): string {
-  const special: Record<string, string> = {
-    '2': 'diad ∥ y',
-    m: 'mirror ⟂ y',
-    '2/m': 'diad ∥ y, mirror ⟂ y',
-    mm2: 'diad ∥ z',
-    '32': 'diad ∥ x',
-    '-3m': 'diad ∥ x',
-    '3m': 'mirror ⟂ x',
-    '-6m2': 'mirror ⟂ x',
-    '-42m': 'diad ∥ x, mirrors diagonal',
-  }
-  if (special[symbol]) return special[symbol]
-  if (system === 'cubic') return 'x ∥ [100], y ∥ [010], z ∥ [001]'
-  if (system === 'triclinic') return 'any right-handed Cartesian frame'
-  if (system === 'orthorhombic') return 'x, y, z along the three diads'
-  return 'z ∥ the principal axis'
-}
-
 function formatEntry(entry: SymbolicEntry): string {
   if (entry.length === 0) return '0'
   return entry
@@ -53,7 +33,7 @@ export function describeDMatrix(pointGroup: string): MaterialDetail['dMatrix'] {
     rows: formDMatrix(form).map((row) => row.map(formatEntry)),
     equalities: describeDMatrixEqualities(form),
     independent: form.independentCount,
-    setting: `IEEE Std 176 standard setting: ${group.symbol} ${settingOf(group.symbol, group.system)}`,
+    setting: `IEEE Std 176 standard setting: ${group.symbol} ${group.setting}`,
   }
 }
 

@@ -16,14 +16,14 @@ export interface PolarSeries {
   color: string
 }
 
-export function polarOption(series: PolarSeries[], title?: string): Record<string, unknown> {
+export function polarOption(series: PolarSeries[], title?: string, angleName = 'θ'): Record<string, unknown> {
   return {
     title: title ? { text: title, left: 'center', textStyle: { fontSize: 14 } } : undefined,
     legend: { bottom: 0, type: 'scroll' },
     tooltip: {
       trigger: 'item',
       formatter: (p: { seriesName: string; value: [number, number] }) =>
-        `${p.seriesName}<br>θ = ${p.value[1].toFixed(0)}°: ${p.value[0].toPrecision(3)}`,
+        `${p.seriesName}<br>${angleName} = ${p.value[1].toFixed(0)}°: ${p.value[0].toPrecision(3)}`,
     },
     polar: { center: ['50%', '48%'], radius: '68%' },
     angleAxis: {

@@ -61,9 +61,9 @@ const STRUCTURES = [
   { rotationOrder: 1 },
   { rotationOrder: 1, mirrors: [45, 225, 45] },
   { rotationOrder: 5, mirrors: [0, 36, 180, -36] },
-  { rotationOrder: 2, mirrors: [0, 90, 30] },
+  { rotationOrder: 6, mirrors: [0, 90, 30] },
   { rotationOrder: 12, mirrors: [15.5] },
-  { rotationOrder: 2, mirrors: Array.from({ length: 100 }, (_, i) => (i * 45) % 360) },
+  { rotationOrder: 4, mirrors: Array.from({ length: 100 }, (_, i) => (i * 45) % 360) },
 ]
 
 /** A seeded generator (LCG), so the request list is the same on every run. */
@@ -101,16 +101,28 @@ function requests(): Record<string, unknown>[] {
   const nested = [1, 2, 3, 4, 5]
     .map((k) => [5, 20, 35, 50, 65].slice(0, k))
     .concat([0, 1, 2, 3, 4, 5].map((j) => [5, 20, 35, 50, 70 + 10 * j]))
+  // Only the mirror lists that agree with the rotation order (the others are refused, see below).
   for (let n = 0; n < 24; n++)
-    for (const mirrors of nested)
-      out.push({
+    for (const mirrors of nested) {
+      const req = {
         crystal: CUTS[0],
         pump: { type: 'linear', angle: 5 },
         structure: { rotationOrder: n, mirrors },
         order: 2,
         window: 12,
-      })
+      }
+      if (isConsistent(req)) out.push(req)
+    }
   return out
+}
+
+function isConsistent(req: unknown): boolean {
+  try {
+    parseChannelRequest(req)
+    return true
+  } catch {
+    return false
+  }
 }
 
 /** Serialise with key order (toEqual ignores it; the CLI contract does not). */
@@ -167,6 +179,7 @@ describe('caches never change an answer', () => {
       { crystal: CUTS[0], pump: { type: 'circular', m: 2 }, structure: STRUCTURES[0], order: 2 },
       { crystal: CUTS[0], pump: PUMPS[0], structure: { rotationOrder: 2, mirrors: [0, 'a'] }, order: 2 },
       { crystal: CUTS[0], pump: PUMPS[0], structure: STRUCTURES[0], order: 6 },
+      { crystal: CUTS[0], pump: PUMPS[0], structure: { rotationOrder: 2, mirrors: [0, 45] }, order: 2 },
     ]
     const message = (r: unknown) => {
       try {

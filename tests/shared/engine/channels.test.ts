@@ -2,6 +2,8 @@ import { describe, it, expect } from 'vitest'
 import fc from 'fast-check'
 import {
   computeChannels,
+  evaluateChannels,
+  parseChannelRequest,
   deriveArraySymmetry,
   getPointGroup,
   POINT_GROUP_SYMBOLS,
@@ -127,7 +129,7 @@ describe('properties (seeded)', () => {
         (pg, normal, p, n, order) => {
           const r = computeChannels({
             crystal: { pointGroup: pg, normal, reference: [normal[2], 0, -normal[0] || 1] },
-            structure: { rotationOrder: n, mirrors: [0, 90] },
+            structure: { rotationOrder: n, mirrors: n % 2 === 0 ? [0, 90] : [0] },
             pump: p,
             order,
           })
@@ -260,5 +262,24 @@ describe('request errors carry code, field and a readable message', () => {
       expect((e as EngineError).message).toMatch(message)
       expect((e as EngineError).message).not.toMatch(/\n/)
     }
+  })
+})
+
+describe('rule 6 with conflicting parities', () => {
+  // A field along the normal that must be even under the mirror at 0° and odd under the one at 90°
+  // is polarised along one line; if the parities ask for two different lines it vanishes (the
+  // parity selection rule of docs/physics.md §3, rule 5; plain symmetry). Such a structure (C1 with
+  // two perpendicular mirrors) is refused on input, so the request is built past the parser here.
+  it('normalEmission.allowed is false whenever the parity rule suppresses it', () => {
+    const req = parseChannelRequest({
+      crystal: zb001,
+      structure: { rotationOrder: 2, mirrors: [0, 90] },
+      pump: { type: 'linear', angle: 0 },
+      order: 2,
+    })
+    const r = evaluateChannels({ ...req, structure: { rotationOrder: 1, mirrors: [0, 90] } })
+    expect(r.normalEmission.suppressedByParity).toBe(true)
+    expect(r.normalEmission.allowed).toBe(false)
+    expect(r.explain.find((s) => s.startsWith('rule 6'))).toMatch(/cancels by symmetry: no harmonic along the normal/)
   })
 })

@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest'
-import { labFrame, rotateToSample, solveTensorForm, toVoigt, EngineError, parseDirection } from '../../../shared/engine'
-import { det3 } from '../../../shared/engine/linalg'
+import { labFrame, rotateToSample, solveTensorForm, toVoigt, EngineError, parseDirection, computeChannels } from '../../../shared/engine'
+import { det3, norm, unitVector } from '../../../shared/engine/linalg'
 
 describe('cut rotation', () => {
   // SHAARP, npj Comput. Mater. 8, 246 (2022), supplementary note 5: zinc-blende d rotated to (111)
@@ -56,5 +56,36 @@ describe('cut rotation', () => {
     expect(() => parseDirection([1, 2], 'crystal.normal', true)).toThrow(
       expect.objectContaining({ code: 'INVALID_DIRECTION' }),
     )
+  })
+})
+
+// A direction has no magnitude: [0, 0, 1e200] and [0, 0, 1e-200] are the z axis. Their squared
+// norms overflow to ∞ or underflow to 0, so the length is taken after scaling by the largest
+// component (the scaled 2-norm of LAPACK's dnrm2: Anderson et al., LAPACK Users' Guide, 3rd ed., 1999).
+describe('huge and tiny direction vectors', () => {
+  it('norm and unitVector survive 1e±200', () => {
+    expect(norm([1e200, 1e200, 0])).toBeCloseTo(Math.SQRT2 * 1e200, -186)
+    expect(norm([3e-200, 4e-200, 0]) / 1e-200).toBeCloseTo(5, 12)
+    expect(unitVector([0, 0, 1e-200])).toEqual([0, 0, 1])
+    expect(unitVector([1e300, 1e300, 0])[0]).toBeCloseTo(Math.SQRT1_2, 15)
+  })
+
+  it('a cut given with huge or tiny vectors has the same lab frame and the same channels', () => {
+    const frame = labFrame({ normal: [0, 0, 1], reference: [1, 0, 0] })
+    for (const s of [1e200, 1e-200, 1e-310]) {
+      const f = labFrame({ normal: [0, 0, s], reference: [s, 0, 0] })
+      f.forEach((v, i) => expect(v).toBeCloseTo(frame[i], 14))
+      const r = computeChannels({ crystal: { pointGroup: '-43m', normal: [0, 0, s], reference: [s, 0, s * 1e-3] }, structure: { rotationOrder: 0, mirrors: [0] }, pump: { type: 'circular', m: 1 }, order: 2 })
+      expect(r.q).toEqual([-2, 2])
+      expect(r.m).toEqual([0, 4])
+    }
+  })
+
+  it('only the exact zero vector is zero; a reference parallel to the normal is judged relative to its length', () => {
+    expect(() => labFrame({ normal: [0, 0, 0], reference: [1, 0, 0] })).toThrow(expect.objectContaining({ code: 'ZERO_VECTOR' }))
+    expect(() => parseDirection([0, 0, 0], 'crystal.normal', true)).toThrow(expect.objectContaining({ code: 'ZERO_VECTOR' }))
+    expect(parseDirection([0, 0, 1e-200], 'crystal.normal', true)).toEqual([0, 0, 1e-200])
+    expect(() => labFrame({ normal: [0, 0, 1e200], reference: [1e180, 0, 1e200] })).toThrow(expect.objectContaining({ code: 'REFERENCE_PARALLEL_TO_NORMAL' }))
+    expect(() => labFrame({ normal: [0, 0, 1e-200], reference: [1e-200, 0, 1e-200] })).not.toThrow()
   })
 })

@@ -6,6 +6,7 @@ import {
   toVoigt,
   rotateToSample,
   countNonZeroVoigt,
+  getPointGroup,
 } from '../../../shared/engine'
 import { rotationAboutAxis } from '../../../shared/engine/linalg'
 
@@ -55,6 +56,23 @@ describe('d-matrix equalities (handbook forms)', () => {
     expect(d[0][1]).toBeCloseTo(-d[0][0], 12)
     expect(d[1][5]).toBeCloseTo(-d[0][0], 12)
     expect(Math.abs(d[0][0])).toBeCloseTo(1, 12)
+  })
+
+  it('-62m is its own setting of D3h (diad ∥ x, mirror ⟂ y): d11 = −d12 = −d26, the -6m2 form turned by 90° (International Tables for Crystallography Vol. A, the −6m2 and −62m orientations)', () => {
+    const g = getPointGroup('-62m')
+    expect(g.symbol).toBe('-62m')
+    expect(g.schoenflies).toBe('D3h')
+    expect(g.order).toBe(12)
+    expect(g.setting).toMatch(/diad ∥ x, mirror ⟂ y/)
+    expect(getPointGroup('-6m2').setting).toMatch(/mirror ⟂ x/)
+    expect(describeDMatrixEqualities(solveTensorForm('-62m', 2))).toEqual(['d11 = −d12 = −d26'])
+    // The same tensor as -6m2 seen with x along its old y axis (up to the sign of the one parameter).
+    const turned = toVoigt(
+      rotateToSample(solveTensorForm('-6m2', 2).tensors[0], 3, rotationAboutAxis([0, 0, 1], -Math.PI / 2)),
+    )
+    const own = toVoigt(solveTensorForm('-62m', 2).tensors[0])
+    const sign = Math.sign(turned[0][0] / own[0][0])
+    own.forEach((row, i) => row.forEach((v, l) => expect(sign * v).toBeCloseTo(turned[i][l], 12)))
   })
 
   it('counts non-zero d-matrix entries: -43m 3, 3m 8', () => {
