@@ -7,7 +7,10 @@ import { demo, screen, signIn } from './fixtures'
  * empty (T. Stehlin et al., Opt. Lett. 13, 389 (1988)); an isotropic surface term adds a two-fold
  * part to p-p (X. Song et al., arXiv:physics/0203023).
  */
-for (const viewport of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800, height: 1280, tag: 'tablet' }]) {
+for (const viewport of [
+  { width: 1440, height: 900, tag: 'desk' },
+  { width: 800, height: 1280, tag: 'tablet' },
+]) {
   test(`oblique-incidence polar patterns (${viewport.tag})`, async ({ page }) => {
     test.setTimeout(60_000)
     await page.setViewportSize(viewport)
@@ -27,7 +30,9 @@ for (const viewport of [{ width: 1440, height: 900, tag: 'desk' }, { width: 800,
     await expect(page.getByTestId('oblique-ps')).toContainText('Fourier orders of I(φ): 0, 4')
     await expect(page.getByTestId('oblique-sp')).toContainText('Fourier orders of I(φ): 0, 4')
     await expect(page.getByTestId('oblique-ss')).toContainText('nothing is detected')
-    await expect(page.getByTestId('oblique-pp').getByRole('img', { name: 'Predicted pattern, p-in / p-out' })).toBeVisible()
+    await expect(
+      page.getByTestId('oblique-pp').getByRole('img', { name: 'Predicted pattern, p-in / p-out' }),
+    ).toBeVisible()
     await expect(page.getByTestId('oblique-geometry')).toContainText('bulk (crystal axes) xyz = 1')
     await screen(page, `crystal-patterns-oblique-${viewport.tag}`)
 

@@ -78,6 +78,8 @@ test('a group lead is offered only the roles they may grant, and cannot change t
   await expect(dialog.getByRole('checkbox', { name: 'Safety officer' })).toHaveCount(0)
   await screen(page, 'invite-dialog-group-lead')
   await dialog.getByRole('button', { name: 'Cancel' }).click()
+  // the invite dialog must be gone before the Edit button can take a click (it fades out)
+  await expect(dialog).toBeHidden()
 
   await page.getByRole('textbox', { name: 'Filter people' }).fill(demo('lead').email)
   await page.getByRole('button', { name: `Edit ${demo('lead').name}` }).click()

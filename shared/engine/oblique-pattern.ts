@@ -80,7 +80,12 @@ const real = (x: number): Complex => [x, 0]
  */
 export function fresnelCrossing(n: Complex, angleDeg: number, direction: 'in' | 'out'): FresnelCrossing {
   if (!(n[0] > 0) || !(n[1] >= 0) || !Number.isFinite(n[0]) || !Number.isFinite(n[1]))
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'fresnel', value: n, message: `the index must have Re n > 0 and Im n ≥ 0, got ${JSON.stringify(n)}` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'fresnel',
+      value: n,
+      message: `the index must have Re n > 0 and Im n ≥ 0, got ${JSON.stringify(n)}`,
+    })
   const a = (angleDeg * Math.PI) / 180
   const cos = real(Math.cos(a))
   const sinInside = cdiv(real(Math.sin(a)), n)
@@ -99,12 +104,24 @@ export function fresnelCrossing(n: Complex, angleDeg: number, direction: 'in' | 
 /** Pump field and detection vector of a geometry (lab frame, sample at φ = 0). */
 export function obliqueFields(g: ObliqueGeometry): ObliqueFields {
   if (!Number.isFinite(g.angleDeg) || g.angleDeg < 0 || g.angleDeg >= 90)
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'incidence.angleDeg', value: g.angleDeg, allowed: '0 ≤ θ < 90', message: `the angle of incidence must be from 0 up to below 90 degrees, got ${JSON.stringify(g.angleDeg)}` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'incidence.angleDeg',
+      value: g.angleDeg,
+      allowed: '0 ≤ θ < 90',
+      message: `the angle of incidence must be from 0 up to below 90 degrees, got ${JSON.stringify(g.angleDeg)}`,
+    })
   const th = (g.angleDeg * Math.PI) / 180
   const al = (g.pumpDeg * Math.PI) / 180
   const be = (g.analyserDeg * Math.PI) / 180
-  let ts: Complex = real(1), tp: Complex = real(1), c: Complex = real(Math.cos(th)), s: Complex = real(Math.sin(th))
-  let Ts: Complex = real(1), Tp: Complex = real(1), C: Complex = c, S: Complex = s
+  let ts: Complex = real(1),
+    tp: Complex = real(1),
+    c: Complex = real(Math.cos(th)),
+    s: Complex = real(Math.sin(th))
+  let Ts: Complex = real(1),
+    Tp: Complex = real(1),
+    C: Complex = c,
+    S: Complex = s
   if (g.fresnel) {
     const pin = fresnelCrossing(g.fresnel.n, g.angleDeg, 'in')
     const out = fresnelCrossing(g.fresnel.n2, g.angleDeg, 'out')
@@ -115,11 +132,14 @@ export function obliqueFields(g: ObliqueGeometry): ObliqueFields {
     C = out.cosInside
     S = out.sinInside
   }
-  const ca = real(Math.cos(al)), sa = real(Math.sin(al))
+  const ca = real(Math.cos(al)),
+    sa = real(Math.sin(al))
   const pa = cmul(ca, tp)
-  // p = k × s: (cos θ, 0, sin θ) for the downgoing pump and transmitted harmonic, (−cos θ, 0, sin θ) for the reflected one.
+  // p = k × s: (cos θ, 0, sin θ) for the downgoing pump and transmitted harmonic, (−cos θ, 0, sin θ) for the reflected
+  // one.
   const pump: Complex[] = [cmul(pa, c), cmul(sa, ts), cmul(pa, s)]
-  const cb = real(Math.cos(be)), sb = real(Math.sin(be))
+  const cb = real(Math.cos(be)),
+    sb = real(Math.sin(be))
   const pb = cmul(cb, Tp)
   const sign = g.detect === 'reflection' ? -1 : 1
   const px = cmul(pb, C)
@@ -134,11 +154,14 @@ function contract(t: Float64Array, rank: number, f: readonly Complex[], e: reado
   let im = new Float64Array(t.length)
   for (let r = rank; r > 1; r--) {
     const n = re.length / 3
-    const nre = new Float64Array(n), nim = new Float64Array(n)
+    const nre = new Float64Array(n),
+      nim = new Float64Array(n)
     for (let i = 0; i < n; i++) {
-      let a = 0, b = 0
+      let a = 0,
+        b = 0
       for (let k = 0; k < 3; k++) {
-        const xr = re[3 * i + k], xi = im[3 * i + k]
+        const xr = re[3 * i + k],
+          xi = im[3 * i + k]
         a += xr * e[k][0] - xi * e[k][1]
         b += xr * e[k][1] + xi * e[k][0]
       }
@@ -148,7 +171,8 @@ function contract(t: Float64Array, rank: number, f: readonly Complex[], e: reado
     re = nre
     im = nim
   }
-  let a = 0, b = 0
+  let a = 0,
+    b = 0
   for (let i = 0; i < 3; i++) {
     a += re[i] * f[i][0] - im[i] * f[i][1]
     b += re[i] * f[i][1] + im[i] * f[i][0]
@@ -158,7 +182,8 @@ function contract(t: Float64Array, rank: number, f: readonly Complex[], e: reado
 
 /** R(−φ)v for a complex 3-vector: the lab vector seen in the frame of the sample turned by φ. */
 function unrotate(v: readonly Complex[], phi: number): Complex[] {
-  const c = Math.cos(phi), s = Math.sin(phi)
+  const c = Math.cos(phi),
+    s = Math.sin(phi)
   return [
     [c * v[0][0] + s * v[1][0], c * v[0][1] + s * v[1][1]],
     [-s * v[0][0] + c * v[1][0], -s * v[0][1] + c * v[1][1]],
@@ -170,7 +195,13 @@ function checkTensor(t: Float64Array): number {
   let rank = 0
   for (let n = t.length; n > 1 && n % 3 === 0; n /= 3) rank++
   if (3 ** rank !== t.length || rank < 3 || rank > 6)
-    throw new EngineError({ code: 'UNSUPPORTED', field: 'tensor', value: t.length, allowed: [27, 81, 243, 729], message: 'the polar pattern needs a χ(N) tensor of rank 3 to 6 (3^(N+1) components)' })
+    throw new EngineError({
+      code: 'UNSUPPORTED',
+      field: 'tensor',
+      value: t.length,
+      allowed: [27, 81, 243, 729],
+      message: 'the polar pattern needs a χ(N) tensor of rank 3 to 6 (3^(N+1) components)',
+    })
   return rank
 }
 
@@ -178,7 +209,11 @@ function checkTensor(t: Float64Array): number {
  * Raw detected intensity I(φ) = |f·χ(φ)⋮E…E|² (arbitrary units, the square of the tensor's) of a
  * lab-frame χ(N) (flat, 3^(N+1) components, at φ = 0) at each azimuth (degrees).
  */
-export function predictObliquePattern(chiLab: Float64Array, geometry: ObliqueGeometry, azimuthsDeg: readonly number[]): number[] {
+export function predictObliquePattern(
+  chiLab: Float64Array,
+  geometry: ObliqueGeometry,
+  azimuthsDeg: readonly number[],
+): number[] {
   const rank = checkTensor(chiLab)
   const { pump, detector } = obliqueFields(geometry)
   return azimuthsDeg.map((deg) => {
@@ -199,7 +234,8 @@ export function fourierAmplitudes(samples: readonly number[]): number[] {
   const M = samples.length
   const out: number[] = []
   for (let k = 0; k < M / 2; k++) {
-    let a = 0, b = 0
+    let a = 0,
+      b = 0
     for (let j = 0; j < M; j++) {
       const x = (2 * Math.PI * k * j) / M
       a += samples[j] * Math.cos(x)

@@ -25,7 +25,14 @@ import { checkCut } from './cut-rotation'
 import { assertOrder, cachedTensorForm } from './tensor-forms'
 import { sampleEntry } from './sample-tensor'
 import { readBoolean, readNumber, readObject, readString } from './validate'
-import { FOURIER_SAMPLES, fourierAmplitudes, obliqueFields, predictObliquePattern, significantOrders, tensorScale } from './oblique-pattern'
+import {
+  FOURIER_SAMPLES,
+  fourierAmplitudes,
+  obliqueFields,
+  predictObliquePattern,
+  significantOrders,
+  tensorScale,
+} from './oblique-pattern'
 import { ENGINE_VERSION } from './version'
 
 /** A validated polar request with defaults applied. Angles in degrees; vectors in the crystal frame. */
@@ -50,7 +57,9 @@ export interface PolarPatternPoint {
 export interface PolarResponse {
   /** Fourier orders k ≥ 0 of I(φ) with amplitude above 1e-9 of the largest, ascending. */
   harmonics: number[]
-  /** One point per `stepDeg` from 0 up to below 360, scaled so that the largest is 1 (all 0 when nothing is detected). */
+  /**
+   * One point per `stepDeg` from 0 up to below 360, scaled so that the largest is 1 (all 0 when nothing is detected).
+   */
   points: PolarPatternPoint[]
   /** Present when nothing is detected in this geometry. */
   note?: string
@@ -60,7 +69,13 @@ export interface PolarResponse {
 }
 
 /** Default values of the optional request fields. */
-export const POLAR_DEFAULTS = { surface: false, kleinman: false, detect: 'reflection', stepDeg: 1, polarization: 'p' } as const
+export const POLAR_DEFAULTS = {
+  surface: false,
+  kleinman: false,
+  detect: 'reflection',
+  stepDeg: 1,
+  polarization: 'p',
+} as const
 
 /** Smallest accepted `stepDeg` (at most 3600 points). */
 export const MIN_STEP_DEG = 0.1
@@ -73,20 +88,35 @@ const ZERO_INTENSITY = 1e-20
 function readPolarization(value: unknown, field: string): number {
   if (value === undefined || value === 'p') return 0
   if (value === 's') return 90
-  if (typeof value === 'object' && value !== null && !Array.isArray(value)) return readNumber((value as Record<string, unknown>).angleDeg, `${field}.angleDeg`)
+  if (typeof value === 'object' && value !== null && !Array.isArray(value))
+    return readNumber((value as Record<string, unknown>).angleDeg, `${field}.angleDeg`)
   throw new EngineError({
-    code: 'INVALID_TYPE', field, value, allowed: ['p', 's', '{ "angleDeg": α }'],
+    code: 'INVALID_TYPE',
+    field,
+    value,
+    allowed: ['p', 's', '{ "angleDeg": α }'],
     message: `must be "p", "s" or { "angleDeg": α } (degrees from p toward s), got ${formatValue(value)}`,
   })
 }
 
 function readComplex(value: unknown, field: string): Complex {
   if (!Array.isArray(value) || value.length !== 2)
-    throw new EngineError({ code: 'INVALID_TYPE', field, value, message: `must be a complex index [re, im], got ${formatValue(value)}` })
+    throw new EngineError({
+      code: 'INVALID_TYPE',
+      field,
+      value,
+      message: `must be a complex index [re, im], got ${formatValue(value)}`,
+    })
   const re = readNumber(value[0], `${field}.0`)
   const im = readNumber(value[1], `${field}.1`)
   if (!(re > 0) || im < 0 || re > 100 || im > 100)
-    throw new EngineError({ code: 'OUT_OF_RANGE', field, value, allowed: '0 < re ≤ 100, 0 ≤ im ≤ 100', message: `the refractive index needs 0 < Re n ≤ 100 and 0 ≤ Im n ≤ 100 (Im > 0 absorbing), got ${formatValue(value)}` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field,
+      value,
+      allowed: '0 < re ≤ 100, 0 ≤ im ≤ 100',
+      message: `the refractive index needs 0 < Re n ≤ 100 and 0 ≤ Im n ≤ 100 (Im > 0 absorbing), got ${formatValue(value)}`,
+    })
   return [re, im]
 }
 
@@ -97,7 +127,13 @@ function readCoefficients(value: unknown, field: string): Record<string, number>
   for (const [k, v] of Object.entries(o)) {
     const w = readNumber(v, `${field}.${k}`)
     if (Math.abs(w) > MAX_COEFFICIENT)
-      throw new EngineError({ code: 'OUT_OF_RANGE', field: `${field}.${k}`, value: v, allowed: `|w| ≤ ${MAX_COEFFICIENT}`, message: `a coefficient must be at most ${MAX_COEFFICIENT} in size (only ratios matter), got ${formatValue(v)}` })
+      throw new EngineError({
+        code: 'OUT_OF_RANGE',
+        field: `${field}.${k}`,
+        value: v,
+        allowed: `|w| ≤ ${MAX_COEFFICIENT}`,
+        message: `a coefficient must be at most ${MAX_COEFFICIENT} in size (only ratios matter), got ${formatValue(v)}`,
+      })
     out[k] = w
   }
   return out
@@ -110,7 +146,12 @@ export function parsePolarRequest(input: unknown): PolarRequest {
   let crystal: PolarRequest['crystal'] = null
   if (r.crystal === undefined || r.crystal === null) {
     if (!surface)
-      throw new EngineError({ code: 'MISSING_FIELD', field: 'crystal', value: r.crystal, message: 'a crystal is required unless surface is true (a surface-only sample)' })
+      throw new EngineError({
+        code: 'MISSING_FIELD',
+        field: 'crystal',
+        value: r.crystal,
+        message: 'a crystal is required unless surface is true (a surface-only sample)',
+      })
   } else {
     const c = readObject(r.crystal, 'crystal')
     const group = getPointGroup(readString(c.pointGroup, 'crystal.pointGroup'), 'crystal.pointGroup')
@@ -125,13 +166,31 @@ export function parsePolarRequest(input: unknown): PolarRequest {
   const inc = readObject(r.incidence, 'incidence')
   const angleDeg = readNumber(inc.angleDeg, 'incidence.angleDeg')
   if (angleDeg < 0 || angleDeg >= 90)
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'incidence.angleDeg', value: angleDeg, allowed: '0 ≤ θ < 90', message: `the angle of incidence must be from 0 up to below 90 degrees, got ${angleDeg}` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'incidence.angleDeg',
+      value: angleDeg,
+      allowed: '0 ≤ θ < 90',
+      message: `the angle of incidence must be from 0 up to below 90 degrees, got ${angleDeg}`,
+    })
   const detect = inc.detect === undefined ? POLAR_DEFAULTS.detect : readString(inc.detect, 'incidence.detect')
   if (detect !== 'reflection' && detect !== 'transmission')
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'incidence.detect', value: detect, allowed: ['reflection', 'transmission'], message: `must be "reflection" or "transmission", got ${formatValue(detect)}` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'incidence.detect',
+      value: detect,
+      allowed: ['reflection', 'transmission'],
+      message: `must be "reflection" or "transmission", got ${formatValue(detect)}`,
+    })
   const stepDeg = readNumber(r.stepDeg, 'stepDeg', POLAR_DEFAULTS.stepDeg)
   if (stepDeg < MIN_STEP_DEG || stepDeg > 360)
-    throw new EngineError({ code: 'OUT_OF_RANGE', field: 'stepDeg', value: stepDeg, allowed: `${MIN_STEP_DEG} to 360`, message: `the step must be from ${MIN_STEP_DEG} to 360 degrees, got ${stepDeg}` })
+    throw new EngineError({
+      code: 'OUT_OF_RANGE',
+      field: 'stepDeg',
+      value: stepDeg,
+      allowed: `${MIN_STEP_DEG} to 360`,
+      message: `the step must be from ${MIN_STEP_DEG} to 360 degrees, got ${stepDeg}`,
+    })
   let fresnel: ObliqueGeometry['fresnel']
   if (r.fresnel !== undefined && r.fresnel !== false) {
     const f = readObject(r.fresnel, 'fresnel')
@@ -142,20 +201,39 @@ export function parsePolarRequest(input: unknown): PolarRequest {
   const coefficients = readCoefficients(r.coefficients, 'coefficients')
   const surfaceCoefficients = readCoefficients(r.surfaceCoefficients, 'surfaceCoefficients')
   const request: PolarRequest = {
-    crystal, surface, kleinman, order: r.order, stepDeg, coefficients, surfaceCoefficients,
+    crystal,
+    surface,
+    kleinman,
+    order: r.order,
+    stepDeg,
+    coefficients,
+    surfaceCoefficients,
     geometry: {
-      angleDeg, detect: detect as Detection, fresnel,
-      pumpDeg: readPolarization(r.pump, 'pump'), analyserDeg: readPolarization(r.analyser, 'analyser'),
+      angleDeg,
+      detect: detect as Detection,
+      fresnel,
+      pumpDeg: readPolarization(r.pump, 'pump'),
+      analyserDeg: readPolarization(r.analyser, 'analyser'),
     },
   }
   // Unknown coefficient labels are refused here, so a typo never silently weighs 1.
   const symmetry: PermutationSymmetry = kleinman ? 'kleinman' : 'intrinsic'
   if (crystal) weights(cachedTensorForm(crystal.pointGroup, request.order, { symmetry }), coefficients, 'coefficients')
   else if (Object.keys(coefficients).length)
-    throw new EngineError({ code: 'UNSUPPORTED', field: 'coefficients', value: coefficients, message: 'bulk coefficients need a crystal' })
+    throw new EngineError({
+      code: 'UNSUPPORTED',
+      field: 'coefficients',
+      value: coefficients,
+      message: 'bulk coefficients need a crystal',
+    })
   if (surface) weights(cachedTensorForm('∞m', request.order, { symmetry }), surfaceCoefficients, 'surfaceCoefficients')
   else if (Object.keys(surfaceCoefficients).length)
-    throw new EngineError({ code: 'UNSUPPORTED', field: 'surfaceCoefficients', value: surfaceCoefficients, message: 'surface coefficients need surface: true' })
+    throw new EngineError({
+      code: 'UNSUPPORTED',
+      field: 'surfaceCoefficients',
+      value: surfaceCoefficients,
+      message: 'surface coefficients need surface: true',
+    })
   return request
 }
 
@@ -165,7 +243,10 @@ function weights(form: TensorForm, given: Record<string, number>, field: string)
   for (const k of Object.keys(given))
     if (!labels.includes(k))
       throw new EngineError({
-        code: 'OUT_OF_RANGE', field: `${field}.${k}`, value: k, allowed: labels,
+        code: 'OUT_OF_RANGE',
+        field: `${field}.${k}`,
+        value: k,
+        allowed: labels,
         message: labels.length
           ? `${JSON.stringify(k)} is not an independent element of this χ(${form.order}); expected one of ${labels.join(', ')}`
           : `this χ(${form.order}) has no independent element (it vanishes)`,
@@ -180,7 +261,10 @@ function addWeighted(into: Float64Array, tensors: readonly Float64Array[], w: re
 }
 
 /** The sample's lab-frame χ(N) (bulk plus optional interface term) and the weights used. */
-export function polarSampleTensor(req: PolarRequest): { tensor: Float64Array; coefficients: PolarResponse['coefficients'] } {
+export function polarSampleTensor(req: PolarRequest): {
+  tensor: Float64Array
+  coefficients: PolarResponse['coefficients']
+} {
   const symmetry: PermutationSymmetry = req.kleinman ? 'kleinman' : 'intrinsic'
   const tensor = new Float64Array(3 ** (req.order + 1))
   const coefficients: PolarResponse['coefficients'] = {}
@@ -225,16 +309,22 @@ export function evaluatePolar(req: PolarRequest): PolarResponse {
   const peak = Math.max(...sampled, ...raw)
   if (!(peak > ZERO_INTENSITY * bound)) {
     return {
-      harmonics: [], points: azimuths.map((azimuthDeg) => ({ azimuthDeg, intensity: 0 })),
+      harmonics: [],
+      points: azimuths.map((azimuthDeg) => ({ azimuthDeg, intensity: 0 })),
       note: 'nothing is detected in this geometry: the tensor gives no field along the analyser at any azimuth',
-      coefficients, engineVersion: ENGINE_VERSION,
+      coefficients,
+      engineVersion: ENGINE_VERSION,
     }
   }
   const floor = ZERO_INTENSITY * bound
   const rawMax = Math.max(...raw)
   return {
     harmonics: significantOrders(fourierAmplitudes(sampled)),
-    points: azimuths.map((azimuthDeg, i) => ({ azimuthDeg, intensity: rawMax > floor && raw[i] > floor ? raw[i] / rawMax : 0 })),
-    coefficients, engineVersion: ENGINE_VERSION,
+    points: azimuths.map((azimuthDeg, i) => ({
+      azimuthDeg,
+      intensity: rawMax > floor && raw[i] > floor ? raw[i] / rawMax : 0,
+    })),
+    coefficients,
+    engineVersion: ENGINE_VERSION,
   }
 }

@@ -89,7 +89,10 @@ function gcd(a: number, b: number): number {
 /** Largest rotation order accepted anywhere (a structure request's `rotationOrder` is 0…360). */
 export const MAX_ROTATION_ORDER = 360
 
-/** Smallest k ≥ 1 with k·angle ≡ 0 (mod 360°), or 0 when none is ≤ {@link MAX_ROTATION_ORDER} (a rotation of infinite order). */
+/**
+ * Smallest k ≥ 1 with k·angle ≡ 0 (mod 360°), or 0 when none is ≤ {@link MAX_ROTATION_ORDER} (a rotation of infinite
+ * order).
+ */
 function rotationOrderOf(angleDeg: number): number {
   const turns = (((angleDeg / 360) % 1) + 1) % 1
   for (let k = 1; k <= MAX_ROTATION_ORDER; k++) {
@@ -129,14 +132,20 @@ export function checkStructureSymmetry(rotationOrder: number, mirrors: readonly 
   if (rotationOrder === 0 || mirrors.length < 2) return
   const n = generatedRotationOrder(rotationOrder, mirrors)
   if (n === rotationOrder) return
-  const given = [...new Set(mirrors.map(normalizeMirror))].sort((a, b) => a - b).map((m) => `${m}°`).join(', ')
+  const given = [...new Set(mirrors.map(normalizeMirror))]
+    .sort((a, b) => a - b)
+    .map((m) => `${m}°`)
+    .join(', ')
   const own = structureGroupName({ rotationOrder, mirrors: [0] })
   const generated = structureGroupName({ rotationOrder: n, mirrors: [0] })
-  const fix = n === 0
-    ? 'give rotationOrder 0 (a body of revolution) or drop a mirror'
-    : `give rotationOrder ${n} with mirrors ${Array.from({ length: n }, (_, k) => `${normalizeMirror(mirrors[0] + (k * 180) / n)}°`).join(', ')}, or drop a mirror`
+  const fix =
+    n === 0
+      ? 'give rotationOrder 0 (a body of revolution) or drop a mirror'
+      : `give rotationOrder ${n} with mirrors ${Array.from({ length: n }, (_, k) => `${normalizeMirror(mirrors[0] + (k * 180) / n)}°`).join(', ')}, or drop a mirror`
   throw new EngineError({
-    code: 'INCONSISTENT_SYMMETRY', field: `${field}.mirrors`, value: mirrors,
+    code: 'INCONSISTENT_SYMMETRY',
+    field: `${field}.mirrors`,
+    value: mirrors,
     message: `the mirrors ${given} with a ${rotationOrder}-fold axis generate ${generated}, not ${own}: two mirrors at ψ₁ and ψ₂ imply a rotation by 2(ψ₂ − ψ₁)`,
     hint: fix,
   })

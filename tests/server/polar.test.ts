@@ -3,12 +3,20 @@ import request from 'supertest'
 import { startTestApp, signedInAs } from './helpers'
 
 let t: Awaited<ReturnType<typeof startTestApp>>
-beforeAll(async () => { t = await startTestApp() })
-afterAll(async () => { await t.stop() })
+beforeAll(async () => {
+  t = await startTestApp()
+})
+afterAll(async () => {
+  await t.stop()
+})
 
 const zincBlende001 = {
   crystal: { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0] },
-  surface: false, order: 2, incidence: { angleDeg: 45, detect: 'reflection' }, stepDeg: 15, fresnel: false,
+  surface: false,
+  order: 2,
+  incidence: { angleDeg: 45, detect: 'reflection' },
+  stepDeg: 15,
+  fresnel: false,
 }
 
 describe('POST /api/polar', () => {
@@ -25,7 +33,17 @@ describe('POST /api/polar', () => {
 
   it('answers a surface-only sample (no crystal)', async () => {
     const agent = await signedInAs(t.app, 'fab_technician')
-    const res = await agent.post('/api/polar').send({ surface: true, crystal: null, order: 2, incidence: { angleDeg: 60 }, pump: 'p', analyser: 'p', stepDeg: 90 })
+    const res = await agent
+      .post('/api/polar')
+      .send({
+        surface: true,
+        crystal: null,
+        order: 2,
+        incidence: { angleDeg: 60 },
+        pump: 'p',
+        analyser: 'p',
+        stepDeg: 90,
+      })
     expect(res.status).toBe(200)
     expect(res.body.harmonics).toEqual([0])
   })
@@ -44,7 +62,9 @@ describe('POST /api/polar', () => {
   })
 
   it('needs a signed-in user', async () => {
-    const res = await request(t.app).post('/api/polar').send({ ...zincBlende001, pump: 'p', analyser: 'p' })
+    const res = await request(t.app)
+      .post('/api/polar')
+      .send({ ...zincBlende001, pump: 'p', analyser: 'p' })
     expect(res.status).toBe(401)
   })
 })

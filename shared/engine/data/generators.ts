@@ -69,7 +69,13 @@ export const POINT_GROUP_TABLE: readonly PointGroupEntry[] = [
   { symbol: '-1', schoenflies: 'Ci', system: 'triclinic', generators: ['I'] },
   { symbol: '2', schoenflies: 'C2', system: 'monoclinic', generators: ['C2y'], setting: 'diad ∥ y' },
   { symbol: 'm', schoenflies: 'Cs', system: 'monoclinic', generators: ['My'], setting: 'mirror ⟂ y' },
-  { symbol: '2/m', schoenflies: 'C2h', system: 'monoclinic', generators: ['C2y', 'I'], setting: 'diad ∥ y, mirror ⟂ y' },
+  {
+    symbol: '2/m',
+    schoenflies: 'C2h',
+    system: 'monoclinic',
+    generators: ['C2y', 'I'],
+    setting: 'diad ∥ y, mirror ⟂ y',
+  },
   { symbol: '222', schoenflies: 'D2', system: 'orthorhombic', generators: ['C2z', 'C2x'] },
   { symbol: 'mm2', schoenflies: 'C2v', system: 'orthorhombic', generators: ['Mx', 'My'], setting: 'diad ∥ z' },
   { symbol: 'mmm', schoenflies: 'D2h', system: 'orthorhombic', generators: ['C2z', 'C2x', 'I'] },
@@ -78,7 +84,13 @@ export const POINT_GROUP_TABLE: readonly PointGroupEntry[] = [
   { symbol: '4/m', schoenflies: 'C4h', system: 'tetragonal', generators: ['C4z', 'I'] },
   { symbol: '422', schoenflies: 'D4', system: 'tetragonal', generators: ['C4z', 'C2x'] },
   { symbol: '4mm', schoenflies: 'C4v', system: 'tetragonal', generators: ['C4z', 'Mx'] },
-  { symbol: '-42m', schoenflies: 'D2d', system: 'tetragonal', generators: ['S4z', 'C2x'], setting: 'diad ∥ x, mirrors diagonal' },
+  {
+    symbol: '-42m',
+    schoenflies: 'D2d',
+    system: 'tetragonal',
+    generators: ['S4z', 'C2x'],
+    setting: 'diad ∥ x, mirrors diagonal',
+  },
   { symbol: '4/mmm', schoenflies: 'D4h', system: 'tetragonal', generators: ['C4z', 'C2x', 'I'] },
   { symbol: '3', schoenflies: 'C3', system: 'trigonal', generators: ['C3z'] },
   { symbol: '-3', schoenflies: 'C3i', system: 'trigonal', generators: ['C3z', 'I'] },
@@ -90,7 +102,13 @@ export const POINT_GROUP_TABLE: readonly PointGroupEntry[] = [
   { symbol: '6/m', schoenflies: 'C6h', system: 'hexagonal', generators: ['C6z', 'I'] },
   { symbol: '622', schoenflies: 'D6', system: 'hexagonal', generators: ['C6z', 'C2x'] },
   { symbol: '6mm', schoenflies: 'C6v', system: 'hexagonal', generators: ['C6z', 'Mx'] },
-  { symbol: '-6m2', schoenflies: 'D3h', system: 'hexagonal', generators: ['C3z', 'Mz', 'Mx'], setting: 'mirror ⟂ x (d22 family)' },
+  {
+    symbol: '-6m2',
+    schoenflies: 'D3h',
+    system: 'hexagonal',
+    generators: ['C3z', 'Mz', 'Mx'],
+    setting: 'mirror ⟂ x (d22 family)',
+  },
   { symbol: '6/mmm', schoenflies: 'D6h', system: 'hexagonal', generators: ['C6z', 'C2x', 'I'] },
   { symbol: '23', schoenflies: 'T', system: 'cubic', generators: ['C2z', 'C2x', 'C3xyz'] },
   { symbol: 'm-3', schoenflies: 'Th', system: 'cubic', generators: ['C2z', 'C2x', 'C3xyz', 'I'] },
@@ -106,7 +124,13 @@ export const POINT_GROUP_TABLE: readonly PointGroupEntry[] = [
  * Tables for Crystallography Vol. A, the two orientations −6m2 and −62m of class D3h.
  */
 export const SETTING_TABLE: readonly PointGroupEntry[] = [
-  { symbol: '-62m', schoenflies: 'D3h', system: 'hexagonal', generators: ['C3z', 'Mz', 'C2x'], setting: 'diad ∥ x, mirror ⟂ y (d11 family)' },
+  {
+    symbol: '-62m',
+    schoenflies: 'D3h',
+    system: 'hexagonal',
+    generators: ['C3z', 'Mz', 'C2x'],
+    setting: 'diad ∥ x, mirror ⟂ y (d11 family)',
+  },
 ]
 
 /** Rotation angle (rad) incommensurate with 2π: invariance under it implies invariance under every

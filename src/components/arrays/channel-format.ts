@@ -27,7 +27,8 @@ export function formatParity(r: ChannelResponse): string {
 
 export function formatNormal(r: ChannelResponse): { isAllowed: boolean; text: string } {
   const n = r.normalEmission
-  if (n.suppressedByParity) return { isAllowed: false, text: 'No emission along the normal: m = ±1 fits, but the mirror parities cancel it' }
+  if (n.suppressedByParity)
+    return { isAllowed: false, text: 'No emission along the normal: m = ±1 fits, but the mirror parities cancel it' }
   if (!n.allowed) return { isAllowed: false, text: 'No emission along the normal' }
   const ms = n.m.map(signed).join(', ')
   if (n.handedness?.length) return { isAllowed: true, text: `Yes, ${n.handedness.join(' and ')} (m = ${ms})` }

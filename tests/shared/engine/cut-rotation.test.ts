@@ -1,5 +1,13 @@
 import { describe, it, expect } from 'vitest'
-import { labFrame, rotateToSample, solveTensorForm, toVoigt, EngineError, parseDirection, computeChannels } from '../../../shared/engine'
+import {
+  labFrame,
+  rotateToSample,
+  solveTensorForm,
+  toVoigt,
+  EngineError,
+  parseDirection,
+  computeChannels,
+} from '../../../shared/engine'
 import { det3, norm, unitVector } from '../../../shared/engine/linalg'
 
 describe('cut rotation', () => {
@@ -75,17 +83,28 @@ describe('huge and tiny direction vectors', () => {
     for (const s of [1e200, 1e-200, 1e-310]) {
       const f = labFrame({ normal: [0, 0, s], reference: [s, 0, 0] })
       f.forEach((v, i) => expect(v).toBeCloseTo(frame[i], 14))
-      const r = computeChannels({ crystal: { pointGroup: '-43m', normal: [0, 0, s], reference: [s, 0, s * 1e-3] }, structure: { rotationOrder: 0, mirrors: [0] }, pump: { type: 'circular', m: 1 }, order: 2 })
+      const r = computeChannels({
+        crystal: { pointGroup: '-43m', normal: [0, 0, s], reference: [s, 0, s * 1e-3] },
+        structure: { rotationOrder: 0, mirrors: [0] },
+        pump: { type: 'circular', m: 1 },
+        order: 2,
+      })
       expect(r.q).toEqual([-2, 2])
       expect(r.m).toEqual([0, 4])
     }
   })
 
   it('only the exact zero vector is zero; a reference parallel to the normal is judged relative to its length', () => {
-    expect(() => labFrame({ normal: [0, 0, 0], reference: [1, 0, 0] })).toThrow(expect.objectContaining({ code: 'ZERO_VECTOR' }))
-    expect(() => parseDirection([0, 0, 0], 'crystal.normal', true)).toThrow(expect.objectContaining({ code: 'ZERO_VECTOR' }))
+    expect(() => labFrame({ normal: [0, 0, 0], reference: [1, 0, 0] })).toThrow(
+      expect.objectContaining({ code: 'ZERO_VECTOR' }),
+    )
+    expect(() => parseDirection([0, 0, 0], 'crystal.normal', true)).toThrow(
+      expect.objectContaining({ code: 'ZERO_VECTOR' }),
+    )
     expect(parseDirection([0, 0, 1e-200], 'crystal.normal', true)).toEqual([0, 0, 1e-200])
-    expect(() => labFrame({ normal: [0, 0, 1e200], reference: [1e180, 0, 1e200] })).toThrow(expect.objectContaining({ code: 'REFERENCE_PARALLEL_TO_NORMAL' }))
+    expect(() => labFrame({ normal: [0, 0, 1e200], reference: [1e180, 0, 1e200] })).toThrow(
+      expect.objectContaining({ code: 'REFERENCE_PARALLEL_TO_NORMAL' }),
+    )
     expect(() => labFrame({ normal: [0, 0, 1e-200], reference: [1e-200, 0, 1e-200] })).not.toThrow()
   })
 })

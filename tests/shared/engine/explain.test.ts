@@ -45,12 +45,18 @@ describe('explanations of many mirrors', () => {
   it('a body of revolution gets one structure line and one line per reason, not one per 15°', () => {
     const r = computeChannels({
       crystal: { pointGroup: '-43m', normal: [0, 0, 1], reference: [1, 0, 0] },
-      structure: { rotationOrder: 0, mirrors: Array.from({ length: 12 }, (_, k) => k * 15) }, pump: { type: 'linear', angle: 0 }, order: 2,
+      structure: { rotationOrder: 0, mirrors: Array.from({ length: 12 }, (_, k) => k * 15) },
+      pump: { type: 'linear', angle: 0 },
+      order: 2,
     })
     const structure = r.explain.filter((s) => s.startsWith('structure:'))
-    expect(structure).toEqual(['structure: C∞v, rotation order ∞ (body of revolution), every vertical mirror (the 12 lines given, 0° … 165°, stand for them)'])
+    expect(structure).toEqual([
+      'structure: C∞v, rotation order ∞ (body of revolution), every vertical mirror (the 12 lines given, 0° … 165°, stand for them)',
+    ])
     expect(r.explain.filter((s) => s.startsWith('no parity rule'))).toHaveLength(2)
-    expect(r.explain).toContain('no parity rule at the mirrors 45° and 135°: the pump has no definite parity under them')
+    expect(r.explain).toContain(
+      'no parity rule at the mirrors 45° and 135°: the pump has no definite parity under them',
+    )
     expect(r.explain.filter((s) => s.startsWith('rule 5'))).toHaveLength(2)
   })
 })
