@@ -33,17 +33,15 @@ describe('POST /api/polar', () => {
 
   it('answers a surface-only sample (no crystal)', async () => {
     const agent = await signedInAs(t.app, 'fab_technician')
-    const res = await agent
-      .post('/api/polar')
-      .send({
-        surface: true,
-        crystal: null,
-        order: 2,
-        incidence: { angleDeg: 60 },
-        pump: 'p',
-        analyser: 'p',
-        stepDeg: 90,
-      })
+    const res = await agent.post('/api/polar').send({
+      surface: true,
+      crystal: null,
+      order: 2,
+      incidence: { angleDeg: 60 },
+      pump: 'p',
+      analyser: 'p',
+      stepDeg: 90,
+    })
     expect(res.status).toBe(200)
     expect(res.body.harmonics).toEqual([0])
   })
